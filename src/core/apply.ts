@@ -1,0 +1,164 @@
+/**
+ * Applying a recipe to rows, in named phases:
+ *
+ *   compilePlan (plan.ts)     recipe + header → per-column plans, code tables, cached resolvers
+ *   resolve                   each distinct cell text → level / number / missing / unseen / reject
+ *   encode                    per row: a level index or a scaled number, plus missing flags
+ *   report (apply-report.ts)  counts of what each policy did, unseen levels, rejected rows
+ *   write (csv-write.ts)      encoded rows → RFC 4180 bytes; or encodeWindow → numbers for a preview
+ *
+ * The page (whole table, or a visible window of it) and the command line (streamed batches) call
+ * the same functions, so they produce the same bytes.
+ */
+import { cellText, type Column, type Table } from './columns.ts';
+import type { ApplyReportBuilder } from './apply-report.ts';
+import { ALL_ZEROS, type CategoricalPlan, type ContinuousPlan, type LevelResolution, type Plan } from './plan.ts';
+
+/** One encoded column of a batch; arrays are indexed by row − start. */
+export type EncodedColumn =
+  | { readonly kind: 'levels'; readonly level: Int32Array; readonly missing: Uint8Array }
+  | { readonly kind: 'numbers'; readonly values: Float64Array; readonly missing: Uint8Array }
+  | { readonly kind: 'text'; readonly source: Column | null }
+  | { readonly kind: 'none' };
+
+export interface EncodedBatch {
+  /** First and one-past-last row of the table that were encoded. */
+  readonly start: number;
+  readonly end: number;
+  /** Parallel to plan.columns. */
+  readonly columns: readonly EncodedColumn[];
+  /** rejected[row − start] is 1 when a policy rejected the row; such rows are not written. */
+  readonly rejected: Uint8Array;
+  readonly rejectedCount: number;
+}
+
+/** Encodes rows [start, end) of `table` (default: all); records what happened in `report` when given. */
+export function encodeBatch(plan: Plan, table: Table, start = 0, end = table.rowCount, report?: ApplyReportBuilder): EncodedBatch {
+  const rows = Math.max(0, end - start);
+  const rejected = new Uint8Array(rows);
+  const position = sourcePositions(plan, table);
+  const columns = plan.columns.map((columnPlan, i): EncodedColumn => {
+    const source = position[i] === -1 ? null : (table.columns[position[i] ?? -1] ?? null);
+    switch (columnPlan.kind) {
+      case 'categorical':
+        return encodeLevels(columnPlan, source, start, rows, rejected, table, report);
+      case 'continuous':
+        return encodeNumbers(columnPlan, source, start, rows, rejected, table, report);
+      case 'identifier':
+        return { kind: 'text', source };
+      case 'excluded':
+        return { kind: 'none' };
+    }
+  });
+  let rejectedCount = 0;
+  for (let r = 0; r < rows; r++) rejectedCount += rejected[r] ?? 0;
+  report?.rowsDone(rows, rejectedCount);
+  return { start, end: start + rows, columns, rejected, rejectedCount };
+}
+
+/** The table's column index for each plan column, matched by name (batches may come from any file). */
+function sourcePositions(plan: Plan, table: Table): number[] {
+  if (table.names === plan.header) return plan.columns.map((c) => c.source);
+  const byName = new Map<string, number>();
+  table.names.forEach((name, i) => byName.has(name) || byName.set(name, i));
+  return plan.columns.map((c) => byName.get(c.recipe.name) ?? -1);
+}
+
+/** Calls `visit(offset, text)` for rows of a column that is absent or number-stored (text columns are resolved per code). */
+function forEachCell(source: Column | null, start: number, rows: number, visit: (offset: number, text: string) => void): void {
+  for (let r = 0; r < rows; r++) visit(r, source === null ? '' : cellText(source, start + r));
+}
+
+function encodeLevels(
+  plan: CategoricalPlan, source: Column | null, start: number, rows: number, rejected: Uint8Array, table: Table, report?: ApplyReportBuilder,
+): EncodedColumn {
+  const level = new Int32Array(rows);
+  const missing = new Uint8Array(rows);
+  const note = (r: number, text: string, outcome: LevelResolution): void => {
+    level[r] = outcome.level;
+    missing[r] = outcome.missing ? 1 : 0;
+    if (outcome.reject !== null) rejected[r] = 1;
+    if (report && (outcome.missing || outcome.unseen || outcome.reject !== null)) report.cell(plan, start + r, table.lineOfRow[start + r] ?? 0, text, outcome);
+  };
+  if (source?.kind === 'text') {
+    // Resolve each distinct value once; the row loop is then a lookup by code.
+    const outcomes = source.values.map((text) => plan.resolve(text));
+    const ordinary = outcomes.map((o) => !o.missing && !o.unseen && o.reject === null);
+    for (let r = 0; r < rows; r++) {
+      const code = source.codes[start + r] ?? 0;
+      const outcome = outcomes[code]!;
+      if (ordinary[code]) level[r] = outcome.level;
+      else note(r, source.values[code] ?? '', outcome);
+    }
+  } else {
+    forEachCell(source, start, rows, (r, text) => note(r, text, plan.resolve(text)));
+  }
+  return { kind: 'levels', level, missing };
+}
+
+function encodeNumbers(
+  plan: ContinuousPlan, source: Column | null, start: number, rows: number, rejected: Uint8Array, table: Table, report?: ApplyReportBuilder,
+): EncodedColumn {
+  const values = new Float64Array(rows);
+  const missing = new Uint8Array(rows);
+  const { center, scale } = plan.transform;
+  if (source?.kind === 'number') {
+    // Plain numbers need no text at all; only the exceptions are resolved as text.
+    for (let r = 0; r < rows; r++) {
+      const v = source.values[start + r] ?? NaN;
+      if (!Number.isNaN(v) && !source.exceptions.has(start + r)) values[r] = (v - center) / scale;
+      else numberCell(plan, cellText(source, start + r), r, start, values, missing, rejected, table, report);
+    }
+  } else if (source?.kind === 'text') {
+    const outcomes = source.values.map((text) => plan.resolve(text));
+    for (let r = 0; r < rows; r++) {
+      const code = source.codes[start + r] ?? 0;
+      const outcome = outcomes[code]!;
+      if (!outcome.missing && !outcome.invalid) values[r] = (outcome.value - center) / scale;
+      else numberCell(plan, source.values[code] ?? '', r, start, values, missing, rejected, table, report);
+    }
+  } else {
+    for (let r = 0; r < rows; r++) numberCell(plan, '', r, start, values, missing, rejected, table, report);
+  }
+  return { kind: 'numbers', values, missing };
+}
+
+function numberCell(
+  plan: ContinuousPlan, text: string, r: number, start: number, values: Float64Array, missing: Uint8Array, rejected: Uint8Array, table: Table, report?: ApplyReportBuilder,
+): void {
+  const outcome = plan.resolve(text);
+  values[r] = (outcome.value - plan.transform.center) / plan.transform.scale;
+  missing[r] = outcome.missing ? 1 : 0;
+  if (outcome.reject !== null) rejected[r] = 1;
+  if (report && (outcome.missing || outcome.invalid || outcome.reject !== null)) report.cell(plan, start + r, table.lineOfRow[start + r] ?? 0, text, outcome);
+}
+
+/** The numbers of one encoded row's columns for `columnIndex`, written into `out` at the plan's offset. */
+export function writeEncodedColumn(plan: Plan, batch: EncodedBatch, columnIndex: number, row: number, out: Float64Array, rowOffset: number): void {
+  const columnPlan = plan.columns[columnIndex];
+  const encoded = batch.columns[columnIndex];
+  if (!columnPlan || !encoded) return;
+  const base = rowOffset + columnPlan.offset;
+  if (encoded.kind === 'levels' && columnPlan.kind === 'categorical') {
+    const { width, matrix } = columnPlan.codes;
+    const level = encoded.level[row] ?? ALL_ZEROS;
+    for (let j = 0; j < width; j++) out[base + j] = level === ALL_ZEROS ? 0 : (matrix[level * width + j] ?? 0);
+    if (columnPlan.indicator) out[base + width] = encoded.missing[row] ?? 0;
+  } else if (encoded.kind === 'numbers' && columnPlan.kind === 'continuous') {
+    out[base] = encoded.values[row] ?? NaN;
+    if (columnPlan.indicator) out[base + 1] = encoded.missing[row] ?? 0;
+  } else if (encoded.kind === 'text') {
+    // Identifiers are text; a numeric preview shows them as NaN and the caller shows the text.
+    out[base] = NaN;
+  }
+}
+
+/** Numbers of rows [start, end) as a row-major matrix (rows × plan.outputs.length), for previews. */
+export function encodeWindow(plan: Plan, table: Table, start: number, end: number): { values: Float64Array; batch: EncodedBatch } {
+  const batch = encodeBatch(plan, table, start, Math.min(end, table.rowCount));
+  const width = plan.outputs.length;
+  const rows = batch.end - batch.start;
+  const values = new Float64Array(rows * width);
+  for (let r = 0; r < rows; r++) for (let c = 0; c < plan.columns.length; c++) writeEncodedColumn(plan, batch, c, r, values, r * width);
+  return { values, batch };
+}

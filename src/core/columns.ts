@@ -1,0 +1,84 @@
+/**
+ * Column-wise storage of a parsed table. No row objects anywhere: a million rows by twenty
+ * columns must fit in a browser tab, and columns cross the worker boundary as typed arrays.
+ *
+ * Every column starts dictionary-encoded (`TextColumn`): a code per row plus the distinct raw
+ * strings with their counts. Per-level work (cleaning, number parsing, encoding) then runs once
+ * per distinct value instead of once per cell. A column whose distinct values outgrow the
+ * dictionary cap while its values are plain numbers is switched to `NumberColumn` storage
+ * (see columns-builder.ts), so a measurement column never holds a million strings.
+ */
+
+/** Raw text of one cell exactly as parsed (not trimmed). */
+export type Cell = string;
+
+export interface TextColumn {
+  readonly kind: 'text';
+  readonly name: string;
+  /** Number of rows in this column (equals the table's row count). */
+  readonly length: number;
+  /** codes[row] indexes `values`. Length >= `length` (capacity may exceed it). */
+  readonly codes: Uint32Array;
+  /** Distinct raw cell strings in order of first appearance. */
+  readonly values: readonly string[];
+  /** counts[code] = number of rows holding values[code]. */
+  readonly counts: readonly number[];
+}
+
+/**
+ * Storage for a column of plain numbers with many distinct values. Lossless: any cell whose raw
+ * text is not exactly `String(values[row])` keeps its text in `exceptions` (missing spellings,
+ * stray text, "1.50", " 7"), so `cellText` always gives back what the file said.
+ */
+export interface NumberColumn {
+  readonly kind: 'number';
+  readonly name: string;
+  readonly length: number;
+  /** values[row] is the number written in plain JavaScript syntax, NaN otherwise. Length >= `length`. */
+  readonly values: Float64Array;
+  /** row index → raw text, for every cell whose text is not exactly String(values[row]). */
+  readonly exceptions: ReadonlyMap<number, string>;
+}
+
+export type Column = TextColumn | NumberColumn;
+
+/** A structural problem met while reading rows; nothing is dropped without one of these. */
+export interface RowIssue {
+  /** 1-based physical line number in the file where the record starts. */
+  readonly line: number;
+  /** 0-based data row index (row 0 is the first row after the header). */
+  readonly row: number;
+  readonly kind: 'too-few-fields' | 'too-many-fields' | 'unclosed-quote';
+  readonly expected: number;
+  readonly found: number;
+  /** For too-many-fields: the extra cells, kept so nothing is lost. */
+  readonly extra?: readonly string[];
+}
+
+export interface HeaderIssue {
+  /** 0-based column position. */
+  readonly column: number;
+  readonly kind: 'blank' | 'duplicate';
+  readonly original: string;
+  readonly renamedTo: string;
+}
+
+/** A table held column-wise. */
+export interface Table {
+  readonly names: readonly string[];
+  readonly columns: readonly Column[];
+  readonly rowCount: number;
+  /** 1-based line number where each data row starts (rows spanning lines inside quotes count once). */
+  readonly lineOfRow: Uint32Array;
+  readonly rowIssues: readonly RowIssue[];
+  readonly headerIssues: readonly HeaderIssue[];
+}
+
+/** The raw text of one cell exactly as the file wrote it, whatever the column's storage. */
+export function cellText(column: Column, row: number): string {
+  if (column.kind === 'text') return column.values[column.codes[row] ?? 0] ?? '';
+  const raw = column.exceptions.get(row);
+  if (raw !== undefined) return raw;
+  const v = column.values[row] ?? NaN;
+  return Number.isNaN(v) ? '' : String(v);
+}

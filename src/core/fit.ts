@@ -1,0 +1,226 @@
+/**
+ * Fitting: turn a profile and a person's decisions into a complete recipe column — the levels
+ * after cleaning and grouping with their counts, the reference level, fitted statistics.
+ * Everything here is per level, computed from the profile alone: no pass over the rows.
+ */
+import { cleaner } from './cleaning.ts';
+import { inferLevel, type Inference } from './infer.ts';
+import { nameOutputs } from './names.ts';
+import type { ColumnProfile, LevelCount } from './profile.ts';
+import {
+  DEFAULT_MISSING_TOKENS,
+  RECIPE_KIND,
+  RECIPE_VERSION,
+  type BinaryColumn,
+  type CategoricalColumn,
+  type Cleaning,
+  type ColumnRecipe,
+  type ContinuousColumn,
+  type FittedLevel,
+  type MeasurementLevel,
+  type NominalColumn,
+  type OrdinalColumn,
+  type Recipe,
+} from './recipe.ts';
+
+/** The level that missing cells become under the "level" missing policy. */
+export const MISSING_LEVEL = '(missing)';
+/** Default name of the level rare (and optionally unseen) values join. */
+export const OTHER_LEVEL = '(other)';
+export const SET_BY_HAND = 'set by hand';
+
+export interface DraftOptions {
+  readonly missingTokens?: readonly string[];
+  readonly delimiter?: Recipe['reading']['delimiter'];
+  readonly naming?: Recipe['naming'];
+}
+
+/** The recipe Levelwise proposes for a table: inferred levels, default encodings, fitted on it. */
+export function draftRecipe(
+  profiles: readonly ColumnProfile[],
+  source: { readonly file: string | null; readonly rows: number },
+  options: DraftOptions = {},
+): Recipe {
+  const recipe: Recipe = {
+    kind: RECIPE_KIND,
+    version: RECIPE_VERSION,
+    source: { file: source.file, rows: source.rows, columns: profiles.map((p) => p.name) },
+    reading: { delimiter: options.delimiter ?? null, missingTokens: [...(options.missingTokens ?? DEFAULT_MISSING_TOKENS)] },
+    naming: options.naming ?? 'readable',
+    columns: profiles.map((profile) => draftColumn(profile)),
+  };
+  return nameOutputs(recipe);
+}
+
+/** A recipe column for `profile` at the given level (default: the inferred one), fitted. */
+export function draftColumn(profile: ColumnProfile, level?: MeasurementLevel, inference: Inference = inferLevel(profile)): ColumnRecipe {
+  const chosen = level ?? inference.level;
+  const reason = level === undefined || level === inference.level ? inference.reason : SET_BY_HAND;
+  const base = { name: profile.name, reason, outputs: [] as string[] };
+  const hasMissing = profile.missing > 0;
+  switch (chosen) {
+    case 'identifier':
+    case 'excluded':
+      return { ...base, level: chosen };
+    case 'continuous':
+      return refitColumn(
+        {
+          ...base,
+          level: 'continuous',
+          scaling: 'none',
+          format: profile.numeric?.format ?? { decimal: '.', group: '' },
+          invalid: 'missing',
+          missing: { policy: 'mean', indicator: hasMissing },
+          fitted: { count: 0, mean: 0, sd: 0, min: 0, max: 0, median: 0 },
+        },
+        profile,
+      );
+    case 'nominal':
+      return refitColumn(
+        {
+          ...base,
+          ...categoricalDefaults(inference.cleaning, hasMissing),
+          level: 'nominal',
+          coding: 'one-hot',
+          reference: null,
+          rare: { minCount: null, minShare: null, keepTop: null },
+        },
+        profile,
+      );
+    case 'ordinal':
+      return refitColumn(
+        {
+          ...base,
+          ...categoricalDefaults(inference.cleaning, hasMissing),
+          missing: { policy: hasMissing ? 'most-frequent' : 'zeros', indicator: hasMissing },
+          level: 'ordinal',
+          coding: 'rank',
+          start: 1,
+          scores: null,
+          levels: (inference.order ?? []).map((value) => ({ value, count: 0 })),
+        },
+        profile,
+      );
+    case 'binary':
+      return refitColumn(
+        {
+          ...base,
+          ...categoricalDefaults(inference.cleaning, hasMissing),
+          missing: { policy: 'zeros', indicator: hasMissing },
+          level: 'binary',
+          positive: inference.positive ?? '',
+        },
+        profile,
+      );
+  }
+}
+
+function categoricalDefaults(cleaning: Cleaning, hasMissing: boolean) {
+  return {
+    cleaning,
+    missing: { policy: hasMissing ? ('level' as const) : ('zeros' as const), indicator: false },
+    unseen: 'zeros' as const,
+    otherLabel: OTHER_LEVEL,
+    levels: [] as FittedLevel[],
+    grouped: [] as string[],
+    fittedRows: 0,
+  };
+}
+
+/** Recomputes everything a column learns from data, keeping every decision it holds. */
+export function refitColumn<C extends ColumnRecipe>(column: C, profile: ColumnProfile): C {
+  switch (column.level) {
+    case 'continuous':
+      return refitContinuous(column, profile) as C;
+    case 'nominal':
+      return refitNominal(column, profile) as C;
+    case 'ordinal':
+      return refitOrdinal(column, profile) as C;
+    case 'binary':
+      return refitBinary(column, profile) as C;
+    default:
+      return column;
+  }
+}
+
+function refitContinuous(column: ContinuousColumn, profile: ColumnProfile): ContinuousColumn {
+  const n = profile.numeric;
+  const fitted = n
+    ? { count: n.count, mean: n.mean, sd: n.sd, min: n.min, max: n.max, median: n.median }
+    : { count: 0, mean: 0, sd: 0, min: 0, max: 0, median: 0 };
+  return { ...column, format: n?.format ?? column.format, fitted };
+}
+
+/**
+ * The distinct cleaned values of a column with their counts, most frequent first (ties keep the
+ * order of first appearance). Raw levels are cleaned once each, never per cell.
+ */
+export function cleanedLevels(profile: ColumnProfile, cleaning: Cleaning): LevelCount[] {
+  const clean = cleaner(cleaning);
+  const counts = new Map<string, number>();
+  for (const level of profile.levels ?? []) {
+    const value = clean(level.value);
+    counts.set(value, (counts.get(value) ?? 0) + level.count);
+  }
+  return [...counts].map(([value, count]) => ({ value, count })).sort((a, b) => b.count - a.count);
+}
+
+function refitNominal(column: NominalColumn, profile: ColumnProfile): NominalColumn {
+  const all = cleanedLevels(profile, column.cleaning).filter((l) => l.value !== column.otherLabel);
+  const { kept, grouped } = splitRare(all, column.rare, profile.count);
+  const otherCount = grouped.reduce((sum, l) => sum + l.count, 0);
+  const levels: FittedLevel[] = [...kept];
+  if (grouped.length > 0 || column.unseen === 'other') levels.push({ value: column.otherLabel, count: otherCount });
+  addMissingLevel(levels, column, profile);
+  const values = levels.map((l) => l.value);
+  const reference = column.reference !== null && values.includes(column.reference) ? column.reference : (values[0] ?? null);
+  return { ...column, levels, grouped: grouped.map((l) => l.value), reference, fittedRows: profile.count };
+}
+
+/** Applies the rare-level rules; a level is kept only when it passes every rule that is switched on. */
+export function splitRare(levels: readonly LevelCount[], rare: NominalColumn['rare'], rows: number) {
+  const kept: FittedLevel[] = [];
+  const grouped: FittedLevel[] = [];
+  levels.forEach((level, rankByCount) => {
+    const tooFew = rare.minCount !== null && level.count < rare.minCount;
+    const tooSmall = rare.minShare !== null && rows > 0 && level.count / rows < rare.minShare;
+    const outsideTop = rare.keepTop !== null && rankByCount >= rare.keepTop;
+    (tooFew || tooSmall || outsideTop ? grouped : kept).push({ value: level.value, count: level.count });
+  });
+  return { kept, grouped };
+}
+
+function addMissingLevel(levels: FittedLevel[], column: CategoricalColumn, profile: ColumnProfile): void {
+  if (column.missing.policy !== 'level') return;
+  const existing = levels.find((l) => l.value === MISSING_LEVEL);
+  if (existing) levels[levels.indexOf(existing)] = { value: MISSING_LEVEL, count: existing.count + profile.missing };
+  else levels.push({ value: MISSING_LEVEL, count: profile.missing });
+}
+
+/** Ordinal columns keep the person's order; levels that appeared since are appended, vanished ones dropped. */
+function refitOrdinal(column: OrdinalColumn, profile: ColumnProfile): OrdinalColumn {
+  const counted = new Map(cleanedLevels(profile, column.cleaning).map((l) => [l.value, l.count]));
+  if (column.missing.policy === 'level') counted.set(MISSING_LEVEL, (counted.get(MISSING_LEVEL) ?? 0) + profile.missing);
+  if (column.unseen === 'other' && !counted.has(column.otherLabel)) counted.set(column.otherLabel, 0);
+  const previousOrder = column.levels.map((l) => l.value).filter((v) => counted.has(v));
+  const order = [...new Set(previousOrder)];
+  for (const value of counted.keys()) if (!order.includes(value)) order.push(value);
+  const previousScores = new Map(column.levels.map((l, i) => [l.value, column.scores?.[i]]));
+  const scores = column.scores === null ? null : order.map((v, i) => previousScores.get(v) ?? i + column.start);
+  return {
+    ...column,
+    levels: order.map((value) => ({ value, count: counted.get(value) ?? 0 })),
+    scores,
+    grouped: [],
+    fittedRows: profile.count,
+  };
+}
+
+function refitBinary(column: BinaryColumn, profile: ColumnProfile): BinaryColumn {
+  const levels: FittedLevel[] = cleanedLevels(profile, column.cleaning);
+  addMissingLevel(levels, column, profile);
+  const values = levels.map((l) => l.value);
+  // Without a stated positive class, the less frequent of the first two levels is the event coded 1.
+  const positive = values.includes(column.positive) ? column.positive : (values[1] ?? values[0] ?? '');
+  return { ...column, levels, positive, grouped: [], fittedRows: profile.count };
+}

@@ -1,0 +1,392 @@
+/**
+ * Inference: propose a level of measurement for each column, with a reason a person can read.
+ * Written as an ordered list of rules; the first rule that matches wins.
+ *
+ * The rules see the profile and a context holding the proposed cleaning (trim, case-fold,
+ * yes/no spelling merges) and the levels it leaves. Every reason is one sentence carrying the
+ * numbers it rests on, so a person can check it against the profile.
+ */
+import { NO_CLEANING, cleaner } from './cleaning.ts';
+import { matchOrdinalScale } from './ordinal-scales.ts';
+import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
+import { numberReader } from './numbers.ts';
+import type { Cleaning, Merge, MeasurementLevel } from './recipe.ts';
+
+export interface Inference {
+  readonly level: MeasurementLevel;
+  /** One sentence, e.g. "2 distinct values (yes, no) after cleaning". */
+  readonly reason: string;
+  /** Proposed cleaning (trim / case-fold / merges such as y → yes) for categorical columns. */
+  readonly cleaning: Cleaning;
+  /** For ordinal: the suggested order of the cleaned levels, lowest first. */
+  readonly order?: readonly string[];
+  /** For binary: the suggested positive class (cleaned). */
+  readonly positive?: string;
+  /** Name of the rule that decided, e.g. "binary". */
+  readonly rule?: string;
+  /** Set when the column's name suggests a sensitive attribute of people: a caution to show beside it. */
+  readonly caution?: string;
+}
+
+/** What every rule may consult besides the profile; computed once per column. */
+export interface InferContext {
+  /** Proposed cleaning of the levels (NO_CLEANING when the profile has no levels). */
+  readonly cleaning: Cleaning;
+  /** Levels after that cleaning with their counts, most frequent first; null when the profile has none. */
+  readonly cleanedLevels: readonly LevelCount[] | null;
+  /** Non-missing cells. */
+  readonly nonMissing: number;
+}
+
+export interface InferenceRule {
+  /** Short name, kept in the inference so a person can see which rule decided. */
+  readonly name: string;
+  /** Returns an inference when the rule applies, null to let the next rule try. */
+  test(profile: ColumnProfile, ctx: InferContext): Inference | null;
+}
+
+/** Where the rules draw their lines (see also PROFILE_THRESHOLDS for the flags). */
+export const INFERENCE_THRESHOLDS = {
+  /** Continuous: share of non-missing cells that read as numbers… */
+  numericShare: PROFILE_THRESHOLDS.numericShare,
+  /** …and more distinct numbers than this; at most this many, all numbers, read as an ordered scale. */
+  maxScaleNumbers: 10,
+} as const;
+
+/** Spellings read as "yes" and as "no" when a whole column is written with them (compared in lower case). */
+export const YES_SPELLINGS: readonly string[] = ['yes', 'y', 'true', 't', '1'];
+export const NO_SPELLINGS: readonly string[] = ['no', 'n', 'false', 'f', '0'];
+/** Levels taken as the positive class of a binary column (compared in lower case). */
+export const POSITIVE_SPELLINGS: readonly string[] = [...YES_SPELLINGS, 'positive', 'pos', 'present', '+'];
+const NEGATIVE_SPELLINGS: readonly string[] = [...NO_SPELLINGS, 'negative', 'neg', 'absent', '-'];
+
+// ---------------------------------------------------------------------------------------------
+// The rules, in the order they are tried.
+
+const allMissing: InferenceRule = {
+  name: 'all missing',
+  test: (p) => {
+    if (p.count === 0) return excluded('the column has no rows');
+    if (p.missing < p.count) return null;
+    return excluded(`all ${p.count} values are missing (${spellingList(p.missingSpellings)})`);
+  },
+};
+
+const constant: InferenceRule = {
+  name: 'constant',
+  test: (p, ctx) => {
+    const only = ctx.cleanedLevels?.[0];
+    if (ctx.cleanedLevels === null || ctx.cleanedLevels.length !== 1 || only === undefined) return null;
+    const spellings = p.distinct > 1 ? ` after cleaning (${p.distinct} spellings)` : '';
+    const missing = p.missing > 0 ? `, ${p.missing} missing` : '';
+    return {
+      level: 'excluded',
+      reason: `only one value${spellings}: ${quote(only.value)} in ${only.count} of ${p.count} rows${missing}`,
+      cleaning: ctx.cleaning,
+    };
+  },
+};
+
+const date: InferenceRule = {
+  name: 'date',
+  test: (p, ctx) => {
+    if (!p.flags.date || !p.text) return null;
+    const example = p.levels?.[0]?.value.trim() ?? '';
+    return excluded(
+      `${p.text.dates} of ${ctx.nonMissing} values look like dates (e.g. ${quote(example)}): dates are left out for now`,
+    );
+  },
+};
+
+const binary: InferenceRule = {
+  name: 'binary',
+  test: (p, ctx) => {
+    const levels = ctx.cleanedLevels;
+    if (levels === null || levels.length !== 2) return null;
+    const [first, second] = levels as [LevelCount, LevelCount];
+    const { positive, why } = choosePositive(first, second);
+    const after = p.distinct > 2 ? ` after cleaning (${p.distinct} spellings)` : '';
+    return {
+      level: 'binary',
+      reason:
+        `2 values${after}: ${quote(first.value)} (${first.count}) and ${quote(second.value)} (${second.count}); ` +
+        `${quote(positive)} is the positive class ${why}`,
+      cleaning: ctx.cleaning,
+      positive,
+    };
+  },
+};
+
+const ordinalScale: InferenceRule = {
+  name: 'ordinal scale',
+  test: (_p, ctx) => {
+    const levels = ctx.cleanedLevels;
+    if (levels === null) return null;
+    const match = matchOrdinalScale(levels.map((l) => l.value));
+    if (match === null) return null;
+    return {
+      level: 'ordinal',
+      reason: `${levels.length} values fit the ${match.scale} scale: ${match.order.join(' < ')}`,
+      cleaning: ctx.cleaning,
+      order: match.order,
+    };
+  },
+};
+
+const identifier: InferenceRule = {
+  name: 'identifier',
+  test: (p, ctx) => {
+    if (!p.flags.identifier) return null;
+    return { level: 'identifier', reason: identifierReason(p, ctx.nonMissing), cleaning: NO_CLEANING };
+  },
+};
+
+const continuous: InferenceRule = {
+  name: 'continuous',
+  test: (p, ctx) => {
+    const n = p.numeric;
+    if (!isMostlyNumeric(n) || distinctNumbers(p, n) <= INFERENCE_THRESHOLDS.maxScaleNumbers) return null;
+    const invalid =
+      n.invalidCount > 0
+        ? `; ${n.invalidCount} do not (e.g. ${quote(n.invalidExamples[0]?.text ?? '')})`
+        : '';
+    return {
+      level: 'continuous',
+      reason: `${n.count} of ${ctx.nonMissing} values read as numbers (${percent(n.share)}), ${distinctNumbers(p, n)} distinct${invalid}`,
+      cleaning: NO_CLEANING,
+    };
+  },
+};
+
+const freeText: InferenceRule = {
+  name: 'free text',
+  test: (p, ctx) => {
+    if (!p.flags.freeText || !p.text) return null;
+    return excluded(
+      `${p.distinct} distinct texts in ${ctx.nonMissing} values, ${Math.round(p.text.meanLength)} characters on average: ` +
+        'free text is left out',
+    );
+  },
+};
+
+const numberedScale: InferenceRule = {
+  name: 'numbered scale',
+  test: (p, ctx) => {
+    const n = p.numeric;
+    const levels = ctx.cleanedLevels;
+    if (n === null || levels === null || n.invalidCount > 0) return null;
+    const distinct = distinctNumbers(p, n);
+    if (distinct > INFERENCE_THRESHOLDS.maxScaleNumbers) return null;
+    const { order, merges } = numericOrder(levels, n);
+    const cleaning = merges.length === 0 ? ctx.cleaning : { ...ctx.cleaning, merges: [...ctx.cleaning.merges, ...merges] };
+    const kind = n.integer === true ? 'whole numbers' : 'numbers';
+    return {
+      level: 'ordinal',
+      reason: `${distinct} distinct ${kind} from ${show(n.min)} to ${show(n.max)}: read as an ordered scale`,
+      cleaning,
+      order,
+    };
+  },
+};
+
+const nominal: InferenceRule = {
+  name: 'nominal',
+  test: (p, ctx) => {
+    const levels = ctx.cleanedLevels;
+    if (levels === null) {
+      const share = p.numeric === null ? '0%' : percent(p.numeric.share);
+      return excluded(
+        `only ${share} of ${ctx.nonMissing} values read as numbers and ${p.distinct} distinct values are too many for categories`,
+      );
+    }
+    const after = levels.length < p.distinct ? ` after cleaning (${p.distinct} spellings)` : '';
+    return {
+      level: 'nominal',
+      reason: `${levels.length} distinct values${after} with no order recognised`,
+      cleaning: ctx.cleaning,
+    };
+  },
+};
+
+/** The rules in the order they are tried. The last one always matches. */
+export const INFERENCE_RULES: readonly InferenceRule[] = [
+  allMissing,
+  constant,
+  date,
+  binary,
+  ordinalScale,
+  identifier,
+  continuous,
+  freeText,
+  numberedScale,
+  nominal,
+];
+
+export function inferLevel(profile: ColumnProfile, rules: readonly InferenceRule[] = INFERENCE_RULES): Inference {
+  const ctx = inferenceContext(profile);
+  const caution = sensitiveAttributeCaution(profile.name);
+  for (const rule of rules) {
+    const found = rule.test(profile, ctx);
+    if (found !== null) return { ...found, rule: rule.name, ...(caution === null ? {} : { caution }) };
+  }
+  // Only reachable with a custom rule list lacking a catch-all.
+  return { level: 'excluded', reason: 'no rule matched this column', cleaning: NO_CLEANING };
+}
+
+export function inferenceContext(profile: ColumnProfile): InferContext {
+  const nonMissing = profile.count - profile.missing;
+  if (profile.levels === null) return { cleaning: NO_CLEANING, cleanedLevels: null, nonMissing };
+  const cleaning = proposeCleaning(profile.levels);
+  return { cleaning, cleanedLevels: cleanLevels(profile.levels, cleaning), nonMissing };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Cleaning proposals.
+
+/**
+ * Trim when any level has surrounding white space; case-fold when two levels differ only by
+ * case; when every level is a yes/no spelling (y, true, 1 / n, false, 0 …), merge each side's
+ * spellings into its most frequent one.
+ */
+export function proposeCleaning(levels: readonly LevelCount[]): Cleaning {
+  const trim = levels.some((l) => l.value !== l.value.trim());
+  const trimmed = levels.map((l) => (trim ? l.value.trim() : l.value));
+  const caseFold = differOnlyByCase(trimmed);
+  const partial: Cleaning = { trim, caseFold, merges: [] };
+  return { ...partial, merges: yesNoMerges(cleanLevels(levels, partial)) };
+}
+
+/** Levels after `cleaning`, counts added up, most frequent first (ties: first in `levels` first). */
+export function cleanLevels(levels: readonly LevelCount[], cleaning: Cleaning): LevelCount[] {
+  const clean = cleaner(cleaning);
+  const counts = new Map<string, number>();
+  for (const { value, count } of levels) {
+    const c = clean(value);
+    counts.set(c, (counts.get(c) ?? 0) + count);
+  }
+  return [...counts].map(([value, count]) => ({ value, count })).sort((a, b) => b.count - a.count);
+}
+
+function differOnlyByCase(values: readonly string[]): boolean {
+  const seen = new Map<string, string>();
+  for (const v of values) {
+    const lower = v.toLowerCase();
+    const other = seen.get(lower);
+    if (other !== undefined && other !== v) return true;
+    seen.set(lower, v);
+  }
+  return false;
+}
+
+function yesNoMerges(levels: readonly LevelCount[]): Merge[] {
+  const yes: string[] = [];
+  const no: string[] = [];
+  for (const { value } of levels) {
+    const lower = value.toLowerCase();
+    if (YES_SPELLINGS.includes(lower)) yes.push(value);
+    else if (NO_SPELLINGS.includes(lower)) no.push(value);
+    else return [];
+  }
+  // `levels` is most frequent first, so each side's first spelling is the one the others join.
+  return [yes, no].flatMap(([into, ...from]) => (into !== undefined && from.length > 0 ? [{ into, from }] : []));
+}
+
+function choosePositive(first: LevelCount, second: LevelCount): { positive: string; why: string } {
+  const isPositive = (l: LevelCount): boolean => POSITIVE_SPELLINGS.includes(l.value.toLowerCase());
+  const isNegative = (l: LevelCount): boolean => NEGATIVE_SPELLINGS.includes(l.value.toLowerCase());
+  if (isPositive(first) && !isPositive(second)) return { positive: first.value, why: '(it reads as yes)' };
+  if (isPositive(second) && !isPositive(first)) return { positive: second.value, why: '(it reads as yes)' };
+  if (isNegative(first) && !isNegative(second)) return { positive: second.value, why: '(the other reads as no)' };
+  if (isNegative(second) && !isNegative(first)) return { positive: first.value, why: '(the other reads as no)' };
+  // Levels are most frequent first; on a tie the later seen one is taken.
+  return { positive: second.value, why: first.count === second.count ? '(equal counts: the later seen)' : '(the less frequent)' };
+}
+
+/** Cleaned levels in numeric order; spellings of one number ("1", "1.0") merge into the most frequent. */
+function numericOrder(levels: readonly LevelCount[], numeric: NumericSummary): { order: string[]; merges: Merge[] } {
+  const read = numberReader(numeric.format);
+  const byNumber = new Map<number, string[]>();
+  for (const { value } of levels) {
+    const n = read(value);
+    byNumber.set(n, [...(byNumber.get(n) ?? []), value]);
+  }
+  const numbers = [...byNumber.keys()].sort((a, b) => a - b);
+  const order: string[] = [];
+  const merges: Merge[] = [];
+  for (const n of numbers) {
+    const [into, ...from] = byNumber.get(n) ?? [];
+    if (into === undefined) continue;
+    order.push(into);
+    if (from.length > 0) merges.push({ into, from });
+  }
+  return { order, merges };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Sentences.
+
+function identifierReason(p: ColumnProfile, nonMissing: number): string {
+  const head = `${p.distinct} of ${nonMissing} values distinct`;
+  const n = p.numeric;
+  if (!isMostlyNumeric(n)) return `${head}: looks like an identifier`;
+  if (countsRows(n)) return `${head}, whole numbers ${show(n.min)} to ${show(n.max)} without gaps: looks like a row number`;
+  if ((n.leadingZeros ?? 0) > 0) return `${head}, ${n.leadingZeros} written with leading zeros: looks like a code`;
+  if (oneWidth(n)) return `${head}, all ${String(n.min).length}-digit whole numbers: looks like an identifier`;
+  return `${head}: looks like an identifier`;
+}
+
+/** Distinct numbers; hand-written summaries without the count fall back to the distinct raw values. */
+function distinctNumbers(p: ColumnProfile, n: NumericSummary): number {
+  return n.distinct ?? p.distinct;
+}
+
+function excluded(reason: string): Inference {
+  return { level: 'excluded', reason, cleaning: NO_CLEANING };
+}
+
+function isMostlyNumeric(n: NumericSummary | null): n is NumericSummary {
+  return n !== null && n.share >= INFERENCE_THRESHOLDS.numericShare;
+}
+
+function spellingList(spellings: readonly LevelCount[]): string {
+  return spellings.map((s) => `${s.value.trim() === '' ? 'empty' : quote(s.value)} ${s.count}`).join(', ');
+}
+
+function quote(text: string): string {
+  return `"${text}"`;
+}
+
+function percent(share: number): string {
+  const p = share * 100;
+  return `${Number.isInteger(p) ? p : p.toFixed(1)}%`;
+}
+
+function show(x: number): string {
+  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(6)));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Caution for sensitive attributes of people.
+
+/** Words in a column name that suggest a sensitive attribute of people (common practice, not a legal list). */
+export const SENSITIVE_NAME_WORDS: readonly string[] = [
+  'sex', 'gender', 'race', 'racial', 'ethnic', 'ethnicity', 'religion', 'religious', 'faith', 'disability',
+  'disabled', 'health', 'diagnosis', 'pregnant', 'pregnancy', 'orientation', 'nationality', 'citizenship',
+  'immigration', 'marital', 'age', 'birth', 'dob', 'political', 'union', 'criminal', 'caste',
+];
+
+/**
+ * A caution when the column's name suggests a sensitive attribute, else null. Matching is by
+ * whole word ("Age band" and "ageBand" match, "usage" does not).
+ */
+export function sensitiveAttributeCaution(name: string): string | null {
+  const words = name
+    .replace(/([a-z])([A-Z])/g, '$1 $2')
+    .toLowerCase()
+    .split(/[^a-z]+/);
+  if (!words.some((w) => SENSITIVE_NAME_WORDS.includes(w))) return null;
+  return (
+    `${quote(name)} may describe a sensitive attribute of people: using it in a model that decides about people ` +
+    'can be unlawful or unfair, so check local law and have the use reviewed'
+  );
+}

@@ -1,0 +1,572 @@
+/**
+ * Profile: what each column holds. Computed per distinct value wherever the storage allows, so a
+ * million-row column with a few levels costs a pass over its dictionary, not over its cells.
+ */
+import type { Column, NumberColumn, Table, TextColumn } from './columns.ts';
+import { looksLikeDate } from './dates.ts';
+import { missingTest, type MissingTest } from './missing.ts';
+import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
+import { DEFAULT_MISSING_TOKENS, type NumberFormat } from './recipe.ts';
+
+export interface LevelCount {
+  /** Raw cell text exactly as written (not trimmed). */
+  readonly value: string;
+  readonly count: number;
+}
+
+export interface NumericSummary {
+  /** Cells (non-missing) that read as numbers in `format`. */
+  readonly count: number;
+  /** count / non-missing cells. */
+  readonly share: number;
+  readonly format: NumberFormat;
+  readonly min: number;
+  readonly max: number;
+  readonly mean: number;
+  /** Sample standard deviation (n − 1); 0 when count < 2. */
+  readonly sd: number;
+  readonly median: number;
+  /** Non-missing cells that did not read as numbers. */
+  readonly invalidCount: number;
+  /** The first of them (at most 100): 0-based data row and raw text. */
+  readonly invalidExamples: readonly { readonly row: number; readonly text: string }[];
+  /**
+   * Equal-width histogram over [min, max]: HISTOGRAM_BINS bins (edges has one more entry), the
+   * last bin closed on the right. When min = max there is a single bin holding every number.
+   */
+  readonly histogram: { readonly edges: readonly number[]; readonly counts: readonly number[] };
+  // The three fields below are always filled by profileColumn; optional only so that hand-written
+  // summaries (test fixtures) predating them stay valid. Readers treat them as unknown when absent.
+  /** Distinct numbers read ("1.5" and "1.50" are one number). */
+  readonly distinct?: number;
+  /** Every number read is a whole number. */
+  readonly integer?: boolean;
+  /** Cells read as numbers whose text starts with a zero before more digits ("007"): codes, not quantities. */
+  readonly leadingZeros?: number;
+}
+
+export interface ColumnFlags {
+  /**
+   * Nearly every non-missing value is distinct, and the values are not measurements: text
+   * codes, or whole numbers that count rows, carry leading zeros or all have the same width.
+   * Never set together with `freeText`.
+   */
+  readonly identifier: boolean;
+  /** Most values read as calendar dates or timestamps. */
+  readonly date: boolean;
+  /** Long, mostly distinct text with spaces (comments, addresses). */
+  readonly freeText: boolean;
+  /** At most one distinct non-missing value. */
+  readonly constant: boolean;
+}
+
+/** The shape of a text column's non-missing cells, weighted by how many cells hold each value. */
+export interface TextShape {
+  /** Cells that look like a date or a timestamp. */
+  readonly dates: number;
+  /** Mean length of the cells' text after trimming. */
+  readonly meanLength: number;
+  /** Cells with white space inside the trimmed text. */
+  readonly withSpaces: number;
+}
+
+export interface ColumnProfile {
+  readonly name: string;
+  /** 0-based position in the file. */
+  readonly index: number;
+  /** Rows. */
+  readonly count: number;
+  /** Cells that are empty or a missing-value token (after trimming). */
+  readonly missing: number;
+  /** Missing spellings met, with counts ('' for empty cells), most frequent first. */
+  readonly missingSpellings: readonly LevelCount[];
+  /** Distinct non-missing raw values. */
+  readonly distinct: number;
+  /**
+   * Every distinct non-missing raw value with its count, most frequent first (ties: first seen
+   * first). null for number-stored columns with many distinct values, where levels make no sense.
+   */
+  readonly levels: readonly LevelCount[] | null;
+  /** Present when at least one non-missing value reads as a number. */
+  readonly numeric: NumericSummary | null;
+  readonly flags: ColumnFlags;
+  /**
+   * Text shape of the non-missing cells; null for number-stored columns. Always filled by
+   * profileColumn; optional only so that hand-written profiles predating it stay valid.
+   */
+  readonly text?: TextShape | null;
+}
+
+export interface ProfileOptions {
+  /** Cell texts (after trimming) that mean missing; the empty cell always does. */
+  readonly missingTokens: readonly string[];
+  /** Read numbers in this format instead of detecting it (e.g. when a recipe fixes it). */
+  readonly format?: NumberFormat;
+}
+
+export const DEFAULT_PROFILE_OPTIONS: ProfileOptions = { missingTokens: DEFAULT_MISSING_TOKENS };
+
+export const HISTOGRAM_BINS = 20;
+export const MAX_INVALID_EXAMPLES = 100;
+
+/** Where the flags draw their lines. Shares are of non-missing cells. */
+export const PROFILE_THRESHOLDS = {
+  /** Share of cells that must be numbers for a column to count as numeric. */
+  numericShare: 0.95,
+  /** Identifier: distinct values / non-missing cells at least this… */
+  identifierDistinctShare: 0.95,
+  /** …with at least this many non-missing cells (in a handful of rows everything is distinct). */
+  identifierMinValues: 10,
+  /** Identifier numbers of one width need at least this many digits ("10432"; years are 4). */
+  identifierMinWidth: 4,
+  /** Date: share of cells that look like dates. */
+  dateShare: 0.9,
+  /** Free text: distinct values / non-missing cells at least this… */
+  freeTextDistinctShare: 0.5,
+  /** …mean trimmed length at least this… */
+  freeTextMeanLength: 15,
+  /** …share of cells with inner spaces at least this… */
+  freeTextSpaceShare: 0.5,
+  /** …and at least this many non-missing cells. */
+  freeTextMinValues: 5,
+} as const;
+
+export function profileColumn(
+  column: Column,
+  index: number,
+  options: ProfileOptions = DEFAULT_PROFILE_OPTIONS,
+): ColumnProfile {
+  return column.kind === 'text' ? profileTextColumn(column, index, options) : profileNumberColumn(column, index, options);
+}
+
+export function profileTable(table: Table, options: ProfileOptions = DEFAULT_PROFILE_OPTIONS): ColumnProfile[] {
+  return table.columns.map((column, index) => profileColumn(column, index, options));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Text columns: everything from the dictionary; cells are visited only to find invalid rows.
+
+interface DictionaryEntry extends LevelCount {
+  readonly code: number;
+}
+
+function profileTextColumn(column: TextColumn, index: number, options: ProfileOptions): ColumnProfile {
+  const isMissing = missingTest(options.missingTokens);
+  const levels: DictionaryEntry[] = [];
+  const missingSpellings: DictionaryEntry[] = [];
+  column.values.forEach((value, code) => {
+    const count = column.counts[code] ?? 0;
+    if (count > 0) (isMissing(value) ? missingSpellings : levels).push({ value, count, code });
+  });
+  // Dictionary order is first-appearance order and sort is stable: ties stay first seen first.
+  levels.sort((a, b) => b.count - a.count);
+  missingSpellings.sort((a, b) => b.count - a.count);
+  const nonMissing = sumCounts(levels);
+  const numeric = summarizeTextNumbers(column, levels, nonMissing, options.format);
+  const text = textShape(levels, nonMissing);
+  const distinct = levels.length;
+  const freeText = looksLikeFreeText(nonMissing, distinct, numeric, text);
+  return {
+    name: column.name,
+    index,
+    count: column.length,
+    missing: column.length - nonMissing,
+    missingSpellings: missingSpellings.map(plainLevel),
+    distinct,
+    levels: levels.map(plainLevel),
+    numeric,
+    flags: {
+      identifier: looksLikeIdentifier(nonMissing, distinct, numeric, freeText),
+      date: nonMissing > 0 && text.dates >= PROFILE_THRESHOLDS.dateShare * nonMissing,
+      freeText,
+      constant: distinct <= 1,
+    },
+    text,
+  };
+}
+
+function plainLevel(entry: LevelCount): LevelCount {
+  return { value: entry.value, count: entry.count };
+}
+
+function sumCounts(entries: readonly LevelCount[]): number {
+  let total = 0;
+  for (const e of entries) total += e.count;
+  return total;
+}
+
+function summarizeTextNumbers(
+  column: TextColumn,
+  levels: readonly DictionaryEntry[],
+  nonMissing: number,
+  fixedFormat: NumberFormat | undefined,
+): NumericSummary | null {
+  const format = fixedFormat ?? detectNumberFormat(levels);
+  const read = numberReader(format);
+  const numbers: { value: number; count: number }[] = [];
+  const invalidCodes = new Set<number>();
+  let invalidCount = 0;
+  let leadingZeros = 0;
+  for (const level of levels) {
+    const value = read(level.value);
+    if (Number.isNaN(value)) {
+      invalidCodes.add(level.code);
+      invalidCount += level.count;
+    } else {
+      numbers.push({ value, count: level.count });
+      if (hasLeadingZero(level.value)) leadingZeros += level.count;
+    }
+  }
+  if (numbers.length === 0) return null;
+  numbers.sort((a, b) => a.value - b.value);
+  const runs = runsFromSortedPairs(numbers);
+  return summarize(runs, {
+    format,
+    nonMissing,
+    invalidCount,
+    invalidExamples: invalidCount > 0 ? firstInvalidRows(column, invalidCodes) : [],
+    leadingZeros,
+  });
+}
+
+/** The first invalid cells in row order: one scan over the codes, stopping at the cap. */
+function firstInvalidRows(column: TextColumn, invalidCodes: ReadonlySet<number>): { row: number; text: string }[] {
+  const isInvalid = new Uint8Array(column.values.length);
+  for (const code of invalidCodes) isInvalid[code] = 1;
+  const examples: { row: number; text: string }[] = [];
+  for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
+    const code = column.codes[row] ?? 0;
+    if (isInvalid[code] === 1) examples.push({ row, text: column.values[code] ?? '' });
+  }
+  return examples;
+}
+
+function textShape(levels: readonly LevelCount[], nonMissing: number): TextShape {
+  let dates = 0;
+  let length = 0;
+  let withSpaces = 0;
+  for (const { value, count } of levels) {
+    const t = value.trim();
+    if (looksLikeDate(t)) dates += count;
+    length += t.length * count;
+    if (/\s/.test(t)) withSpaces += count;
+  }
+  return { dates, meanLength: nonMissing > 0 ? length / nonMissing : 0, withSpaces };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Number columns: one pass over the Float64Array, then the exceptions map.
+
+function profileNumberColumn(column: NumberColumn, index: number, options: ProfileOptions): ColumnProfile {
+  const isMissing = missingTest(options.missingTokens);
+  const { length, values, exceptions } = column;
+  const isException = new Uint8Array(length);
+  for (const row of exceptions.keys()) if (row >= 0 && row < length) isException[row] = 1;
+
+  // The one pass over the cells: plain numbers are gathered, NaN without exception is an empty cell.
+  const plain = new Float64Array(length);
+  let plainCount = 0;
+  let plainFractions = 0;
+  let emptyCells = 0;
+  for (let row = 0; row < length; row++) {
+    if (isException[row] === 1) continue;
+    const v = values[row] ?? NaN;
+    if (Number.isNaN(v)) emptyCells++;
+    else {
+      plain[plainCount++] = v;
+      if (!Number.isInteger(v)) plainFractions++;
+    }
+  }
+
+  const exceptionTexts = tallyExceptions(exceptions, length, isMissing);
+  const format = options.format ?? detectNumberFormat([
+    ...exceptionTexts.nonMissing,
+    // Plain cells speak for point decimals when they have fractions; whole numbers read in any format.
+    { value: '0.5', count: plainFractions },
+    { value: '1', count: plainCount - plainFractions },
+  ]);
+  const read = numberReader(format);
+
+  // Plain numbers with a fraction do not read in a comma-decimal format: they become invalid cells.
+  const plainInvalid = format.decimal === ',' ? plainFractions : 0;
+  const plainValid = format.decimal === ',' ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
+  plainValid.sort();
+  const distinctPlain = countDistinctSorted(plainValid);
+
+  const fromExceptions = readExceptionNumbers(exceptionTexts.nonMissing, read);
+  const all = mergeSorted(plainValid, fromExceptions.sorted);
+  const nonMissing = plainCount + sumCounts(exceptionTexts.nonMissing);
+  const invalidCount = plainInvalid + fromExceptions.invalidCount;
+  const missingSpellings = exceptionTexts.missing;
+  if (emptyCells > 0) missingSpellings.push({ value: '', count: emptyCells });
+  missingSpellings.sort((a, b) => b.count - a.count);
+
+  const numeric =
+    all.length === 0
+      ? null
+      : summarize(runsFromSorted(all), {
+          format,
+          nonMissing,
+          invalidCount,
+          invalidExamples:
+            invalidCount > 0 ? numberColumnInvalidRows(column, isException, read, isMissing, format) : [],
+          leadingZeros: fromExceptions.leadingZeros,
+        });
+  const distinct = distinctPlain + exceptionTexts.nonMissing.length;
+  return {
+    name: column.name,
+    index,
+    count: length,
+    missing: length - nonMissing,
+    missingSpellings,
+    distinct,
+    levels: null,
+    numeric,
+    flags: {
+      identifier: looksLikeIdentifier(nonMissing, distinct, numeric, false),
+      date: false,
+      freeText: false,
+      constant: distinct <= 1,
+    },
+    text: null,
+  };
+}
+
+/** Exception texts grouped by spelling, split into missing and non-missing, in first-seen order. */
+function tallyExceptions(
+  exceptions: ReadonlyMap<number, string>,
+  length: number,
+  isMissing: MissingTest,
+): { missing: LevelCount[]; nonMissing: LevelCount[] } {
+  const counts = new Map<string, number>();
+  for (const [row, text] of exceptions) if (row >= 0 && row < length) counts.set(text, (counts.get(text) ?? 0) + 1);
+  const missing: LevelCount[] = [];
+  const nonMissing: LevelCount[] = [];
+  for (const [value, count] of counts) (isMissing(value) ? missing : nonMissing).push({ value, count });
+  return { missing, nonMissing };
+}
+
+function readExceptionNumbers(
+  texts: readonly LevelCount[],
+  read: NumberReader,
+): { sorted: Float64Array; invalidCount: number; leadingZeros: number } {
+  const numbers: number[] = [];
+  let invalidCount = 0;
+  let leadingZeros = 0;
+  for (const { value, count } of texts) {
+    const v = read(value);
+    if (Number.isNaN(v)) {
+      invalidCount += count;
+      continue;
+    }
+    for (let i = 0; i < count; i++) numbers.push(v);
+    if (hasLeadingZero(value)) leadingZeros += count;
+  }
+  return { sorted: Float64Array.from(numbers).sort(), invalidCount, leadingZeros };
+}
+
+function keepWholeNumbers(values: Float64Array): Float64Array {
+  return values.filter((v) => Number.isInteger(v));
+}
+
+/**
+ * Invalid cells of a number-stored column in row order. A second look at the cells, made only
+ * when there are invalid cells, and stopped at the cap.
+ */
+function numberColumnInvalidRows(
+  column: NumberColumn,
+  isException: Uint8Array,
+  read: NumberReader,
+  isMissing: MissingTest,
+  format: NumberFormat,
+): { row: number; text: string }[] {
+  const examples: { row: number; text: string }[] = [];
+  for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
+    if (isException[row] === 1) {
+      const text = column.exceptions.get(row) ?? '';
+      if (!isMissing(text) && Number.isNaN(read(text))) examples.push({ row, text });
+    } else {
+      const v = column.values[row] ?? NaN;
+      if (format.decimal === ',' && !Number.isNaN(v) && !Number.isInteger(v)) examples.push({ row, text: String(v) });
+    }
+  }
+  return examples;
+}
+
+function countDistinctSorted(sorted: Float64Array): number {
+  let distinct = 0;
+  for (let i = 0; i < sorted.length; i++) if (i === 0 || sorted[i] !== sorted[i - 1]) distinct++;
+  return distinct;
+}
+
+function mergeSorted(a: Float64Array, b: Float64Array): Float64Array {
+  if (b.length === 0) return a;
+  if (a.length === 0) return b;
+  const out = new Float64Array(a.length + b.length);
+  let i = 0;
+  let j = 0;
+  let k = 0;
+  while (i < a.length && j < b.length) out[k++] = (a[i] ?? 0) <= (b[j] ?? 0) ? (a[i++] ?? 0) : (b[j++] ?? 0);
+  while (i < a.length) out[k++] = a[i++] ?? 0;
+  while (j < b.length) out[k++] = b[j++] ?? 0;
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Numbers as runs of equal values, ascending: the common ground of both storages.
+
+interface Runs {
+  readonly values: Float64Array;
+  readonly counts: Float64Array;
+  readonly length: number;
+}
+
+function runsFromSortedPairs(pairs: readonly { value: number; count: number }[]): Runs {
+  const values = new Float64Array(pairs.length);
+  const counts = new Float64Array(pairs.length);
+  let n = 0;
+  for (const { value, count } of pairs) {
+    if (n > 0 && values[n - 1] === value) counts[n - 1] = (counts[n - 1] ?? 0) + count;
+    else {
+      values[n] = value;
+      counts[n] = count;
+      n++;
+    }
+  }
+  return { values, counts, length: n };
+}
+
+function runsFromSorted(sorted: Float64Array): Runs {
+  const values = new Float64Array(countDistinctSorted(sorted));
+  const counts = new Float64Array(values.length);
+  let n = -1;
+  for (let i = 0; i < sorted.length; i++) {
+    const v = sorted[i] ?? 0;
+    if (n < 0 || values[n] !== v) values[++n] = v;
+    counts[n] = (counts[n] ?? 0) + 1;
+  }
+  return { values, counts, length: values.length };
+}
+
+interface SummaryContext {
+  readonly format: NumberFormat;
+  readonly nonMissing: number;
+  readonly invalidCount: number;
+  readonly invalidExamples: readonly { readonly row: number; readonly text: string }[];
+  readonly leadingZeros: number;
+}
+
+/** Statistics of non-empty runs. Mean and variance by West's weighted form of Welford's method. */
+function summarize(runs: Runs, context: SummaryContext): NumericSummary {
+  let count = 0;
+  let mean = 0;
+  let m2 = 0;
+  let integer = true;
+  for (let i = 0; i < runs.length; i++) {
+    const x = runs.values[i] ?? 0;
+    const w = runs.counts[i] ?? 0;
+    count += w;
+    const delta = x - mean;
+    mean += (delta * w) / count;
+    m2 += w * delta * (x - mean);
+    if (!Number.isInteger(x)) integer = false;
+  }
+  const min = runs.values[0] ?? NaN;
+  const max = runs.values[runs.length - 1] ?? NaN;
+  return {
+    count,
+    share: context.nonMissing > 0 ? count / context.nonMissing : 0,
+    format: context.format,
+    min,
+    max,
+    mean,
+    sd: count >= 2 ? Math.sqrt(Math.max(0, m2) / (count - 1)) : 0,
+    median: weightedMedian(runs, count),
+    invalidCount: context.invalidCount,
+    invalidExamples: context.invalidExamples,
+    histogram: histogram(runs, min, max),
+    distinct: runs.length,
+    integer,
+    leadingZeros: context.leadingZeros,
+  };
+}
+
+/** The middle value (or the mean of the two middle values) of the runs taken as one sorted list. */
+function weightedMedian(runs: Runs, count: number): number {
+  const lowerPosition = Math.floor((count - 1) / 2);
+  const upperPosition = Math.ceil((count - 1) / 2);
+  return (valueAtPosition(runs, lowerPosition) + valueAtPosition(runs, upperPosition)) / 2;
+}
+
+function valueAtPosition(runs: Runs, position: number): number {
+  let seen = 0;
+  for (let i = 0; i < runs.length; i++) {
+    seen += runs.counts[i] ?? 0;
+    if (position < seen) return runs.values[i] ?? NaN;
+  }
+  return NaN;
+}
+
+function histogram(runs: Runs, min: number, max: number): NumericSummary['histogram'] {
+  if (!(max > min)) {
+    let total = 0;
+    for (let i = 0; i < runs.length; i++) total += runs.counts[i] ?? 0;
+    return { edges: [min, max], counts: [total] };
+  }
+  const width = (max - min) / HISTOGRAM_BINS;
+  const edges = Array.from({ length: HISTOGRAM_BINS + 1 }, (_, i) => (i === HISTOGRAM_BINS ? max : min + i * width));
+  const counts = new Array<number>(HISTOGRAM_BINS).fill(0);
+  for (let i = 0; i < runs.length; i++) {
+    const x = runs.values[i] ?? min;
+    const bin = Math.min(HISTOGRAM_BINS - 1, Math.floor(((x - min) / (max - min)) * HISTOGRAM_BINS));
+    counts[bin] = (counts[bin] ?? 0) + (runs.counts[i] ?? 0);
+  }
+  return { edges, counts };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Flags.
+
+function isMostlyNumeric(numeric: NumericSummary | null): numeric is NumericSummary {
+  return numeric !== null && numeric.share >= PROFILE_THRESHOLDS.numericShare;
+}
+
+function looksLikeIdentifier(
+  nonMissing: number,
+  distinct: number,
+  numeric: NumericSummary | null,
+  freeText: boolean,
+): boolean {
+  const t = PROFILE_THRESHOLDS;
+  if (freeText || nonMissing < t.identifierMinValues || distinct < t.identifierDistinctShare * nonMissing) return false;
+  if (!isMostlyNumeric(numeric)) return true;
+  return numeric.integer === true && (countsRows(numeric) || (numeric.leadingZeros ?? 0) > 0 || oneWidth(numeric));
+}
+
+/** Whole numbers, each once, with no gaps: 1, 2, 3, … (or any run of consecutive numbers). */
+export function countsRows(numeric: NumericSummary): boolean {
+  return numeric.integer === true && numeric.distinct === numeric.count && numeric.max - numeric.min + 1 === numeric.count;
+}
+
+/** Non-negative whole numbers that all have the same number of digits, at least the minimum width. */
+export function oneWidth(numeric: NumericSummary): boolean {
+  if (numeric.integer !== true || numeric.min < 0) return false;
+  const digits = (x: number): number => String(x).length;
+  return digits(numeric.min) === digits(numeric.max) && digits(numeric.min) >= PROFILE_THRESHOLDS.identifierMinWidth;
+}
+
+function looksLikeFreeText(
+  nonMissing: number,
+  distinct: number,
+  numeric: NumericSummary | null,
+  text: TextShape,
+): boolean {
+  const t = PROFILE_THRESHOLDS;
+  return (
+    nonMissing >= t.freeTextMinValues &&
+    (numeric === null || numeric.share < 0.5) &&
+    distinct >= t.freeTextDistinctShare * nonMissing &&
+    text.meanLength >= t.freeTextMeanLength &&
+    text.withSpaces >= t.freeTextSpaceShare * nonMissing
+  );
+}

@@ -1,0 +1,213 @@
+/**
+ * Reading a delimited text file into a Table: bytes → text (decode.ts) → records (parse.ts) →
+ * columns (columns-builder.ts). The first non-empty record is the header.
+ *
+ * - `readTable`: a whole buffer at once.
+ * - `createTableReader`: chunk by chunk, for files read in slices or streams; with `batchRows` it
+ *   hands over consecutive Tables instead of keeping every row, so memory stays flat.
+ * - `readTableFromSource`: a re-readable source of chunks, read again as Windows-1252 if needed.
+ * - `tableFromRows`: rows already split into cells (a spreadsheet sheet read elsewhere).
+ */
+import type { HeaderIssue, Table } from './columns.ts';
+import { TableBuilder } from './columns-builder.ts';
+import { ChunkDecoder, retryAsWindows1252, type EncodingName } from './decode.ts';
+import { LevelwiseError, isLevelwiseError } from './errors.ts';
+import { RecordParser, uniqueColumnNames, type Delimiter } from './parse.ts';
+
+export type { Delimiter } from './parse.ts';
+export type { EncodingName } from './decode.ts';
+
+export interface ReadOptions {
+  /** null or absent: chosen from the start of the file among comma, tab, semicolon and pipe. */
+  readonly delimiter?: Delimiter | null;
+  /** null or absent: chosen from the byte order mark or the bytes themselves. */
+  readonly encoding?: EncodingName | null;
+  /** Distinct values a column keeps as a dictionary before plain numbers move to number storage. */
+  readonly dictionaryCap?: number;
+  /** Hand over the rows as Tables of at most this many rows through `onBatch`, keeping none. */
+  readonly batchRows?: number;
+  /** Receives each batch; `firstRowIndex` is the absolute index of its first row. */
+  readonly onBatch?: (batch: Table, firstRowIndex: number) => void;
+}
+
+export interface ReadResult {
+  /** The whole table; in batch mode the header only (0 rows), the rows having gone to `onBatch`. */
+  readonly table: Table;
+  readonly encoding: EncodingName;
+  readonly delimiter: Delimiter;
+  readonly emptyLinesSkipped: number;
+  /** Bytes read. */
+  readonly bytes: number;
+  /** Data rows read, in batch mode too. */
+  readonly totalRows: number;
+}
+
+export interface TableReader {
+  push(bytes: Uint8Array): void;
+  /** Reads what is left and returns the result; throws a LevelwiseError for an empty or binary file. */
+  finish(): ReadResult;
+  /** Bytes pushed so far, for progress. */
+  readonly bytesRead: number;
+}
+
+/** Slices handed to the reader by `readTable`, so no single string holds the whole file. */
+const SLICE_BYTES = 1 << 20;
+
+export function readTable(bytes: Uint8Array, options: ReadOptions = {}): ReadResult {
+  try {
+    return readSlices(bytes, options);
+  } catch (error) {
+    if (!isLevelwiseError(error, 'encoding-restart')) throw error;
+    return readSlices(bytes, { ...options, encoding: 'windows-1252' });
+  }
+}
+
+function readSlices(bytes: Uint8Array, options: ReadOptions): ReadResult {
+  const reader = createTableReader(options);
+  for (let at = 0; at < bytes.length; at += SLICE_BYTES) reader.push(bytes.subarray(at, at + SLICE_BYTES));
+  return reader.finish();
+}
+
+/**
+ * Reads a source that can be opened more than once (a File's stream, a file path), starting over
+ * as Windows-1252 if non-UTF-8 bytes show up late. In batch mode, a restart begins the batches
+ * again at row 0.
+ */
+export function readTableFromSource(open: () => AsyncIterable<Uint8Array>, options: ReadOptions = {}): Promise<ReadResult> {
+  return retryAsWindows1252(
+    open,
+    async (chunks, encoding) => {
+      const reader = createTableReader({ ...options, encoding });
+      for await (const chunk of chunks) reader.push(chunk);
+      return reader.finish();
+    },
+    options.encoding ?? null,
+  );
+}
+
+export function createTableReader(options: ReadOptions = {}): TableReader {
+  return new StreamingTableReader(options);
+}
+
+class StreamingTableReader implements TableReader {
+  private readonly decoder: ChunkDecoder;
+  private readonly parser: RecordParser;
+  private readonly rows: RowCollector;
+  private bytes = 0;
+
+  constructor(options: ReadOptions) {
+    this.decoder = new ChunkDecoder(options.encoding ?? null);
+    this.rows = new RowCollector(options);
+    this.parser = new RecordParser((fields, line, unclosed) => this.rows.add(fields, line, unclosed), options);
+  }
+
+  get bytesRead(): number {
+    return this.bytes;
+  }
+
+  push(bytes: Uint8Array): void {
+    this.bytes += bytes.length;
+    const text = this.decoder.decode(bytes);
+    if (text !== '') this.parser.push(text);
+  }
+
+  finish(): ReadResult {
+    if (this.bytes === 0) throw emptyFileError('The file is empty (0 bytes).');
+    this.parser.push(this.decoder.finish());
+    this.parser.finish();
+    const table = this.rows.finish();
+    return {
+      table,
+      encoding: this.decoder.encoding ?? 'utf-8',
+      delimiter: this.parser.delimiter ?? ',',
+      emptyLinesSkipped: this.parser.emptyLinesSkipped,
+      bytes: this.bytes,
+      totalRows: this.rows.totalRows,
+    };
+  }
+}
+
+/** Takes records after the header; keeps them all, or hands them on in batches. */
+class RowCollector {
+  private readonly options: ReadOptions;
+  private readonly batchRows: number;
+  private names: readonly string[] | null = null;
+  private headerIssues: readonly HeaderIssue[] = [];
+  private builder: TableBuilder | null = null;
+  private batchStart = 0;
+
+  constructor(options: ReadOptions) {
+    this.options = options;
+    this.batchRows = options.batchRows ?? Infinity;
+    if (options.batchRows !== undefined && !(options.batchRows >= 1 && options.onBatch !== undefined)) {
+      throw new Error('batchRows needs to be at least 1 and to come with onBatch');
+    }
+  }
+
+  get totalRows(): number {
+    return this.batchStart + (this.builder?.rowCount ?? 0);
+  }
+
+  add(fields: readonly string[], line: number, unclosedQuote: boolean): void {
+    if (this.builder === null) {
+      this.startTable(fields);
+      return;
+    }
+    this.builder.addRow(fields, line, unclosedQuote);
+    if (this.builder.rowCount >= this.batchRows) this.handOver();
+  }
+
+  /**
+   * The table; in batch mode, after handing over the last rows (or an empty first batch for a
+   * header-only file), the header alone.
+   */
+  finish(): Table {
+    if (this.builder === null) throw emptyFileError('The file has no header row: it holds only empty lines.');
+    if (this.batchRows === Infinity) return this.builder.build();
+    if (this.builder.rowCount > 0 || this.batchStart === 0) this.handOver();
+    return new TableBuilder(this.names ?? [], { firstRowIndex: this.batchStart, headerIssues: this.headerIssues }).build();
+  }
+
+  private startTable(header: readonly string[]): void {
+    const { names, issues } = uniqueColumnNames(header);
+    this.names = names;
+    this.headerIssues = issues;
+    this.builder = this.newBuilder();
+  }
+
+  private handOver(): void {
+    const batch = this.builder!.build();
+    this.options.onBatch?.(batch, this.batchStart);
+    this.batchStart += batch.rowCount;
+    this.builder = this.newBuilder();
+  }
+
+  /** Header issues go with the first table only. */
+  private newBuilder(): TableBuilder {
+    return new TableBuilder(this.names ?? [], {
+      dictionaryCap: this.options.dictionaryCap,
+      firstRowIndex: this.batchStart,
+      headerIssues: this.batchStart === 0 && this.builder === null ? this.headerIssues : [],
+    });
+  }
+}
+
+function emptyFileError(message: string): LevelwiseError {
+  return new LevelwiseError('empty-file', message, { hint: 'Choose a file with a header row and data rows.' });
+}
+
+/**
+ * Rows already split into cells, the first being the header; a row of only empty cells counts as
+ * an empty line. Line numbers are positions in `rows` counted from 1 (the sheet's row numbers when
+ * `rows` starts at the sheet's first row). `encoding` and `delimiter` are reported as 'utf-8' and ','.
+ */
+export function tableFromRows(rows: readonly (readonly string[])[], options: Pick<ReadOptions, 'dictionaryCap'> = {}): ReadResult {
+  const collector = new RowCollector(options);
+  let emptyLines = 0;
+  rows.forEach((row, index) => {
+    if (row.every((cell) => cell === '')) emptyLines++;
+    else collector.add(row, index + 1, false);
+  });
+  const table = collector.finish();
+  return { table, encoding: 'utf-8', delimiter: ',', emptyLinesSkipped: emptyLines, bytes: 0, totalRows: table.rowCount };
+}

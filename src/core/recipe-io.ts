@@ -1,0 +1,142 @@
+/**
+ * Reading and writing recipe documents. Loading validates against the schema and answers with
+ * messages a person understands: which field, what was expected, what was found.
+ */
+import type { z } from 'zod';
+import { nameOutputs } from './names.ts';
+import { Recipe, RECIPE_KIND, RECIPE_VERSION } from './recipe.ts';
+
+export type RecipeParse = { readonly ok: true; readonly recipe: Recipe } | { readonly ok: false; readonly errors: readonly string[] };
+
+/** Larger documents are refused before parsing: a recipe of this size is not a recipe. */
+export const MAX_RECIPE_BYTES = 64 * 1024 * 1024;
+const MAX_LISTED_ERRORS = 20;
+
+export function parseRecipe(text: string): RecipeParse {
+  if (text.length > MAX_RECIPE_BYTES) {
+    return { ok: false, errors: [`The recipe is ${Math.round(text.length / 1e6)} MB; recipes are at most ${MAX_RECIPE_BYTES / 1e6} MB. Is this the right file?`] };
+  }
+  let data: unknown;
+  try {
+    data = JSON.parse(text);
+  } catch (error) {
+    return { ok: false, errors: [`The recipe is not valid JSON (${(error as Error).message}). Open it in a text editor, or make a new one in the workbench.`] };
+  }
+  const header = checkHeader(data);
+  if (header) return { ok: false, errors: [header] };
+  const result = Recipe.safeParse(data);
+  if (result.success) {
+    const problems = consistencyProblems(result.data);
+    return problems.length === 0 ? { ok: true, recipe: result.data } : { ok: false, errors: problems };
+  }
+  const errors = result.error.issues.slice(0, MAX_LISTED_ERRORS).map((issue) => describeIssue(issue, data));
+  if (result.error.issues.length > MAX_LISTED_ERRORS) errors.push(`… and ${result.error.issues.length - MAX_LISTED_ERRORS} more problems.`);
+  return { ok: false, errors };
+}
+
+/** Says early, in one line, when the document is not a recipe at all or is of another version. */
+function checkHeader(data: unknown): string | null {
+  if (typeof data !== 'object' || data === null || Array.isArray(data)) return 'A recipe is a JSON object; this file holds something else.';
+  const kind = (data as Record<string, unknown>)['kind'];
+  const version = (data as Record<string, unknown>)['version'];
+  if (kind !== RECIPE_KIND) return `This is not a Levelwise recipe: "kind" should be "${RECIPE_KIND}", found ${JSON.stringify(kind) ?? 'nothing'}.`;
+  if (version !== RECIPE_VERSION) {
+    return `This recipe has format version ${JSON.stringify(version)}; this Levelwise reads version ${RECIPE_VERSION}. Make the recipe again with this version.`;
+  }
+  return null;
+}
+
+function describeIssue(issue: z.core.$ZodIssue, data: unknown): string {
+  const where = pathText(issue.path, data);
+  const found = valueAt(data, issue.path);
+  switch (issue.code) {
+    case 'unrecognized_keys':
+      return `${where}: unknown field${issue.keys.length > 1 ? 's' : ''} ${issue.keys.map((k) => `"${k}"`).join(', ')}; remove ${issue.keys.length > 1 ? 'them' : 'it'}.`;
+    case 'invalid_type':
+      return found === undefined
+        ? `${where}: missing; expected ${issue.expected}.`
+        : `${where}: expected ${issue.expected}, found ${describeValue(found)}.`;
+    case 'invalid_value':
+      return `${where}: expected one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}, found ${describeValue(found)}.`;
+    case 'invalid_union':
+      return `${where}: not a valid column entry (check "level" and the fields that belong to it).`;
+    default:
+      return `${where}: ${issue.message}.`;
+  }
+}
+
+/** "columns[2] (heating).coding" — array positions plus the column's name where there is one. */
+function pathText(path: readonly PropertyKey[], data: unknown): string {
+  if (path.length === 0) return 'The recipe';
+  let text = '';
+  let node: unknown = data;
+  for (const key of path) {
+    if (typeof key === 'number') {
+      text += `[${key}]`;
+      node = Array.isArray(node) ? node[key] : undefined;
+      const name = typeof node === 'object' && node !== null ? (node as Record<string, unknown>)['name'] : undefined;
+      if (typeof name === 'string') text += ` ("${name}")`;
+    } else {
+      text += text === '' ? String(key) : `.${String(key)}`;
+      node = typeof node === 'object' && node !== null && Object.hasOwn(node, key) ? (node as Record<PropertyKey, unknown>)[key] : undefined;
+    }
+  }
+  return text;
+}
+
+function valueAt(data: unknown, path: readonly PropertyKey[]): unknown {
+  let node = data;
+  for (const key of path) {
+    if (typeof node !== 'object' || node === null || !Object.hasOwn(node, key)) return undefined;
+    node = (node as Record<PropertyKey, unknown>)[key];
+  }
+  return node;
+}
+
+function describeValue(value: unknown): string {
+  if (value === null) return 'null';
+  if (Array.isArray(value)) return 'a list';
+  if (typeof value === 'object') return 'an object';
+  const text = JSON.stringify(value);
+  return text.length > 60 ? `${text.slice(0, 57)}…` : text;
+}
+
+/** Stable, pretty JSON (field order as in the schema), ending with a newline. */
+export function stringifyRecipe(recipe: Recipe): string {
+  return `${JSON.stringify(Recipe.parse(recipe), null, 2)}\n`;
+}
+
+/**
+ * Rules the schema alone cannot state: output counts that match the encodings, unique output
+ * names, a reference or positive level that exists, one score per level.
+ */
+export function consistencyProblems(recipe: Recipe): string[] {
+  const problems: string[] = [];
+  const expected = nameOutputs(recipe);
+  const seen = new Set<string>();
+  recipe.columns.forEach((column, i) => {
+    const where = `columns[${i}] ("${column.name}")`;
+    const want = expected.columns[i]?.outputs.length ?? 0;
+    if (column.outputs.length !== want) {
+      problems.push(`${where}.outputs: this encoding makes ${want} output column(s), the recipe names ${column.outputs.length}.`);
+    }
+    for (const name of column.outputs) {
+      if (seen.has(name)) problems.push(`${where}.outputs: the output name "${name}" is used twice; output names must be unique.`);
+      seen.add(name);
+    }
+    const values = 'levels' in column ? column.levels.map((l) => l.value) : [];
+    if (column.level === 'nominal' && column.reference !== null && !values.includes(column.reference)) {
+      problems.push(`${where}.reference: "${column.reference}" is not one of the column's levels.`);
+    }
+    if (column.level === 'binary' && values.length > 0 && !values.includes(column.positive)) {
+      problems.push(`${where}.positive: "${column.positive}" is not one of the column's levels.`);
+    }
+    if (column.level === 'ordinal' && column.scores !== null && column.scores.length !== column.levels.length) {
+      problems.push(`${where}.scores: ${column.scores.length} scores for ${column.levels.length} levels; give one score per level.`);
+    }
+    if ('unseen' in column && column.unseen === 'other' && !values.includes(column.otherLabel)) {
+      problems.push(`${where}.unseen: "other" needs the level "${column.otherLabel}" in levels.`);
+    }
+  });
+  return problems;
+}

@@ -1,0 +1,112 @@
+/**
+ * A file (or the built-in demo) → a Table, inside the worker. Text files are streamed from
+ * `File.stream()` chunk by chunk into core's table reader, never held as one string; spreadsheets
+ * go through read-excel-file (its worker-free build, since this already is a worker) and then core
+ * `tableFromRows`.
+ */
+import readXlsxFile from 'read-excel-file/web-worker';
+import { readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
+import { LevelwiseError } from '../core/errors.ts';
+import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
+import { Cancelled, type TableSource } from './protocol.ts';
+
+export interface ReadProgress {
+  (done: number, total: number | null): void;
+}
+
+export interface SourceRead {
+  readonly read: ReadResult;
+  readonly fileName: string;
+  readonly file: Blob;
+  readonly sheet: { readonly name: string; readonly names: readonly string[] } | null;
+}
+
+export interface ReadSourceOptions {
+  readonly delimiter?: Delimiter | null;
+  readonly signal: AbortSignal;
+  readonly onProgress: ReadProgress;
+}
+
+/** The start of every ZIP container, XLSX included ("PK\3\4"). */
+const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04];
+
+export async function readSource(source: TableSource, options: ReadSourceOptions): Promise<SourceRead> {
+  if (source.kind === 'demo') {
+    const file = new Blob([generateHouseholdEnergyCsv({ rows: source.rows })], { type: 'text/csv' });
+    return { read: await readText(file, options), fileName: DEMO_FILE_NAME, file, sheet: null };
+  }
+  const { file } = source;
+  if (await isSpreadsheet(file)) return readSpreadsheet(file, source.sheet ?? null, options);
+  return { read: await readText(file, options), fileName: file.name, file, sheet: null };
+}
+
+async function isSpreadsheet(file: File): Promise<boolean> {
+  if (/\.(xlsx|xlsm)$/i.test(file.name)) return true;
+  const head = new Uint8Array(await file.slice(0, 4).arrayBuffer());
+  return ZIP_MAGIC.every((b, i) => head[i] === b);
+}
+
+function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptions): Promise<ReadResult> {
+  return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null });
+}
+
+/** The file's bytes as they stream in; reports progress and stops when the request is cancelled. */
+async function* chunksOf(file: Blob, signal: AbortSignal, onProgress: ReadProgress): AsyncGenerator<Uint8Array> {
+  const reader = file.stream().getReader();
+  let done = 0;
+  try {
+    for (;;) {
+      if (signal.aborted) throw new Cancelled();
+      const next = await reader.read();
+      if (next.done) return;
+      done += next.value.length;
+      onProgress(done, file.size);
+      yield next.value;
+    }
+  } finally {
+    reader.releaseLock();
+  }
+}
+
+async function readSpreadsheet(file: File, wanted: string | null, { signal, onProgress }: ReadSourceOptions): Promise<SourceRead> {
+  onProgress(0, file.size);
+  let sheets: Awaited<ReturnType<typeof readXlsxFile>>;
+  try {
+    sheets = await readXlsxFile(file, { trim: false });
+  } catch (error) {
+    throw new LevelwiseError('bad-spreadsheet', `“${file.name}” could not be read as an XLSX workbook: ${messageOf(error)}.`, {
+      hint: 'Open it in a spreadsheet program and save it again as .xlsx, or export the sheet as CSV.',
+    });
+  }
+  if (signal.aborted) throw new Cancelled();
+  onProgress(file.size, file.size);
+  const names = sheets.map((s) => s.sheet);
+  const chosen = wanted === null ? sheets[0] : sheets.find((s) => s.sheet === wanted);
+  if (chosen === undefined) {
+    throw new LevelwiseError('no-sheet', wanted === null ? `“${file.name}” holds no sheets.` : `“${file.name}” has no sheet named “${wanted}”.`, {
+      hint: names.length > 0 ? `Choose one of: ${names.join(', ')}.` : 'Choose a workbook with at least one sheet.',
+    });
+  }
+  const rows = chosen.data.map((row) => row.map(cellToText));
+  return { read: tableFromRows(rows), fileName: file.name, file, sheet: { name: chosen.sheet, names } };
+}
+
+/**
+ * A spreadsheet cell as the text a CSV export would hold. Dates become ISO 8601 (a date alone when
+ * the time is midnight); booleans TRUE/FALSE as spreadsheets print them.
+ */
+export function cellToText(cell: unknown): string {
+  if (cell === null || cell === undefined) return '';
+  if (typeof cell === 'string') return cell;
+  if (typeof cell === 'number') return Number.isFinite(cell) ? String(cell) : '';
+  if (typeof cell === 'boolean') return cell ? 'TRUE' : 'FALSE';
+  if (cell instanceof Date) {
+    const iso = cell.toISOString();
+    return iso.endsWith('T00:00:00.000Z') ? iso.slice(0, 10) : iso.replace('.000Z', 'Z');
+  }
+  return String(cell);
+}
+
+function messageOf(error: unknown): string {
+  return error instanceof Error ? error.message.replace(/\.$/, '') : String(error);
+}

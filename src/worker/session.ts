@@ -1,0 +1,263 @@
+/**
+ * The worker's state and its answers to each request. The worker file only forwards messages here,
+ * so the same session runs in Node tests (and could run in the page as a fallback).
+ *
+ * Held per slot: the table read from the file, and the plan compiled from the recipe last put in
+ * use. Every long job yields between batches so a `cancel` message can get through.
+ */
+import { createApplyReport, type ApplyReport } from '../core/apply-report.ts';
+import { encodeBatch, encodeWindow } from '../core/apply.ts';
+import { cellText, type Table } from '../core/columns.ts';
+import { createCsvWriter } from '../core/csv-write.ts';
+import { isLevelwiseError } from '../core/errors.ts';
+import { draftRecipe } from '../core/fit.ts';
+import { compilePlan, type Plan } from '../core/plan.ts';
+import { profileTable } from '../core/profile.ts';
+import { DEFAULT_MISSING_TOKENS, type Recipe } from '../core/recipe.ts';
+import { fingerprintFile } from './fingerprint.ts';
+import {
+  Cancelled,
+  type CallKind,
+  type ExportSummary,
+  type FromWorker,
+  type OpenedTable,
+  type Phase,
+  type PreviewWindow,
+  type Problem,
+  type RecipeInUse,
+  type RequestOf,
+  type ResultOf,
+  type Slot,
+  type ToWorker,
+} from './protocol.ts';
+import { readSource } from './read-source.ts';
+
+/** Rows encoded between two looks at the message queue during exports and checks. */
+export const BATCH_ROWS = 16_384;
+/** Row problems listed in an OpenedTable; the count covers all of them. */
+export const ROW_ISSUES_LISTED = 200;
+/** A preview window larger than this many rows is refused: the page only ever needs a few screens. */
+export const MAX_WINDOW_ROWS = 5_000;
+
+export type Post = (message: FromWorker, transfer?: Transferable[]) => void;
+
+interface SlotState {
+  readonly version: number;
+  readonly table: Table;
+  readonly fileName: string;
+  plan: Plan | null;
+  revision: number;
+}
+
+interface Context {
+  readonly id: number;
+  readonly signal: AbortSignal;
+  progress(phase: Phase, done: number, total: number | null): void;
+  chunk(bytes: Uint8Array): void;
+}
+
+type Handler<K extends CallKind> = (request: RequestOf<K>, context: Context) => Promise<{ result: ResultOf<K>; transfer?: Transferable[] }>;
+
+export interface Session {
+  receive(message: ToWorker): void;
+}
+
+export function createSession(post: Post): Session {
+  const slots = new Map<Slot, SlotState>();
+  const running = new Map<number, AbortController>();
+  let nextVersion = 1;
+
+  const slotFor = (slot: Slot, version: number): SlotState => {
+    const state = slots.get(slot);
+    if (state === undefined || state.version !== version) throw new Cancelled(); // superseded by a newer file
+    return state;
+  };
+
+  const handlers: { [K in CallKind]: Handler<K> } = {
+    async open(request, context) {
+      const version = nextVersion++;
+      const read = await readSource(request.source, {
+        delimiter: request.delimiter ?? null,
+        signal: context.signal,
+        onProgress: (done, total) => context.progress('reading', done, total),
+      });
+      const { table } = read.read;
+      const fingerprint = await fingerprintFile(read.file, read.fileName);
+      let profiles: OpenedTable['profiles'] = [];
+      let draft: Recipe | null = null;
+      if (request.draft) {
+        context.progress('profiling', 0, table.columns.length);
+        await breathe(context.signal);
+        const missingTokens = request.missingTokens ?? DEFAULT_MISSING_TOKENS;
+        profiles = profileTable(table, { missingTokens });
+        const delimiter = read.sheet === null ? read.read.delimiter : null;
+        draft = draftRecipe(profiles, { file: read.fileName, rows: table.rowCount }, { missingTokens, delimiter });
+      }
+      if (context.signal.aborted) throw new Cancelled();
+      slots.set(request.slot, { version, table, fileName: read.fileName, plan: null, revision: -1 });
+      const result: OpenedTable = {
+        slot: request.slot,
+        version,
+        fileName: read.fileName,
+        fingerprint,
+        byteSize: read.file.size,
+        rowCount: table.rowCount,
+        names: table.names,
+        format:
+          read.sheet === null
+            ? { kind: 'text', delimiter: read.read.delimiter, encoding: read.read.encoding }
+            : { kind: 'sheet', sheet: read.sheet.name, sheets: read.sheet.names },
+        rowIssues: table.rowIssues.slice(0, ROW_ISSUES_LISTED),
+        rowIssueCount: table.rowIssues.length,
+        headerIssues: table.headerIssues,
+        profiles,
+        draft,
+      };
+      return { result };
+    },
+
+    async 'use-recipe'(request) {
+      const state = slotFor(request.slot, request.version);
+      const plan = compilePlan(request.recipe, state.table.names);
+      state.plan = plan;
+      state.revision = request.revision;
+      const result: RecipeInUse = {
+        revision: request.revision,
+        outputs: plan.outputs,
+        missingColumns: plan.missingColumns,
+        extraColumns: plan.extraColumns,
+      };
+      return { result };
+    },
+
+    async window(request) {
+      const state = slotFor(request.slot, request.version);
+      if (state.plan === null || state.revision !== request.revision) throw new Cancelled(); // a newer recipe is on its way
+      const result = previewWindow(state.plan, state.table, request.start, request.end, request.version, request.revision);
+      return { result, transfer: [result.values.buffer, result.lines.buffer, result.rejected.buffer] };
+    },
+
+    async export(request, context) {
+      const state = slotFor(request.slot, request.version);
+      const plan = compilePlan(request.recipe, state.table.names);
+      const writer = createCsvWriter(plan, (part) => {
+        // The writer reuses its buffer: the copy is what travels (and is transferred, not cloned).
+        const copy = part.slice();
+        context.chunk(copy);
+      });
+      writer.writeHeader();
+      const report = await encodeAll(plan, state.table, context, 'writing', (batch) => writer.writeBatch(batch));
+      writer.finish();
+      const result: ExportSummary = { bytes: writer.bytesWritten, rowsWritten: report.rowsWritten, report };
+      return { result };
+    },
+
+    async check(request, context) {
+      const state = slotFor(request.slot, request.version);
+      const plan = compilePlan(request.recipe, state.table.names);
+      const result = await encodeAll(plan, state.table, context, 'checking', () => undefined);
+      return { result };
+    },
+
+    async close(request) {
+      slots.delete(request.slot);
+      return { result: null };
+    },
+  };
+
+  const run = async (message: Exclude<ToWorker, { type: 'cancel' }>): Promise<void> => {
+    const controller = new AbortController();
+    running.set(message.id, controller);
+    const context: Context = {
+      id: message.id,
+      signal: controller.signal,
+      progress: (phase, done, total) => post({ type: 'progress', id: message.id, phase, done, total }),
+      chunk: (bytes) => post({ type: 'chunk', id: message.id, bytes }, [bytes.buffer]),
+    };
+    try {
+      // The handler table is keyed by message type; TypeScript cannot narrow the pair, hence the cast.
+      const handler = handlers[message.type] as Handler<CallKind>;
+      const { result, transfer } = await handler(message as RequestOf<CallKind>, context);
+      if (controller.signal.aborted) post({ type: 'cancelled', id: message.id });
+      else post({ type: 'done', id: message.id, result }, transfer);
+    } catch (error) {
+      if (error instanceof Cancelled || controller.signal.aborted) post({ type: 'cancelled', id: message.id });
+      else post({ type: 'failed', id: message.id, problem: problemOf(error) });
+    } finally {
+      running.delete(message.id);
+    }
+  };
+
+  return {
+    receive(message) {
+      if (message.type === 'cancel') {
+        running.get(message.id)?.abort();
+        return;
+      }
+      void run(message);
+    },
+  };
+}
+
+/** Rows [start, end) encoded for the preview, with their lines, rejections and original texts. */
+export function previewWindow(plan: Plan, table: Table, start: number, end: number, version: number, revision: number): PreviewWindow {
+  const from = Math.max(0, Math.min(start, table.rowCount));
+  const to = Math.max(from, Math.min(end, table.rowCount, from + MAX_WINDOW_ROWS));
+  const { values, batch } = encodeWindow(plan, table, from, to);
+  const cells: string[] = [];
+  for (let row = from; row < to; row++) for (const column of table.columns) cells.push(cellText(column, row));
+  return {
+    version,
+    revision,
+    start: from,
+    end: to,
+    values,
+    width: plan.outputs.length,
+    lines: table.lineOfRow.slice(from, to),
+    rejected: batch.rejected.slice(),
+    cells,
+  };
+}
+
+/**
+ * Encodes every row in batches, recording the report, handing each batch to `write`. The same
+ * steps as core's encodeTable, with a pause between batches so the job can be cancelled and
+ * progress can be shown.
+ */
+async function encodeAll(
+  plan: Plan,
+  table: Table,
+  context: Context,
+  phase: Phase,
+  write: (batch: ReturnType<typeof encodeBatch>) => void,
+): Promise<ApplyReport> {
+  const report = createApplyReport(plan);
+  context.progress(phase, 0, table.rowCount);
+  for (let start = 0; start < table.rowCount; start += BATCH_ROWS) {
+    const end = Math.min(table.rowCount, start + BATCH_ROWS);
+    write(encodeBatch(plan, table, start, end, report));
+    context.progress(phase, end, table.rowCount);
+    await breathe(context.signal);
+  }
+  return report.finish();
+}
+
+/** Lets queued messages (a cancel) in, then stops the job if it was cancelled. */
+async function breathe(signal: AbortSignal): Promise<void> {
+  await new Promise<void>((resolve) => setTimeout(resolve, 0));
+  if (signal.aborted) throw new Cancelled();
+}
+
+export function problemOf(error: unknown): Problem {
+  if (isLevelwiseError(error)) {
+    return {
+      code: error.code,
+      message: error.message,
+      hint: error.hint,
+      ...(error.line !== undefined ? { line: error.line } : {}),
+      ...(error.column !== undefined ? { column: error.column } : {}),
+    };
+  }
+  const message = error instanceof Error ? error.message : String(error);
+  return { code: 'internal', message: `Something went wrong inside Levelwise: ${message}`, hint: 'Reload the page and try again; if it happens again, the file may have found a fault in Levelwise.' };
+}
