@@ -2,9 +2,11 @@
  * Builds column storage (columns.ts) one row at a time, without an object per row or per cell.
  *
  * Each column starts dictionary-encoded. When its distinct values outgrow the cap and all of them
- * so far are plain numbers (or empty), it moves to number storage: a Float64Array, plus the raw
- * text of any later cell that is not exactly `String(value)`. Either way `cellText` gives back the
- * parsed text unchanged.
+ * so far are empty or decimal number text ('12', '-0.5', '1.50', '007', '1e3'), it moves to number
+ * storage: a Float64Array holding Number(text) (NaN for other text), plus the raw text of every
+ * cell that `String(value)` would not give back ('1.50', '007', 'n/a', later stray text). Either
+ * way `cellText` gives back the parsed text unchanged. Requiring only decimal syntax, not the
+ * exact `String(value)` form, lets fixed-decimal exports ('12.50') leave the dictionary too.
  */
 import type { Column, HeaderIssue, RowIssue, Table } from './columns.ts';
 
@@ -21,7 +23,8 @@ export class ColumnBuilder {
   private codes = new Uint32Array(INITIAL_CAPACITY);
   private values: string[] = [];
   private counts = new Float64Array(64);
-  private onlyPlainNumbers = true;
+  /** Every distinct value so far is empty or decimal number text. */
+  private onlyNumbers = true;
   // Number storage.
   private numbers: Float64Array | null = null;
   private exceptions: Map<number, string> | null = null;
@@ -55,7 +58,7 @@ export class ColumnBuilder {
     this.counts[code]! += 1;
     if (this.length === this.codes.length) this.codes = grow(this.codes);
     this.codes[this.length++] = code;
-    if (this.values.length > this.cap && this.onlyPlainNumbers) this.switchToNumbers();
+    if (this.values.length > this.cap && this.onlyNumbers) this.switchToNumbers();
   }
 
   private addValue(dictionary: Map<string, number>, text: string): number {
@@ -64,16 +67,22 @@ export class ColumnBuilder {
     dictionary.set(kept, code);
     this.values.push(kept);
     if (code === this.counts.length) this.counts = grow(this.counts);
-    if (this.onlyPlainNumbers && text !== '' && Number.isNaN(plainNumberValue(text))) this.onlyPlainNumbers = false;
+    if (this.onlyNumbers && text !== '' && Number.isNaN(numberValue(text))) this.onlyNumbers = false;
     return code;
   }
 
   private switchToNumbers(): void {
-    const valueOfCode = Float64Array.from(this.values, plainNumberValue);
+    const valueOfCode = Float64Array.from(this.values, numberValue);
+    const keepText = this.values.map((text, code) => !printsAs(valueOfCode[code]!, text));
     const numbers = new Float64Array(this.codes.length);
-    for (let row = 0; row < this.length; row++) numbers[row] = valueOfCode[this.codes[row]!]!;
+    const exceptions = new Map<number, string>();
+    for (let row = 0; row < this.length; row++) {
+      const code = this.codes[row]!;
+      numbers[row] = valueOfCode[code]!;
+      if (keepText[code]) exceptions.set(row, this.values[code]!);
+    }
     this.numbers = numbers;
-    this.exceptions = new Map();
+    this.exceptions = exceptions;
     this.dictionary = null;
     this.codes = new Uint32Array(0);
     this.values = [];
@@ -83,60 +92,90 @@ export class ColumnBuilder {
   private pushNumber(text: string): void {
     let numbers = this.numbers!;
     if (this.length === numbers.length) numbers = this.numbers = grow(numbers);
-    const value = plainNumberValue(text);
+    const kind = scanNumberText(text);
+    const value = valueOf(kind, text);
     numbers[this.length] = value;
-    // NaN reads back as '', so only non-empty text that is not a plain number needs keeping.
-    if (Number.isNaN(value) && text !== '') this.exceptions!.set(this.length, detach(text));
+    if (!printsBack(kind, value, text)) this.exceptions!.set(this.length, detach(text));
     this.length++;
   }
 }
 
-/**
- * The number `text` spells in plain JavaScript form (exactly `String(value)`, finite), else NaN.
- * '1.5' → 1.5; '1.50', ' 7', '-0', '1e3', '0x10', 'NaN', '' → NaN.
- */
-export function plainNumberValue(text: string): number {
-  if (isShortPlainDecimal(text)) {
-    const value = +text;
-    // Canonical unless it is -0 or small enough for String() to switch to exponent form.
-    if (value === 0) return text === '0' ? 0 : NaN;
-    return Math.abs(value) >= 1e-6 ? value : NaN;
-  }
-  if (text === '') return NaN;
-  const value = +text;
-  return Number.isFinite(value) && String(value) === text ? value : NaN;
+/** Number(text) when `text` is decimal number syntax (see scanNumberText), else NaN. */
+export function numberValue(text: string): number {
+  return valueOf(scanNumberText(text), text);
 }
+
+/** Whether `value` (numberValue(text)) reads back as exactly `text` through cellText. */
+export function printsAs(value: number, text: string): boolean {
+  return printsBack(scanNumberText(text), value, text);
+}
+
+function valueOf(kind: number, text: string): number {
+  if (kind === NOT_A_NUMBER) return NaN;
+  const value = +text;
+  return Number.isFinite(value) ? value : NaN;
+}
+
+function printsBack(kind: number, value: number, text: string): boolean {
+  if (Number.isNaN(value)) return text === '';
+  if (kind !== SHORT_PLAIN) return String(value) === text;
+  // Short plain decimals print back unchanged except -0 and values String() writes with an exponent.
+  return value === 0 ? text === '0' : Math.abs(value) >= 1e-6;
+}
+
+const NOT_A_NUMBER = 0;
+const DECIMAL = 1;
+const SHORT_PLAIN = 2;
 
 const ZERO = 0x30;
 const NINE = 0x39;
 const MINUS = 0x2d;
+const PLUS = 0x2b;
 const DOT = 0x2e;
 
 /**
- * `-?(0|[1-9][0-9]*)(\.[0-9]*[1-9])?` in at most 15 characters. Such a text has at most 15
- * significant digits, so it survives the trip to a double and back (IEEE 754 guarantees 15), and
- * `String()` prints it the same way unless it is -0 or below 1e-6. Avoids String() on most cells.
+ * NOT_A_NUMBER, or DECIMAL for `-?(digits[.digits]|.digits)([eE][+-]?digits)?` ('1.50', '007',
+ * '1e3'), or SHORT_PLAIN for `-?(0|[1-9]digits)(.digits ending in 1-9)?` in at most 15
+ * characters. A SHORT_PLAIN text has at most 15 significant digits, so it survives the trip to a
+ * double and back (IEEE 754 guarantees 15) and String() prints it the same way, unless it is -0 or
+ * below 1e-6: `printsAs` then needs no String() call, which would allocate for every cell.
  */
-function isShortPlainDecimal(text: string): boolean {
+function scanNumberText(text: string): number {
   const n = text.length;
-  if (n === 0 || n > 15) return false;
-  let i = text.charCodeAt(0) === MINUS ? 1 : 0;
-  if (i === n) return false;
-  if (text.charCodeAt(i) === ZERO) i++;
-  else {
-    const start = i;
-    while (i < n && isDigit(text.charCodeAt(i))) i++;
-    if (i === start) return false;
+  let i = n > 0 && text.charCodeAt(0) === MINUS ? 1 : 0;
+  const intStart = i;
+  i = skipDigits(text, i);
+  const intDigits = i - intStart;
+  let fracDigits = 0;
+  const hasDot = i < n && text.charCodeAt(i) === DOT;
+  if (hasDot) {
+    const fracStart = i + 1;
+    i = skipDigits(text, fracStart);
+    fracDigits = i - fracStart;
   }
-  if (i === n) return true;
-  if (text.charCodeAt(i) !== DOT || i === n - 1) return false;
-  i++;
-  while (i < n && isDigit(text.charCodeAt(i))) i++;
-  return i === n && text.charCodeAt(n - 1) !== ZERO;
+  if (intDigits + fracDigits === 0) return NOT_A_NUMBER;
+  const hasExponent = i < n && (text.charCodeAt(i) | 0x20) === 0x65; // e or E
+  if (hasExponent) {
+    i++;
+    if (i < n && (text.charCodeAt(i) === MINUS || text.charCodeAt(i) === PLUS)) i++;
+    const expStart = i;
+    i = skipDigits(text, i);
+    if (i === expStart) return NOT_A_NUMBER;
+  }
+  if (i !== n) return NOT_A_NUMBER;
+  const plainInteger = intDigits === 1 || (intDigits > 1 && text.charCodeAt(intStart) !== ZERO);
+  const plainFraction = !hasDot || (fracDigits > 0 && text.charCodeAt(n - 1) !== ZERO);
+  return !hasExponent && n <= 15 && plainInteger && plainFraction ? SHORT_PLAIN : DECIMAL;
 }
 
-function isDigit(c: number): boolean {
-  return c >= ZERO && c <= NINE;
+function skipDigits(text: string, from: number): number {
+  let i = from;
+  while (i < text.length) {
+    const c = text.charCodeAt(i);
+    if (c < ZERO || c > NINE) break;
+    i++;
+  }
+  return i;
 }
 
 /**

@@ -65,7 +65,8 @@ function validTime(hour?: string, minute?: string, second?: string, meridiem?: s
 /** 'date', 'timestamp' (a date with a time of day), or null when `text` is neither. */
 export function dateShape(text: string): DateShape | null {
   const t = text.trim().toLowerCase();
-  if (t.length < 6 || t.length > 48) return null;
+  // Cheap checks first: profiling calls this once per distinct value, identifiers included.
+  if (t.length < 6 || t.length > 48 || !/\d/.test(t)) return null;
   return isoShape(t) ?? numericShape(t) ?? namedMonthShape(t);
 }
 

@@ -305,7 +305,7 @@ function buildTables(settings: Settings): Tables {
     tariffWithout: weightedPicker(TARIFFS, TARIFF_WEIGHTS_WITHOUT),
     smartMeterYes: weightedPicker(SMART_METER_YES, SMART_METER_YES_WEIGHTS),
     smartMeterNo: weightedPicker(SMART_METER_NO, SMART_METER_NO_WEIGHTS),
-    supplier: weightedPicker(supplierNames(settings.manyLevels).map(quoteCsvCell), zipfWeights(settings.manyLevels, 1.07)),
+    supplier: weightedPicker(supplierNames(settings.manyLevels).map(quoteCsvCell), zipfWeights(settings.manyLevels)),
     comments: COMMENTS.map(quoteCsvCell),
   };
 }
@@ -498,7 +498,7 @@ function insulationText(r: Random, band: Insulation): string {
   return band;
 }
 
-/** One decimal, without a trailing ".0" (so no outage is written "0"). */
+/** One decimal, without a trailing ".0": no outage is written "0", as exports usually do, not "0.0". */
 function oneDecimal(value: number): string {
   const tenths = Math.round(value * 10);
   return tenths % 10 === 0 ? String(tenths / 10) : (tenths / 10).toFixed(1);

@@ -54,7 +54,7 @@ export function createRandom(seed: number): Random {
   if (!Number.isSafeInteger(seed)) {
     throw new RangeError(`Random seed must be a whole number, got ${String(seed)}.`);
   }
-  const seedWord = ((seed % 2 ** 32) + 2 ** 32) % 2 ** 32; // exact for safe integers, negative ones included
+  const seedWord = ((seed % 4294967296) + 4294967296) % 4294967296; // seed mod 2^32, exact for safe integers
   const next = mulberry32(scrambleSeed(seedWord));
   // The polar method makes two independent values per round; keep the second for the next call.
   let spareNormal: number | undefined;
@@ -140,9 +140,12 @@ export function weightedPicker<T>(items: readonly T[], weights: readonly number[
   };
 }
 
-/** Zipf-like weights 1/rank^exponent for ranks 1..count: a few levels are common, most are rare. */
-export function zipfWeights(count: number, exponent: number): number[] {
-  return Array.from({ length: count }, (_, index) => 1 / (index + 1) ** exponent);
+/**
+ * Zipf weights 1/rank for ranks 1..count: a few levels are common, most are rare. The exponent is fixed at 1 on
+ * purpose: a fractional power would need Math.pow, which engines may round differently (see the file comment).
+ */
+export function zipfWeights(count: number): number[] {
+  return Array.from({ length: count }, (_, index) => 1 / (index + 1));
 }
 
 const LN2 = 0.6931471805599453;

@@ -1,0 +1,28 @@
+/** The names of the output columns a source column becomes, in order. */
+import type { ColumnRecipe } from '../../core/recipe.ts';
+import { countOf } from './labels.ts';
+import './OutputNames.css';
+
+export interface OutputNamesProps {
+  readonly column: ColumnRecipe;
+}
+
+export function OutputNames({ column }: OutputNamesProps) {
+  if (column.outputs.length === 0)
+    return <p className="lw-note">This column is left out, so it makes no output column.</p>;
+  return (
+    <div className="lw-outputs">
+      <p className="lw-note">
+        Becomes <strong>{countOf(column.outputs.length, 'output column', 'output columns')}</strong>
+        {column.level === 'identifier' ? ', copied as it is' : ''}:
+      </p>
+      <ol className="lw-outputs__list" aria-label={`Output columns of ${column.name}`}>
+        {column.outputs.map((name) => (
+          <li key={name}>
+            <code className="lw-outputs__name">{name}</code>
+          </li>
+        ))}
+      </ol>
+    </div>
+  );
+}

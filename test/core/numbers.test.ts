@@ -1,0 +1,211 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import {
+  CANDIDATE_NUMBER_FORMATS,
+  detectNumberFormat,
+  formatNumber,
+  hasLeadingZero,
+  parseNumber,
+  PLAIN_NUMBER_FORMAT,
+} from '../../src/core/numbers.ts';
+import type { NumberFormat } from '../../src/core/recipe.ts';
+
+const PLAIN: NumberFormat = { decimal: '.', group: '' };
+const COMMA_GROUPS: NumberFormat = { decimal: '.', group: ',' };
+const SPACE_GROUPS: NumberFormat = { decimal: '.', group: ' ' };
+const DECIMAL_COMMA: NumberFormat = { decimal: ',', group: '' };
+const DECIMAL_COMMA_DOT_GROUPS: NumberFormat = { decimal: ',', group: '.' };
+const DECIMAL_COMMA_SPACE_GROUPS: NumberFormat = { decimal: ',', group: ' ' };
+
+const once = (...values: string[]) => values.map((value) => ({ value, count: 1 }));
+
+describe('parseNumber, plain format', () => {
+  it.each([
+    ['12', 12],
+    [' 3.5 ', 3.5],
+    ['\t-0.25\n', -0.25],
+    ['+4', 4],
+    ['.5', 0.5],
+    ['-.5', -0.5],
+    ['1.50', 1.5],
+    ['007', 7],
+    ['1e3', 1000],
+    ['1.5E-3', 0.0015],
+    ['1.7976931348623157e308', Number.MAX_VALUE],
+  ])('reads %j as %d', (text, expected) => expect(parseNumber(text, PLAIN)).toBe(expected));
+
+  it('reads "-0" as negative zero, so nothing about the cell is lost', () => expect(Object.is(parseNumber('-0', PLAIN), -0)).toBe(true));
+
+  it.each([
+    '$12',
+    '45%',
+    '12 kg',
+    'n/a',
+    '',
+    '   ',
+    'Infinity',
+    '-Infinity',
+    'NaN',
+    '0x1F',
+    '0b101',
+    '1_000',
+    '1.2.3',
+    '5.',
+    '--1',
+    '1e',
+    '1,234',
+    '12,5',
+  ])('does not read %j', (text) => expect(parseNumber(text, PLAIN)).toBeNaN());
+
+  it('does not accept numbers that overflow to infinity: "1e309" and "-1e309"', () => {
+    expect(parseNumber('1e309', PLAIN)).toBeNaN();
+    expect(parseNumber('-1e309', PLAIN)).toBeNaN();
+  });
+});
+
+describe('parseNumber, grouped and decimal-comma formats', () => {
+  it('reads comma groups with a point decimal, and ungrouped numbers in the same format', () => {
+    expect(parseNumber('1,234.5', COMMA_GROUPS)).toBe(1234.5);
+    expect(parseNumber('1,234,567', COMMA_GROUPS)).toBe(1234567);
+    expect(parseNumber('-12,000', COMMA_GROUPS)).toBe(-12000);
+    expect(parseNumber('1234.5', COMMA_GROUPS)).toBe(1234.5);
+  });
+
+  it('rejects badly formed groups rather than guessing: "1,5", "12,34", "1,2345"', () => {
+    expect(parseNumber('1,5', COMMA_GROUPS)).toBeNaN();
+    expect(parseNumber('12,34', COMMA_GROUPS)).toBeNaN();
+    expect(parseNumber('1,2345', COMMA_GROUPS)).toBeNaN();
+    expect(parseNumber('1234,567', COMMA_GROUPS)).toBeNaN();
+  });
+
+  it('reads a decimal comma', () => {
+    expect(parseNumber('12,5', DECIMAL_COMMA)).toBe(12.5);
+    expect(parseNumber(' -0,75 ', DECIMAL_COMMA)).toBe(-0.75);
+    expect(parseNumber('3', DECIMAL_COMMA)).toBe(3);
+    expect(parseNumber('3.5', DECIMAL_COMMA)).toBeNaN();
+    expect(parseNumber('1.234,5', DECIMAL_COMMA)).toBeNaN();
+  });
+
+  it('reads point groups with a decimal comma ("1.234,5")', () => {
+    expect(parseNumber('1.234,5', DECIMAL_COMMA_DOT_GROUPS)).toBe(1234.5);
+    expect(parseNumber('1.234.567', DECIMAL_COMMA_DOT_GROUPS)).toBe(1234567);
+    expect(parseNumber('1.5', DECIMAL_COMMA_DOT_GROUPS)).toBeNaN();
+  });
+
+  it('reads space groups, including the no-break spaces some locales write', () => {
+    expect(parseNumber('1 234', SPACE_GROUPS)).toBe(1234);
+    expect(parseNumber('1 234 567.5', SPACE_GROUPS)).toBe(1234567.5);
+    expect(parseNumber('1\u00A0234,5', DECIMAL_COMMA_SPACE_GROUPS)).toBe(1234.5);
+    expect(parseNumber('1\u202F234', DECIMAL_COMMA_SPACE_GROUPS)).toBe(1234);
+    expect(parseNumber('1 23', SPACE_GROUPS)).toBeNaN();
+    expect(parseNumber('1  234', SPACE_GROUPS)).toBeNaN();
+  });
+
+  it('keeps rejecting currency, percent and words in every format', () => {
+    for (const format of CANDIDATE_NUMBER_FORMATS) {
+      for (const text of ['$12', '45%', 'n/a', '1e309', 'Infinity']) expect(parseNumber(text, format)).toBeNaN();
+    }
+  });
+});
+
+describe('detectNumberFormat', () => {
+  it('defaults to plain numbers', () => {
+    expect(detectNumberFormat(once('1.5', '2', '-3.25'))).toEqual(PLAIN);
+    expect(detectNumberFormat(once('red', 'green'))).toEqual(PLAIN_NUMBER_FORMAT);
+    expect(detectNumberFormat([])).toEqual(PLAIN);
+  });
+
+  it('chooses a decimal comma when the column is written that way', () =>
+    expect(detectNumberFormat(once('12,5', '3,75', '1,234', '7'))).toEqual(DECIMAL_COMMA));
+
+  it('reads "1,234" alone as a thousands group, not as a decimal comma (ties go to the point)', () =>
+    expect(detectNumberFormat(once('1,234', '5,678', '12'))).toEqual(COMMA_GROUPS));
+
+  it('chooses comma groups when some values carry them', () =>
+    expect(detectNumberFormat(once('1,234.5', '3.2', '18'))).toEqual(COMMA_GROUPS));
+
+  it('chooses point groups with a decimal comma for "1.234,5"', () =>
+    expect(detectNumberFormat(once('1.234,5', '12,5', '3'))).toEqual(DECIMAL_COMMA_DOT_GROUPS));
+
+  it('chooses space groups for "1 234", a point decimal when nothing says otherwise', () => {
+    expect(detectNumberFormat(once('1 234', '56'))).toEqual(SPACE_GROUPS);
+    expect(detectNumberFormat(once('1 234,5', '56'))).toEqual(DECIMAL_COMMA_SPACE_GROUPS);
+  });
+
+  it('weighs values by their counts', () => {
+    expect(detectNumberFormat([{ value: '1,5', count: 10 }, { value: '1,234.5', count: 3 }])).toEqual(DECIMAL_COMMA);
+    expect(detectNumberFormat([{ value: '1,5', count: 2 }, { value: '1,234.5', count: 3 }])).toEqual(COMMA_GROUPS);
+  });
+
+  it('ignores values with a zero count and empty texts', () =>
+    expect(detectNumberFormat([{ value: '12,5', count: 0 }, { value: '', count: 9 }, { value: '3.5', count: 1 }])).toEqual(PLAIN));
+});
+
+describe('formatNumber', () => {
+  it('writes groups and the decimal separator of the format', () => {
+    expect(formatNumber(1234567.891, COMMA_GROUPS)).toBe('1,234,567.891');
+    expect(formatNumber(-1234.5, DECIMAL_COMMA_DOT_GROUPS)).toBe('-1.234,5');
+    expect(formatNumber(1234.5, SPACE_GROUPS)).toBe('1 234.5');
+    expect(formatNumber(999, COMMA_GROUPS)).toBe('999');
+    expect(formatNumber(0.5, DECIMAL_COMMA)).toBe('0,5');
+  });
+
+  it('keeps the exponent form JavaScript uses for very large and very small numbers', () => {
+    expect(formatNumber(1e21, COMMA_GROUPS)).toBe('1e+21');
+    expect(formatNumber(1.5e-7, DECIMAL_COMMA)).toBe('1,5e-7');
+  });
+
+  it('refuses NaN and infinities', () => {
+    expect(() => formatNumber(NaN, PLAIN)).toThrow(RangeError);
+    expect(() => formatNumber(Infinity, PLAIN)).toThrow(RangeError);
+  });
+
+  it('property: for any finite number and any format, writing then reading gives the same number back', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ noNaN: true, noDefaultInfinity: true }),
+        fc.constantFrom(...CANDIDATE_NUMBER_FORMATS),
+        fc.constantFrom('', ' ', '  \t'),
+        (value, format, padding) => {
+          const text = padding + formatNumber(value, format) + padding;
+          expect(Object.is(parseNumber(text, format), value)).toBe(true);
+        },
+      ),
+      { numRuns: 2000 },
+    );
+  });
+
+  it('property: whole numbers written with groups are detected as that format when a group shows', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.integer({ min: 1000, max: 1e9 }), { minLength: 1, maxLength: 20 }),
+        fc.constantFrom(COMMA_GROUPS, SPACE_GROUPS, DECIMAL_COMMA_SPACE_GROUPS),
+        (values, format) => {
+          const texts = values.map((v) => formatNumber(v, format));
+          const detected = detectNumberFormat(once(...texts));
+          // Whole numbers never show their decimal separator, so either separator reads them alike.
+          expect(detected.group).toBe(format.group);
+          for (let i = 0; i < values.length; i++) expect(parseNumber(texts[i] ?? '', detected)).toBe(values[i]);
+        },
+      ),
+    );
+  });
+
+  it('property: in the plain format, the text JavaScript writes for a number reads back as it', () => {
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), (value) => {
+        expect(parseNumber(String(value), PLAIN)).toBe(Object.is(value, -0) ? 0 : value);
+      }),
+    );
+  });
+});
+
+describe('hasLeadingZero', () => {
+  it('spots codes written with leading zeros', () => {
+    expect(hasLeadingZero('007')).toBe(true);
+    expect(hasLeadingZero(' -01')).toBe(true);
+    expect(hasLeadingZero('0')).toBe(false);
+    expect(hasLeadingZero('0.5')).toBe(false);
+    expect(hasLeadingZero('10')).toBe(false);
+  });
+});

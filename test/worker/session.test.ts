@@ -1,0 +1,206 @@
+/**
+ * The worker's session, driven through the same client the page uses (over the in-page port, so it
+ * runs in Node). Expected numbers are computed by hand from the small table below.
+ */
+import { describe, expect, it } from 'vitest';
+import { decide, type Decision } from '../../src/core/decisions.ts';
+import { encodeToCsv } from '../../src/core/encode-csv.ts';
+import { readTable } from '../../src/core/read-table.ts';
+import type { Recipe } from '../../src/core/recipe.ts';
+import { WorkbenchClient } from '../../src/worker/client.ts';
+import { createInPagePort } from '../../src/worker/in-page-port.ts';
+import { Cancelled, WorkerProblem, type FromWorker, type OpenedTable } from '../../src/worker/protocol.ts';
+import { createSession } from '../../src/worker/session.ts';
+import { buildXlsx } from '../e2e/helpers/xlsx.ts';
+
+const SMALL_CSV = 'id,colour,size,score\na1,red,S,1\na2,blue,M,2\na3,red,L,\na4,green,M,4\n';
+
+function newClient(): WorkbenchClient {
+  return new WorkbenchClient(createInPagePort());
+}
+
+function openSmall(client: WorkbenchClient, text = SMALL_CSV, name = 'small.csv'): Promise<OpenedTable> {
+  return client.call('open', { slot: 'work', source: { kind: 'file', file: new File([text], name) }, draft: true });
+}
+
+/** The decisions a person would make on the small table. */
+const DECISIONS: Decision[] = [
+  { type: 'set-level', column: 'id', level: 'identifier' },
+  { type: 'set-nominal-coding', column: 'colour', coding: 'dummy' },
+  { type: 'set-reference', column: 'colour', reference: 'blue' },
+  { type: 'set-level', column: 'score', level: 'continuous' },
+];
+
+function decided(opened: OpenedTable): Recipe {
+  return DECISIONS.reduce((recipe, d) => decide(recipe, d, opened.profiles), opened.draft!);
+}
+
+describe('opening a file', () => {
+  it('reads the table, profiles it and drafts a recipe', async () => {
+    const client = newClient();
+    const progress: number[] = [];
+    const opened = await client.call(
+      'open',
+      { slot: 'work', source: { kind: 'file', file: new File([SMALL_CSV], 'small.csv') }, draft: true },
+      { onProgress: (p) => p.phase === 'reading' && progress.push(p.done) },
+    );
+    expect(opened.rowCount).toBe(4);
+    expect(opened.names).toEqual(['id', 'colour', 'size', 'score']);
+    expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8' });
+    expect(opened.byteSize).toBe(SMALL_CSV.length);
+    expect(progress.at(-1)).toBe(SMALL_CSV.length);
+    expect(opened.profiles.map((p) => p.missing)).toEqual([0, 0, 0, 1]);
+    expect(opened.draft?.columns.map((c) => c.name)).toEqual(opened.names);
+    expect(opened.fingerprint).toMatch(/^67-[0-9a-z]+-small\.csv$/);
+  });
+
+  it('reads semicolon- and pipe-separated text the same way', async () => {
+    const client = newClient();
+    const semicolon = await openSmall(client, SMALL_CSV.replaceAll(',', ';'), 'small.txt');
+    const pipe = await openSmall(client, SMALL_CSV.replaceAll(',', '|'), 'small.txt');
+    expect(semicolon.format).toMatchObject({ delimiter: ';' });
+    expect(pipe.format).toMatchObject({ delimiter: '|' });
+    expect(semicolon.names).toEqual(['id', 'colour', 'size', 'score']);
+    expect(pipe.rowCount).toBe(4);
+  });
+
+  it('reads the first sheet of a workbook, or the sheet asked for', async () => {
+    const client = newClient();
+    const bytes = buildXlsx([
+      { name: 'Survey', rows: [['site', 'depth'], ['north', 1.5], ['south', null], ['north', 3]] },
+      { name: 'Notes', rows: [['note'], ['invented']] },
+    ]);
+    const file = new File([bytes], 'sites.xlsx');
+    const first = await client.call('open', { slot: 'work', source: { kind: 'file', file }, draft: true });
+    expect(first.format).toEqual({ kind: 'sheet', sheet: 'Survey', sheets: ['Survey', 'Notes'] });
+    expect(first.names).toEqual(['site', 'depth']);
+    expect(first.rowCount).toBe(3);
+    expect(first.profiles[1]?.missing).toBe(1);
+    const second = await client.call('open', { slot: 'work', source: { kind: 'file', file, sheet: 'Notes' }, draft: true });
+    expect(second.names).toEqual(['note']);
+    await expect(client.call('open', { slot: 'work', source: { kind: 'file', file, sheet: 'Nope' }, draft: true })).rejects.toMatchObject({
+      problem: { code: 'no-sheet', hint: 'Choose one of: Survey, Notes.' },
+    });
+  });
+
+  it('turns an empty file into a problem with a hint, not a crash', async () => {
+    const client = newClient();
+    const error = await openSmall(client, '', 'empty.csv').catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(WorkerProblem);
+    expect((error as WorkerProblem).problem.code).toBe('empty-file');
+    expect((error as WorkerProblem).problem.hint).not.toBe('');
+  });
+
+  it('generates the invented demo survey inside the worker', async () => {
+    const client = newClient();
+    const demo = await client.call('open', { slot: 'work', source: { kind: 'demo', rows: 50 }, draft: true });
+    expect(demo.fileName).toContain('invented');
+    expect(demo.rowCount).toBe(50);
+    expect(demo.names[0]).toBe('household_id');
+  });
+});
+
+describe('the preview window', () => {
+  it('holds the encoded numbers of the rows asked for, computed by hand', async () => {
+    const client = newClient();
+    const opened = await openSmall(client);
+    const recipe = decided(opened);
+    const inUse = await client.call('use-recipe', { slot: 'work', version: opened.version, revision: 7, recipe });
+    // colour levels by count: red 2, blue 1, green 1; dummy coding without the reference "blue".
+    // score: continuous, the missing cell filled with the mean (1 + 2 + 4) / 3 and flagged.
+    expect(inUse.outputs).toEqual(['id', 'colour=red', 'colour=green', 'size', 'score', 'score (missing)']);
+    const window = await client.call('window', { slot: 'work', version: opened.version, revision: 7, start: 1, end: 10 });
+    expect(window.start).toBe(1);
+    expect(window.end).toBe(4);
+    expect(window.width).toBe(6);
+    expect(Array.from(window.lines)).toEqual([3, 4, 5]);
+    expect(Array.from(window.rejected)).toEqual([0, 0, 0]);
+    const rows = [0, 1, 2].map((r) => Array.from(window.values.subarray(r * 6, r * 6 + 6)));
+    // size: S < M < L, ranks from 1.
+    expect(rows[0]).toEqual([NaN, 0, 0, 2, 2, 0]);
+    expect(rows[1]?.slice(0, 4)).toEqual([NaN, 1, 0, 3]);
+    expect(rows[1]?.[4]).toBeCloseTo(7 / 3, 12);
+    expect(rows[1]?.[5]).toBe(1);
+    expect(rows[2]).toEqual([NaN, 0, 1, 2, 4, 0]);
+    expect(window.cells.slice(0, 4)).toEqual(['a2', 'blue', 'M', '2']);
+  });
+
+  it('refuses to answer for an older file or recipe', async () => {
+    const client = newClient();
+    const opened = await openSmall(client);
+    await client.call('use-recipe', { slot: 'work', version: opened.version, revision: 1, recipe: opened.draft! });
+    await expect(client.call('window', { slot: 'work', version: opened.version, revision: 0, start: 0, end: 4 })).rejects.toBeInstanceOf(Cancelled);
+    const newer = await openSmall(client);
+    expect(newer.version).toBeGreaterThan(opened.version);
+    await expect(client.call('window', { slot: 'work', version: opened.version, revision: 1, start: 0, end: 4 })).rejects.toBeInstanceOf(Cancelled);
+  });
+});
+
+describe('exporting', () => {
+  it('writes the same bytes as core encodeToCsv, in parts', async () => {
+    const client = newClient();
+    const opened = await openSmall(client);
+    const recipe = decided(opened);
+    const parts: Uint8Array[] = [];
+    const summary = await client.call('export', { slot: 'work', version: opened.version, recipe }, { onChunk: (b) => parts.push(b) });
+    const text = new TextDecoder().decode(Buffer.concat(parts));
+    const direct = encodeToCsv(recipe, readTable(new TextEncoder().encode(SMALL_CSV)).table);
+    expect(text).toBe(new TextDecoder().decode(direct.bytes));
+    // RFC 4180 §2: CRLF line ends; 7/3 in its shortest round-trip spelling (ECMA-262 Number::toString).
+    expect(text).toBe(
+      'id,colour=red,colour=green,size,score,score (missing)\r\n' +
+        'a1,1,0,1,1,0\r\n' +
+        'a2,0,0,2,2,0\r\n' +
+        'a3,1,0,3,2.3333333333333335,1\r\n' +
+        'a4,0,1,2,4,0\r\n',
+    );
+    expect(summary.bytes).toBe(text.length);
+    expect(summary.rowsWritten).toBe(4);
+    expect(summary.report.columns.find((c) => c.name === 'score')?.missing).toBe(1);
+  });
+
+  it('stops when cancelled and says so', async () => {
+    const messages: FromWorker[] = [];
+    const session = createSession((m) => messages.push(m));
+    session.receive({ type: 'open', id: 1, slot: 'work', source: { kind: 'demo', rows: 40_000 }, draft: true });
+    await until(() => messages.some((m) => m.id === 1 && m.type === 'done'));
+    const opened = messages.find((m) => m.type === 'done')!;
+    const { version, draft } = (opened as { result: OpenedTable }).result;
+    session.receive({ type: 'export', id: 2, slot: 'work', version, recipe: draft! });
+    session.receive({ type: 'cancel', id: 2 });
+    await until(() => messages.some((m) => m.id === 2 && (m.type === 'cancelled' || m.type === 'done')));
+    const ends = messages.filter((m) => m.id === 2 && ['done', 'cancelled', 'failed'].includes(m.type));
+    expect(ends.map((m) => m.type)).toEqual(['cancelled']);
+  });
+});
+
+describe('checking a recipe against a second file', () => {
+  it('reports unseen levels with counts and lines, and missing and extra columns', async () => {
+    const client = newClient();
+    const opened = await openSmall(client);
+    const recipe = decided(opened);
+    const second = 'id,colour,score,weight\nb1,red,5,1\nb2,purple,x,2\nb3,purple,6,3\nb4,teal,,4\n';
+    const reuse = await client.call('open', {
+      slot: 'reuse',
+      source: { kind: 'file', file: new File([second], 'second.csv') },
+      draft: false,
+      missingTokens: recipe.reading.missingTokens,
+    });
+    const report = await client.call('check', { slot: 'reuse', version: reuse.version, recipe });
+    expect(report.rows).toBe(4);
+    expect(report.missingColumns).toEqual(['size']);
+    expect(report.extraColumns).toEqual(['weight']);
+    const colour = report.columns.find((c) => c.name === 'colour')!;
+    expect(colour.unseen).toEqual([
+      { value: 'purple', count: 2, lines: [3, 4] },
+      { value: 'teal', count: 1, lines: [5] },
+    ]);
+    const score = report.columns.find((c) => c.name === 'score')!;
+    expect(score.invalid).toEqual([{ value: 'x', count: 1, lines: [3] }]);
+    expect(report.fits).toBe(false);
+  });
+});
+
+async function until(condition: () => boolean): Promise<void> {
+  while (!condition()) await new Promise((resolve) => setTimeout(resolve, 5));
+}
