@@ -73,7 +73,7 @@ export class ColumnBuilder {
 
   private switchToNumbers(): void {
     const valueOfCode = Float64Array.from(this.values, numberValue);
-    const keepText = this.values.map((text, code) => !printsAs(valueOfCode[code]!, text));
+    const keepText = this.values.map((text) => !printsBack(text));
     const numbers = new Float64Array(this.codes.length);
     const exceptions = new Map<number, string>();
     for (let row = 0; row < this.length; row++) {
@@ -92,40 +92,24 @@ export class ColumnBuilder {
   private pushNumber(text: string): void {
     let numbers = this.numbers!;
     if (this.length === numbers.length) numbers = this.numbers = grow(numbers);
-    const kind = scanNumberText(text);
-    const value = valueOf(kind, text);
-    numbers[this.length] = value;
-    if (!printsBack(kind, value, text)) this.exceptions!.set(this.length, detach(text));
+    scanner.read(text);
+    numbers[this.length] = scanner.value;
+    if (!scanner.printsBack) this.exceptions!.set(this.length, detach(text));
     this.length++;
   }
 }
 
-/** Number(text) when `text` is decimal number syntax (see scanNumberText), else NaN. */
+/** Number(text) when `text` is decimal number text (see NumberScanner), else NaN. */
 export function numberValue(text: string): number {
-  return valueOf(scanNumberText(text), text);
+  scanner.read(text);
+  return scanner.value;
 }
 
-/** Whether `value` (numberValue(text)) reads back as exactly `text` through cellText. */
-export function printsAs(value: number, text: string): boolean {
-  return printsBack(scanNumberText(text), value, text);
+/** Whether cellText gives back `text` from the number storage alone (no exception kept). */
+export function printsBack(text: string): boolean {
+  scanner.read(text);
+  return scanner.printsBack;
 }
-
-function valueOf(kind: number, text: string): number {
-  if (kind === NOT_A_NUMBER) return NaN;
-  const value = +text;
-  return Number.isFinite(value) ? value : NaN;
-}
-
-function printsBack(kind: number, value: number, text: string): boolean {
-  if (Number.isNaN(value)) return text === '';
-  if (kind !== SHORT_PLAIN) return String(value) === text;
-  // Short plain decimals print back unchanged except -0 and values String() writes with an exponent.
-  return value === 0 ? text === '0' : Math.abs(value) >= 1e-6;
-}
-
-const NOT_A_NUMBER = 0;
-const DECIMAL = 1;
-const SHORT_PLAIN = 2;
 
 const ZERO = 0x30;
 const NINE = 0x39;
@@ -133,50 +117,70 @@ const MINUS = 0x2d;
 const PLUS = 0x2b;
 const DOT = 0x2e;
 
+/** Powers of ten exactly representable as doubles. */
+const POWERS_OF_TEN = Array.from({ length: 16 }, (_, k) => 10 ** k);
+
 /**
- * NOT_A_NUMBER, or DECIMAL for `-?(digits[.digits]|.digits)([eE][+-]?digits)?` ('1.50', '007',
- * '1e3'), or SHORT_PLAIN for `-?(0|[1-9]digits)(.digits ending in 1-9)?` in at most 15
- * characters. A SHORT_PLAIN text has at most 15 significant digits, so it survives the trip to a
- * double and back (IEEE 754 guarantees 15) and String() prints it the same way, unless it is -0 or
- * below 1e-6: `printsAs` then needs no String() call, which would allocate for every cell.
+ * Reads decimal number text `-?(digits[.digits]|.digits)([eE][+-]?digits)?` ('12', '-0.5', '1.50',
+ * '007', '1e3'); anything else is not a number. The results sit in fields, so reading a cell
+ * allocates nothing, and `Number()`/`String()` are called only for rare long or exponent forms.
  */
-function scanNumberText(text: string): number {
-  const n = text.length;
-  let i = n > 0 && text.charCodeAt(0) === MINUS ? 1 : 0;
-  const intStart = i;
-  i = skipDigits(text, i);
-  const intDigits = i - intStart;
-  let fracDigits = 0;
-  const hasDot = i < n && text.charCodeAt(i) === DOT;
-  if (hasDot) {
-    const fracStart = i + 1;
-    i = skipDigits(text, fracStart);
-    fracDigits = i - fracStart;
+class NumberScanner {
+  /** The number, or NaN for text that is not decimal number text (and for ''). */
+  value = NaN;
+  /** Whether String(value) === text (or text is '' and value NaN): cellText needs no copy of the text. */
+  printsBack = false;
+
+  read(text: string): void {
+    const n = text.length;
+    const negative = n > 0 && text.charCodeAt(0) === MINUS;
+    let i = negative ? 1 : 0;
+    const intStart = i;
+    let mantissa = 0;
+    for (let c = text.charCodeAt(i); c >= ZERO && c <= NINE; c = text.charCodeAt(++i)) mantissa = mantissa * 10 + (c - ZERO);
+    const intDigits = i - intStart;
+    let fracDigits = 0;
+    const hasDot = text.charCodeAt(i) === DOT;
+    if (hasDot) {
+      for (let c = text.charCodeAt(++i); c >= ZERO && c <= NINE; c = text.charCodeAt(++i)) mantissa = mantissa * 10 + (c - ZERO);
+      fracDigits = i - intStart - intDigits - 1;
+    }
+    if (intDigits + fracDigits === 0) return this.notANumber(n === 0);
+    if (i < n) return this.readExponentForm(text, i);
+    // Up to 15 digits the mantissa is an exact integer and one division by an exact power of ten
+    // rounds correctly, so this equals Number(text) (the classic fast path, Clinger 1990).
+    if (intDigits + fracDigits > 15) this.value = +text;
+    else this.value = negative ? -mantissa / POWERS_OF_TEN[fracDigits]! : mantissa / POWERS_OF_TEN[fracDigits]!;
+    const plainInteger = intDigits === 1 || (intDigits > 1 && text.charCodeAt(intStart) !== ZERO);
+    const plainFraction = !hasDot || (fracDigits > 0 && text.charCodeAt(n - 1) !== ZERO);
+    // String() never writes leading zeros, trailing fraction zeros or a bare dot; within 15
+    // significant digits it writes the digits back unchanged, except for -0 and below 1e-6.
+    if (!plainInteger || !plainFraction) this.printsBack = false;
+    else if (n > 15) this.printsBack = String(this.value) === text;
+    else this.printsBack = this.value === 0 ? text === '0' : Math.abs(this.value) >= 1e-6;
   }
-  if (intDigits + fracDigits === 0) return NOT_A_NUMBER;
-  const hasExponent = i < n && (text.charCodeAt(i) | 0x20) === 0x65; // e or E
-  if (hasExponent) {
-    i++;
-    if (i < n && (text.charCodeAt(i) === MINUS || text.charCodeAt(i) === PLUS)) i++;
-    const expStart = i;
-    i = skipDigits(text, i);
-    if (i === expStart) return NOT_A_NUMBER;
+
+  private readExponentForm(text: string, at: number): void {
+    let i = at;
+    if ((text.charCodeAt(i) | 0x20) !== 0x65) return this.notANumber(false); // e or E
+    const sign = text.charCodeAt(++i);
+    if (sign === MINUS || sign === PLUS) i++;
+    const digitsStart = i;
+    for (let c = text.charCodeAt(i); c >= ZERO && c <= NINE; c = text.charCodeAt(++i));
+    if (i === digitsStart || i !== text.length) return this.notANumber(false);
+    const value = +text;
+    if (!Number.isFinite(value)) return this.notANumber(false);
+    this.value = value;
+    this.printsBack = String(value) === text;
   }
-  if (i !== n) return NOT_A_NUMBER;
-  const plainInteger = intDigits === 1 || (intDigits > 1 && text.charCodeAt(intStart) !== ZERO);
-  const plainFraction = !hasDot || (fracDigits > 0 && text.charCodeAt(n - 1) !== ZERO);
-  return !hasExponent && n <= 15 && plainInteger && plainFraction ? SHORT_PLAIN : DECIMAL;
+
+  private notANumber(empty: boolean): void {
+    this.value = NaN;
+    this.printsBack = empty;
+  }
 }
 
-function skipDigits(text: string, from: number): number {
-  let i = from;
-  while (i < text.length) {
-    const c = text.charCodeAt(i);
-    if (c < ZERO || c > NINE) break;
-    i++;
-  }
-  return i;
-}
+const scanner = new NumberScanner();
 
 /**
  * A string that does not hold on to the parsed chunk it was cut from. V8 keeps substrings of 13+

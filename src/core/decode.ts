@@ -42,23 +42,24 @@ export class ChunkDecoder {
     // Copied because callers may reuse their read buffer while we hold on to it.
     this.head.push(chunk.slice());
     this.headLength += chunk.length;
-    return this.headLength < SNIFF_BYTES ? '' : this.start();
+    return this.headLength < SNIFF_BYTES ? '' : this.start(false);
   }
 
   /** Decodes whatever is left; throws if the bytes end in the middle of a character. */
   finish(): string {
-    const text = this.decoder === null ? this.start() : '';
+    const text = this.decoder === null ? this.start(true) : '';
     return text + this.run(undefined);
   }
 
-  private start(): string {
+  /** `whole`: the collected bytes are the entire input, so they cannot end mid-character. */
+  private start(whole: boolean): string {
     const bytes = concatBytes(this.head, this.headLength);
     this.head = [];
     rejectBinary(bytes, this.forced);
     const declared = this.forced ?? encodingFromByteOrderMark(bytes);
     if (declared !== null) return this.open(declared, bytes);
     this.guessed = true;
-    return isValidUtf8Start(bytes) ? this.open('utf-8', bytes) : this.open('windows-1252', bytes);
+    return isValidUtf8(bytes, whole) ? this.open('utf-8', bytes) : this.open('windows-1252', bytes);
   }
 
   private open(encoding: EncodingName, bytes: Uint8Array): string {
@@ -128,10 +129,10 @@ function encodingFromByteOrderMark(bytes: Uint8Array): EncodingName | null {
   return null;
 }
 
-/** Valid UTF-8, allowing the bytes to stop in the middle of a character (more may follow). */
-function isValidUtf8Start(bytes: Uint8Array): boolean {
+/** Valid UTF-8; unless `whole`, the bytes may stop in the middle of a character (more follow). */
+function isValidUtf8(bytes: Uint8Array, whole: boolean): boolean {
   try {
-    new TextDecoder('utf-8', { fatal: true }).decode(bytes, { stream: true });
+    new TextDecoder('utf-8', { fatal: true }).decode(bytes, { stream: !whole });
     return true;
   } catch {
     return false;

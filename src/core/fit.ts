@@ -3,7 +3,7 @@
  * after cleaning and grouping with their counts, the reference level, fitted statistics.
  * Everything here is per level, computed from the profile alone: no pass over the rows.
  */
-import { cleaner } from './cleaning.ts';
+import { cleanLevels } from './cleaning.ts';
 import { inferLevel, type Inference } from './infer.ts';
 import { nameOutputs } from './names.ts';
 import type { ColumnProfile, LevelCount } from './profile.ts';
@@ -151,22 +151,9 @@ function refitContinuous(column: ContinuousColumn, profile: ColumnProfile): Cont
   return { ...column, format: n?.format ?? column.format, fitted };
 }
 
-/**
- * The distinct cleaned values of a column with their counts, most frequent first (ties keep the
- * order of first appearance). Raw levels are cleaned once each, never per cell.
- */
-export function cleanedLevels(profile: ColumnProfile, cleaning: Cleaning): LevelCount[] {
-  const clean = cleaner(cleaning);
-  const counts = new Map<string, number>();
-  for (const level of profile.levels ?? []) {
-    const value = clean(level.value);
-    counts.set(value, (counts.get(value) ?? 0) + level.count);
-  }
-  return [...counts].map(([value, count]) => ({ value, count })).sort((a, b) => b.count - a.count);
-}
 
 function refitNominal(column: NominalColumn, profile: ColumnProfile): NominalColumn {
-  const all = cleanedLevels(profile, column.cleaning).filter((l) => l.value !== column.otherLabel);
+  const all = cleanLevels(profile.levels ?? [], column.cleaning).filter((l) => l.value !== column.otherLabel);
   const { kept, grouped } = splitRare(all, column.rare, profile.count);
   const otherCount = grouped.reduce((sum, l) => sum + l.count, 0);
   const levels: FittedLevel[] = [...kept];
@@ -199,7 +186,7 @@ function addMissingLevel(levels: FittedLevel[], column: CategoricalColumn, profi
 
 /** Ordinal columns keep the person's order; levels that appeared since are appended, vanished ones dropped. */
 function refitOrdinal(column: OrdinalColumn, profile: ColumnProfile): OrdinalColumn {
-  const counted = new Map(cleanedLevels(profile, column.cleaning).map((l) => [l.value, l.count]));
+  const counted = new Map(cleanLevels(profile.levels ?? [], column.cleaning).map((l) => [l.value, l.count]));
   if (column.missing.policy === 'level') counted.set(MISSING_LEVEL, (counted.get(MISSING_LEVEL) ?? 0) + profile.missing);
   if (column.unseen === 'other' && !counted.has(column.otherLabel)) counted.set(column.otherLabel, 0);
   const previousOrder = column.levels.map((l) => l.value).filter((v) => counted.has(v));
@@ -217,7 +204,7 @@ function refitOrdinal(column: OrdinalColumn, profile: ColumnProfile): OrdinalCol
 }
 
 function refitBinary(column: BinaryColumn, profile: ColumnProfile): BinaryColumn {
-  const levels: FittedLevel[] = cleanedLevels(profile, column.cleaning);
+  const levels: FittedLevel[] = cleanLevels(profile.levels ?? [], column.cleaning);
   addMissingLevel(levels, column, profile);
   const values = levels.map((l) => l.value);
   // Without a stated positive class, the less frequent of the first two levels is the event coded 1.

@@ -6,8 +6,11 @@
  * yes/no spelling merges) and the levels it leaves. Every reason is one sentence carrying the
  * numbers it rests on, so a person can check it against the profile.
  */
-import { NO_CLEANING, cleaner } from './cleaning.ts';
-import { matchOrdinalScale } from './ordinal-scales.ts';
+import { NO_CLEANING, cleanLevels, cleaner } from './cleaning.ts';
+
+export { cleanLevels } from './cleaning.ts';
+import { looksLikeDate } from './dates.ts';
+import { matchOrdinalScale, MAX_SCALE_LEVELS } from './ordinal-scales.ts';
 import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
 import { numberReader } from './numbers.ts';
 import type { Cleaning, Merge, MeasurementLevel } from './recipe.ts';
@@ -91,7 +94,7 @@ const date: InferenceRule = {
   name: 'date',
   test: (p, ctx) => {
     if (!p.flags.date || !p.text) return null;
-    const example = p.levels?.[0]?.value.trim() ?? '';
+    const example = p.levels?.find((l) => looksLikeDate(l.value))?.value.trim() ?? '';
     return excluded(
       `${p.text.dates} of ${ctx.nonMissing} values look like dates (e.g. ${quote(example)}): dates are left out for now`,
     );
@@ -121,7 +124,7 @@ const ordinalScale: InferenceRule = {
   name: 'ordinal scale',
   test: (_p, ctx) => {
     const levels = ctx.cleanedLevels;
-    if (levels === null) return null;
+    if (levels === null || levels.length > MAX_SCALE_LEVELS) return null;
     const match = matchOrdinalScale(levels.map((l) => l.value));
     if (match === null) return null;
     return {
@@ -202,7 +205,7 @@ const nominal: InferenceRule = {
     const after = levels.length < p.distinct ? ` after cleaning (${p.distinct} spellings)` : '';
     return {
       level: 'nominal',
-      reason: `${levels.length} distinct values${after} with no order recognised`,
+      reason: `${levels.length} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
       cleaning: ctx.cleaning,
     };
   },
@@ -233,11 +236,23 @@ export function inferLevel(profile: ColumnProfile, rules: readonly InferenceRule
   return { level: 'excluded', reason: 'no rule matched this column', cleaning: NO_CLEANING };
 }
 
+/**
+ * Above this many levels no cleaning is proposed: such a column is an identifier or free text,
+ * whose inference carries no cleaning, and checking a million levels for case twins costs seconds.
+ */
+export const CLEANING_PROPOSAL_MAX_LEVELS = 100_000;
+
 export function inferenceContext(profile: ColumnProfile): InferContext {
   const nonMissing = profile.count - profile.missing;
   if (profile.levels === null) return { cleaning: NO_CLEANING, cleanedLevels: null, nonMissing };
+  if (profile.levels.length > CLEANING_PROPOSAL_MAX_LEVELS) {
+    return { cleaning: NO_CLEANING, cleanedLevels: profile.levels, nonMissing };
+  }
   const cleaning = proposeCleaning(profile.levels);
-  return { cleaning, cleanedLevels: cleanLevels(profile.levels, cleaning), nonMissing };
+  // Without cleaning the levels are already what cleanLevels would give: skip the copy (identifier
+  // columns can hold a million levels).
+  const cleanedLevels = isNoCleaning(cleaning) ? profile.levels : cleanLevels(profile.levels, cleaning);
+  return { cleaning, cleanedLevels, nonMissing };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -250,27 +265,23 @@ export function inferenceContext(profile: ColumnProfile): InferContext {
  */
 export function proposeCleaning(levels: readonly LevelCount[]): Cleaning {
   const trim = levels.some((l) => l.value !== l.value.trim());
-  const trimmed = levels.map((l) => (trim ? l.value.trim() : l.value));
-  const caseFold = differOnlyByCase(trimmed);
+  const caseFold = differOnlyByCase(trim ? levels.map((l) => l.value.trim()) : levels.map((l) => l.value));
   const partial: Cleaning = { trim, caseFold, merges: [] };
-  return { ...partial, merges: yesNoMerges(cleanLevels(levels, partial)) };
+  return { ...partial, merges: yesNoMerges(levels, partial) };
 }
 
 /** Levels after `cleaning`, counts added up, most frequent first (ties: first in `levels` first). */
-export function cleanLevels(levels: readonly LevelCount[], cleaning: Cleaning): LevelCount[] {
-  const clean = cleaner(cleaning);
-  const counts = new Map<string, number>();
-  for (const { value, count } of levels) {
-    const c = clean(value);
-    counts.set(c, (counts.get(c) ?? 0) + count);
-  }
-  return [...counts].map(([value, count]) => ({ value, count })).sort((a, b) => b.count - a.count);
+
+function isNoCleaning(cleaning: Cleaning): boolean {
+  return !cleaning.trim && !cleaning.caseFold && cleaning.merges.length === 0;
 }
 
 function differOnlyByCase(values: readonly string[]): boolean {
   const seen = new Map<string, string>();
   for (const v of values) {
     const lower = v.toLowerCase();
+    // A text without cased letters (a number, "18-24") has no case twin: skip it.
+    if (lower === v && v.toUpperCase() === v) continue;
     const other = seen.get(lower);
     if (other !== undefined && other !== v) return true;
     seen.set(lower, v);
@@ -278,17 +289,20 @@ function differOnlyByCase(values: readonly string[]): boolean {
   return false;
 }
 
-function yesNoMerges(levels: readonly LevelCount[]): Merge[] {
+/** Gives up at the first level that is no yes/no spelling, so long columns cost little. */
+function yesNoMerges(levels: readonly LevelCount[], partial: Cleaning): Merge[] {
+  const clean = cleaner(partial);
+  for (const { value } of levels) if (sideOf(clean(value)) === null) return [];
   const yes: string[] = [];
   const no: string[] = [];
-  for (const { value } of levels) {
-    const lower = value.toLowerCase();
-    if (YES_SPELLINGS.includes(lower)) yes.push(value);
-    else if (NO_SPELLINGS.includes(lower)) no.push(value);
-    else return [];
-  }
-  // `levels` is most frequent first, so each side's first spelling is the one the others join.
+  // cleanLevels is most frequent first, so each side's first spelling is the one the others join.
+  for (const { value } of cleanLevels(levels, partial)) (sideOf(value) === 'yes' ? yes : no).push(value);
   return [yes, no].flatMap(([into, ...from]) => (into !== undefined && from.length > 0 ? [{ into, from }] : []));
+}
+
+function sideOf(value: string): 'yes' | 'no' | null {
+  const lower = value.toLowerCase();
+  return YES_SPELLINGS.includes(lower) ? 'yes' : NO_SPELLINGS.includes(lower) ? 'no' : null;
 }
 
 function choosePositive(first: LevelCount, second: LevelCount): { positive: string; why: string } {
@@ -338,6 +352,14 @@ function identifierReason(p: ColumnProfile, nonMissing: number): string {
 /** Distinct numbers; hand-written summaries without the count fall back to the distinct raw values. */
 function distinctNumbers(p: ColumnProfile, n: NumericSummary): number {
   return n.distinct ?? p.distinct;
+}
+
+/** For a few numbers with a stray word ("1"…"5" and "n/a"): say what would make them a scale. */
+function almostNumbersHint(p: ColumnProfile): string {
+  const n = p.numeric;
+  if (!isMostlyNumeric(n) || n.invalidCount === 0 || distinctNumbers(p, n) > INFERENCE_THRESHOLDS.maxScaleNumbers) return '';
+  const stray = [...new Set(n.invalidExamples.map((e) => e.text))].slice(0, 3).map(quote).join(', ');
+  return `; all but ${n.invalidCount} are numbers: marking ${stray} as missing would read them as an ordered scale`;
 }
 
 function excluded(reason: string): Inference {

@@ -128,6 +128,12 @@ export const ORDINAL_SCALES: readonly OrdinalScale[] = [
   },
 ];
 
+/**
+ * More levels than this are no scale a person reads as ordered (the longest scale above has 20
+ * steps); the limit also keeps identifier columns with a million levels cheap.
+ */
+export const MAX_SCALE_LEVELS = 50;
+
 /** Lower case, trimmed, with spaces, "_" and "-" between words made one space. */
 export function scaleKey(level: string): string {
   return level.trim().toLowerCase().replace(/[\s_-]+/g, ' ');
@@ -139,7 +145,7 @@ export function scaleKey(level: string): string {
  * numbered bands ("18-24", "65+", "under 18", "$10k-$20k") sorted by their lower bound.
  */
 export function matchOrdinalScale(levels: readonly string[]): ScaleMatch | null {
-  if (levels.length < 2) return null;
+  if (levels.length < 2 || levels.length > MAX_SCALE_LEVELS) return null;
   for (const scale of ORDINAL_SCALES) {
     const order = orderBySteps(levels, scale);
     if (order !== null) return { scale: scale.name, order };

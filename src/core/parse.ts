@@ -126,8 +126,7 @@ export class RecordParser {
       this.emptyLines++;
       return;
     }
-    const unclosedQuote = result.errors.some((e) => e.code === 'MissingQuotes');
-    this.onRecord(fields, line, unclosedQuote);
+    this.onRecord(fields, line, result.errors.length > 0 && hasUnclosedQuote(result.errors));
   };
 
   /** Whether input[start, end) holds a quote; one forward-moving search over the whole input. */
@@ -216,6 +215,10 @@ function dropCarriageReturn(fields: string[], input: string, end: number, quoted
   if (field === undefined || field.charCodeAt(field.length - 1) !== CR) return;
   if (quoted && input.slice(end - 1 - field.length, end - 1) !== field) return;
   fields[last] = field.slice(0, -1);
+}
+
+function hasUnclosedQuote(errors: StepResult['errors']): boolean {
+  return errors.some((e) => e.code === 'MissingQuotes');
 }
 
 function countOccurrences(text: string, needle: string, start: number, end: number): number {

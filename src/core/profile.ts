@@ -159,8 +159,8 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     if (count > 0) (isMissing(value) ? missingSpellings : levels).push({ value, count, code });
   });
   // Dictionary order is first-appearance order and sort is stable: ties stay first seen first.
-  levels.sort((a, b) => b.count - a.count);
-  missingSpellings.sort((a, b) => b.count - a.count);
+  sortByCountDescending(levels);
+  sortByCountDescending(missingSpellings);
   const nonMissing = sumCounts(levels);
   const numeric = summarizeTextNumbers(column, levels, nonMissing, options.format);
   const text = textShape(levels, nonMissing);
@@ -183,6 +183,16 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     },
     text,
   };
+}
+
+/** Stable sort, most frequent first; skipped when already in order (identifier columns: all 1). */
+function sortByCountDescending<T extends LevelCount>(entries: T[]): void {
+  for (let i = 1; i < entries.length; i++) {
+    if ((entries[i]?.count ?? 0) > (entries[i - 1]?.count ?? 0)) {
+      entries.sort((a, b) => b.count - a.count);
+      return;
+    }
+  }
 }
 
 function plainLevel(entry: LevelCount): LevelCount {
@@ -218,8 +228,7 @@ function summarizeTextNumbers(
     }
   }
   if (numbers.length === 0) return null;
-  numbers.sort((a, b) => a.value - b.value);
-  const runs = runsFromSortedPairs(numbers);
+  const runs = runsFromPairs(numbers);
   return summarize(runs, {
     format,
     nonMissing,
@@ -299,7 +308,7 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   const invalidCount = plainInvalid + fromExceptions.invalidCount;
   const missingSpellings = exceptionTexts.missing;
   if (emptyCells > 0) missingSpellings.push({ value: '', count: emptyCells });
-  missingSpellings.sort((a, b) => b.count - a.count);
+  sortByCountDescending(missingSpellings);
 
   const numeric =
     all.length === 0
@@ -421,6 +430,29 @@ interface Runs {
   readonly length: number;
 }
 
+/**
+ * Runs from unsorted (number, count) pairs. Few pairs: sort the pairs. Many (a column of mostly
+ * distinct numbers): lay the cells out in a Float64Array and use its native numeric sort, which
+ * is far faster than sorting objects with a comparator.
+ */
+function runsFromPairs(pairs: { value: number; count: number }[]): Runs {
+  if (pairs.length <= PAIR_SORT_LIMIT) {
+    pairs.sort((a, b) => a.value - b.value);
+    return runsFromSortedPairs(pairs);
+  }
+  let cells = 0;
+  for (const p of pairs) cells += p.count;
+  const all = new Float64Array(cells);
+  let at = 0;
+  for (const { value, count } of pairs) {
+    all.fill(value, at, at + count);
+    at += count;
+  }
+  return runsFromSorted(all.sort());
+}
+
+const PAIR_SORT_LIMIT = 1000;
+
 function runsFromSortedPairs(pairs: readonly { value: number; count: number }[]): Runs {
   const values = new Float64Array(pairs.length);
   const counts = new Float64Array(pairs.length);
@@ -456,21 +488,36 @@ interface SummaryContext {
   readonly leadingZeros: number;
 }
 
-/** Statistics of non-empty runs. Mean and variance by West's weighted form of Welford's method. */
+/**
+ * Statistics of non-empty runs. Mean from a compensated sum, variance by the corrected two-pass
+ * formula (Chan, Golub & LeVeque 1983): Σw·d² − (Σw·d)²/n, which cancels the mean's rounding error.
+ */
 function summarize(runs: Runs, context: SummaryContext): NumericSummary {
   let count = 0;
-  let mean = 0;
-  let m2 = 0;
+  let sum = 0;
+  let compensation = 0;
   let integer = true;
   for (let i = 0; i < runs.length; i++) {
     const x = runs.values[i] ?? 0;
     const w = runs.counts[i] ?? 0;
     count += w;
-    const delta = x - mean;
-    mean += (delta * w) / count;
-    m2 += w * delta * (x - mean);
+    // Neumaier's variant of Kahan summation.
+    const term = x * w;
+    const next = sum + term;
+    compensation += Math.abs(sum) >= Math.abs(term) ? sum - next + term : term - next + sum;
+    sum = next;
     if (!Number.isInteger(x)) integer = false;
   }
+  const mean = (sum + compensation) / count;
+  let squares = 0;
+  let deviations = 0;
+  for (let i = 0; i < runs.length; i++) {
+    const d = (runs.values[i] ?? 0) - mean;
+    const w = runs.counts[i] ?? 0;
+    squares += w * d * d;
+    deviations += w * d;
+  }
+  const m2 = squares - (deviations * deviations) / count;
   const min = runs.values[0] ?? NaN;
   const max = runs.values[runs.length - 1] ?? NaN;
   return {

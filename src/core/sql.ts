@@ -20,9 +20,8 @@
  * column exists only when the recipe has an error policy. With `rejected: 'drop'` they are left out,
  * as the command line leaves them out of its output.
  */
-import { codesForColumn, transformForColumn, type LevelCodes } from './encoders/index.ts';
-import { MISSING_LEVEL } from './fit.ts';
-import { ALL_ZEROS, compilePlan, type CategoricalPlan } from './plan.ts';
+import { transformForColumn, type LevelCodes } from './encoders/index.ts';
+import { ALL_ZEROS, compilePlan, type CategoricalPlan, type ColumnPlan } from './plan.ts';
 import type { CategoricalColumn, ColumnRecipe, ContinuousColumn, NumberFormat, Recipe } from './recipe.ts';
 import {
   dialect as dialectNamed,
@@ -69,10 +68,11 @@ export function compileSql(recipe: Recipe, options: SqlOptions): string {
   checkTableName(tableParts);
   const plan = compilePlan(recipe, recipe.columns.map((c) => c.name));
   const steps = new Steps();
+  const context: Context = { sql, steps, tokens: recipe.reading.missingTokens };
   const outputs: OutputLine[] = [];
   const rejections: Rejection[] = [];
   recipe.columns.forEach((column, i) => {
-    const compiled = compileColumn(column, i, sql, steps, plan.columns[i]);
+    const compiled = compileColumn(column, i, context, plan.columns[i]);
     if (compiled === null) return;
     if (compiled.outputs.length !== column.outputs.length) {
       throw new Error(
@@ -202,59 +202,58 @@ function commentText(text: string): string {
 // ---------------------------------------------------------------------------------------------------
 // Columns
 
+interface Context {
+  readonly sql: SqlDialect;
+  readonly steps: Steps;
+  /** The recipe's missing tokens, compared after trimming, case-sensitive (missing.ts). */
+  readonly tokens: readonly string[];
+}
+
+/** Names the steps of column i: "c3_trimmed", "c3_level", … (source names never reach the steps). */
+type Alias = (part: string) => string;
+
 interface CompiledColumn {
   readonly comment: string;
   readonly outputs: readonly string[];
   readonly rejections: readonly Rejection[];
 }
 
-function compileColumn(
-  column: ColumnRecipe,
-  i: number,
-  sql: SqlDialect,
-  steps: Steps,
-  columnPlan: ReturnType<typeof compilePlan>['columns'][number] | undefined,
-): CompiledColumn | null {
+function compileColumn(column: ColumnRecipe, i: number, context: Context, columnPlan: ColumnPlan | undefined): CompiledColumn | null {
   const source = `${quoteIdentifier(SOURCE_ALIAS)}.${quoteIdentifier(column.name)}`;
-  const alias = (part: string) => `c${i}_${part}`;
+  const alias: Alias = (part) => `c${i}_${part}`;
   switch (column.level) {
     case 'excluded':
       return null;
     case 'identifier':
-      return { comment: `${commentText(column.name)}: identifier, passed through`, outputs: [steps.add(0, alias('raw'), source)], rejections: [] };
+      return {
+        comment: commentText(`${column.name}: identifier, passed through`),
+        outputs: [context.steps.add(0, alias('raw'), source)],
+        rejections: [],
+      };
     case 'continuous':
-      return continuousColumn(column, source, alias, sql, steps);
+      return continuousColumn(column, source, alias, context);
     default:
       if (columnPlan?.kind !== 'categorical') throw new Error(`Column "${column.name}" has no categorical plan.`);
-      return categoricalColumn(column, columnPlan, source, alias, sql, steps);
+      return categoricalColumn(column, columnPlan, source, alias, context);
   }
 }
 
-/** 1 when the trimmed cell is missing: empty, NULL, or one of the recipe's missing tokens (case-sensitive). */
-function missingFlag(trimmed: string, tokens: readonly string[], sql: SqlDialect): string {
-  const listed = tokens.length > 0 ? ` OR ${trimmed} IN (${tokens.map((t) => sql.text(t)).join(', ')})` : '';
-  return `CASE WHEN ${trimmed} IS NULL OR ${trimmed} = ''${listed} THEN 1 ELSE 0 END`;
-}
-
-function trimmedSource(source: string, alias: (part: string) => string, sql: SqlDialect, steps: Steps): string {
+/** Step 0 and 1 of every encoded column: the trimmed text, and whether the cell is missing. */
+function trimmedAndMissing(source: string, alias: Alias, { sql, steps, tokens }: Context): { trimmed: string; missing: string } {
   steps.usesSetup = true;
-  return steps.add(0, alias('trimmed'), sql.trim(source));
+  const trimmed = steps.add(0, alias('trimmed'), sql.trim(source));
+  // Missing: empty or NULL after trimming, or one of the recipe's tokens (case-sensitive).
+  const listed = tokens.length > 0 ? ` OR ${trimmed} IN (${tokens.map((t) => sql.text(t)).join(', ')})` : '';
+  const missing = steps.add(1, alias('missing'), `CASE WHEN ${trimmed} IS NULL OR ${trimmed} = ''${listed} THEN 1 ELSE 0 END`);
+  return { trimmed, missing };
 }
 
 // --- categorical -------------------------------------------------------------------------------------
 
-function categoricalColumn(
-  column: CategoricalColumn,
-  plan: CategoricalPlan,
-  source: string,
-  alias: (part: string) => string,
-  sql: SqlDialect,
-  steps: Steps,
-): CompiledColumn {
-  const tokens = missingTokensOf(plan);
-  const trimmed = trimmedSource(source, alias, sql, steps);
+function categoricalColumn(column: CategoricalColumn, plan: CategoricalPlan, source: string, alias: Alias, context: Context): CompiledColumn {
+  const { sql, steps } = context;
+  const { trimmed, missing } = trimmedAndMissing(source, alias, context);
   const raw = column.cleaning.trim ? trimmed : steps.add(0, alias('raw'), source);
-  const missing = steps.add(1, alias('missing'), missingFlag(trimmed, tokens, sql));
   const cleaned = steps.add(1, alias('cleaned'), cleanedExpr(raw, column, sql));
   const level = steps.add(2, alias('level'), levelIndexExpr(cleaned, missing, column, plan, sql));
   const codes = plan.codes;
@@ -276,13 +275,6 @@ function categoricalColumn(
   const coding = column.level === 'binary' ? `positive "${column.positive}"` : column.coding;
   return { comment: commentText(`${column.name}: ${column.level}, ${coding}, ${codes.levels.length} levels`), outputs, rejections };
 }
-
-/** The tokens the plan's missing test uses (plan.ts reads them from the recipe). */
-function missingTokensOf(plan: CategoricalPlan | null): readonly string[] {
-  void plan;
-  return currentTokens;
-}
-let currentTokens: readonly string[] = [];
 
 /** raw → (lower case) → explicit merges, as cleaning.ts does (trimming happened in step 0). */
 function cleanedExpr(text: string, column: CategoricalColumn, sql: SqlDialect): string {
@@ -355,24 +347,17 @@ const NUMBER = 0;
 const MISSING = 1;
 const INVALID = 2;
 
-function continuousColumn(
-  column: ContinuousColumn,
-  source: string,
-  alias: (part: string) => string,
-  sql: SqlDialect,
-  steps: Steps,
-): CompiledColumn {
+function continuousColumn(column: ContinuousColumn, source: string, alias: Alias, context: Context): CompiledColumn {
+  const { sql, steps } = context;
   const raw = steps.add(0, alias('raw'), source);
-  const trimmed = trimmedSource(source, alias, sql, steps);
-  const missing = steps.add(1, alias('missing'), missingFlag(trimmed, currentTokens, sql));
-  const read = readNumber(trimmed, missing, column.format, alias, sql, steps);
+  const { trimmed, missing } = trimmedAndMissing(source, alias, context);
+  const read = readNumber(trimmed, column.format, alias, context);
   const value = steps.add(read.stage, alias('value'), `CASE WHEN ${missing} = 0 AND ${read.ok} = 1 THEN ${sql.toDouble(read.text)} END`);
   const status = steps.add(
     read.stage + 1,
     alias('status'),
     `CASE WHEN ${missing} = 1 THEN ${MISSING} WHEN ${value} IS NOT NULL AND ${sql.isFinite(value)} = 1 THEN ${NUMBER} ELSE ${INVALID} END`,
   );
-  if (read.stage + 1 > 0) steps.usesSetup = true;
 
   const { center, scale, fill } = transformForColumn(column);
   // The filled value is scaled here exactly as apply.ts scales it: (fill − center) / scale in doubles.
@@ -406,20 +391,12 @@ interface ReadNumber {
 }
 
 /** Recognises and normalises a number as numbers.ts does: regular expressions where the engine has them. */
-function readNumber(
-  trimmed: string,
-  missing: string,
-  format: NumberFormat,
-  alias: (part: string) => string,
-  sql: SqlDialect,
-  steps: Steps,
-): ReadNumber {
+function readNumber(trimmed: string, format: NumberFormat, alias: Alias, { sql, steps }: Context): ReadNumber {
   const text = steps.add(1, alias('number_text'), normalisedNumber(trimmed, format, sql));
   if (sql.regex !== null) {
     const ok = steps.add(1, alias('number_shape'), sql.regex(trimmed, numberPattern(format)));
     return { ok, text, stage: 2 };
   }
-  void missing;
   return { ok: shapeByParts(trimmed, format, alias, sql, steps), text, stage: 5 };
 }
 
@@ -462,7 +439,7 @@ export function numberPattern(format: NumberFormat): RegexPattern {
  * The same shape without regular expressions (SQLite has none built in), from string functions
  * and GLOB: split off the sign, the exponent and the decimal part, and check each part's characters.
  */
-function shapeByParts(trimmed: string, format: NumberFormat, alias: (part: string) => string, sql: SqlDialect, steps: Steps): string {
+function shapeByParts(trimmed: string, format: NumberFormat, alias: Alias, sql: SqlDialect, steps: Steps): string {
   const grouped = isGrouped(format);
   // Space-like groups become plain spaces first, so one GLOB class covers them.
   let spaced = trimmed;
@@ -508,5 +485,3 @@ function groupedDigits(x: string, group: string): string {
   ];
   return `(${conditions.join(' AND ')})`;
 }
-
-void MISSING_LEVEL;

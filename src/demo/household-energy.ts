@@ -77,7 +77,8 @@ export interface HouseholdEnergyOptions {
 }
 
 /**
- * The whole invented survey as one CSV string: header, then `rows` records, each ending in LF.
+ * The whole invented survey as one CSV string: header, then `rows` records, each ending in LF (so the text ends
+ * with a line break, as most exports do).
  * For files above a few hundred MB use householdEnergyCsvChunks: one JavaScript string cannot exceed ~512 MiB.
  */
 export function generateHouseholdEnergyCsv(options: HouseholdEnergyOptions): string {
@@ -293,6 +294,7 @@ interface Tables {
 function buildTables(settings: Settings): Tables {
   return {
     random: createRandom(settings.seed),
+    // HH-000123 up to 999,999 rows; bigger files get wider ids, so every id in one file has the same length.
     idWidth: Math.max(6, String(settings.rows).length),
     surveyDays: isoDaysBetween(FIRST_SURVEY_DAY, LAST_SURVEY_DAY),
     region: weightedPicker(REGIONS, REGION_WEIGHTS),

@@ -1,4 +1,13 @@
+import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
+import { App } from './App.tsx';
+import './app.css';
 
 const root = document.getElementById('root');
-if (root) createRoot(root).render(<p>Levelwise workbench</p>);
+if (root) {
+  createRoot(root).render(
+    <StrictMode>
+      <App />
+    </StrictMode>,
+  );
+}

@@ -26,31 +26,33 @@ export function CodeTable({ column }: CodeTableProps) {
   // Output names come first in `outputs`, in code order; a missing indicator, if any, follows them.
   const heading = (label: string, j: number) => column.outputs[j] ?? label;
   return (
-    <table className="lw-codes">
-      <caption className="lw-codes__caption">What each level becomes</caption>
-      <thead>
-        <tr>
-          <th scope="col">Level</th>
-          {codes.columnLabels.map((label, j) => (
-            <th scope="col" key={j} className="lw-codes__num">
-              {heading(label, j)}
-            </th>
-          ))}
-        </tr>
-      </thead>
-      <tbody>
-        {codes.levels.map((level, i) => (
-          <tr key={level}>
-            <th scope="row">{level}</th>
-            {codesOf(codes, i).map((code, j) => (
-              <td key={j} className="lw-codes__num" data-code={code}>
-                {formatCode(code)}
-              </td>
+    <div className="lw-codes__scroll">
+      <table className="lw-codes">
+        <caption className="lw-codes__caption">What each level becomes</caption>
+        <thead>
+          <tr>
+            <th scope="col">Level</th>
+            {codes.columnLabels.map((label, j) => (
+              <th scope="col" key={j} className="lw-codes__num">
+                {heading(label, j)}
+              </th>
             ))}
           </tr>
-        ))}
-      </tbody>
-    </table>
+        </thead>
+        <tbody>
+          {codes.levels.map((level, i) => (
+            <tr key={level}>
+              <th scope="row">{level}</th>
+              {codesOf(codes, i).map((code, j) => (
+                <td key={j} className="lw-codes__num" data-code={code}>
+                  {formatCode(code)}
+                </td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
   );
 }
 

@@ -47,7 +47,8 @@ export function ColumnEditor({ profile, column, onDecide }: ColumnEditorProps) {
 
       <LevelPicker profile={profile} column={column} onDecide={onDecide} />
 
-      <div className="lw-editor__body">
+      {/* Keyed by column, so half-typed drafts (scores, rules, merge picks) never carry over to another column. */}
+      <div className="lw-editor__body" key={column.name}>
         <div className="lw-editor__options">
           <LevelOptions profile={profile} column={column} onDecide={onDecide} />
         </div>

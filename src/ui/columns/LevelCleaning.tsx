@@ -91,56 +91,56 @@ function MergeForm({ column, onDecide }: LevelCleaningProps) {
   return (
     <div className="lw-cleaning__levels">
       <div className="lw-cleaning__scroll">
-      <table className="lw-cleaning__table">
-        <caption className="lw-cleaning__caption">{countOf(column.levels.length, 'level', 'levels')} after cleaning</caption>
-        <thead>
-          <tr>
-            <th scope="col">
-              <span className="lw-cleaning__sr">Pick to merge</span>
-            </th>
-            <th scope="col">Level</th>
-            <th scope="col" className="lw-cleaning__num">
-              Rows
-            </th>
-            <th scope="col" className="lw-cleaning__num">
-              Share
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {column.levels.map((level, i) => {
-            const share = total > 0 ? level.count / total : 0;
-            const canPick = mergeable(column, level);
-            return (
-              <tr key={level.value} data-level={level.value}>
-                <td>
-                  <input
-                    id={`${id}-pick-${i}`}
-                    type="checkbox"
-                    className="lw-toggle__input"
-                    checked={picked.includes(level.value)}
-                    disabled={!canPick}
-                    aria-label={`Pick “${level.value}” to merge`}
-                    onChange={(event) => toggle(level.value, event.target.checked)}
-                  />
-                </td>
-                <td>
-                  <label htmlFor={`${id}-pick-${i}`} className="lw-cleaning__value">
-                    {level.value === '' ? <em>(empty text)</em> : level.value}
-                  </label>
-                </td>
-                <td className="lw-cleaning__num" data-count={level.count}>
-                  {formatCount(level.count)}
-                </td>
-                <td className="lw-cleaning__num">
-                  <span className="lw-cleaning__bar" aria-hidden="true" style={{ width: `${(level.count / largest) * 3}rem` }} />
-                  {formatShare(share)}
-                </td>
-              </tr>
-            );
-          })}
-        </tbody>
-      </table>
+        <table className="lw-cleaning__table">
+          <caption className="lw-cleaning__caption">{countOf(column.levels.length, 'level', 'levels')} after cleaning</caption>
+          <thead>
+            <tr>
+              <th scope="col">
+                <span className="lw-cleaning__sr">Pick to merge</span>
+              </th>
+              <th scope="col">Level</th>
+              <th scope="col" className="lw-cleaning__num">
+                Rows
+              </th>
+              <th scope="col" className="lw-cleaning__num">
+                Share
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {column.levels.map((level, i) => {
+              const share = total > 0 ? level.count / total : 0;
+              const canPick = mergeable(column, level);
+              return (
+                <tr key={level.value} data-level={level.value}>
+                  <td>
+                    <input
+                      id={`${id}-pick-${i}`}
+                      type="checkbox"
+                      className="lw-toggle__input"
+                      checked={picked.includes(level.value)}
+                      disabled={!canPick}
+                      aria-label={`Pick “${level.value}” to merge`}
+                      onChange={(event) => toggle(level.value, event.target.checked)}
+                    />
+                  </td>
+                  <td>
+                    <label htmlFor={`${id}-pick-${i}`} className="lw-cleaning__value">
+                      {level.value === '' ? <em>(empty text)</em> : level.value}
+                    </label>
+                  </td>
+                  <td className="lw-cleaning__num" data-count={level.count}>
+                    {formatCount(level.count)}
+                  </td>
+                  <td className="lw-cleaning__num">
+                    <span className="lw-cleaning__bar" aria-hidden="true" style={{ width: `${(level.count / largest) * 3}rem` }} />
+                    {formatShare(share)}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
       </div>
       <div className="lw-cleaning__merge-form">
         <div className="lw-field">

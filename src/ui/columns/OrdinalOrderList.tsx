@@ -17,7 +17,7 @@ import {
 } from '@dnd-kit/core';
 import { SortableContext, arrayMove, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
 import { CSS } from '@dnd-kit/utilities';
-import { useId } from 'react';
+import { useId, useMemo } from 'react';
 import type { Decision } from '../../core/decisions.ts';
 import type { FittedLevel } from '../../core/recipe.ts';
 import { formatCount } from './labels.ts';
@@ -43,13 +43,24 @@ export const ORDER_INSTRUCTIONS: ScreenReaderInstructions = {
     'press Space again to put it down there, or Escape to leave it where it was.',
 };
 
+/**
+ * Our wording for each step of a move. The sensor reports the lifted level as "over" its own place
+ * right after the lift; saying so would drown the lift message, so that first report is skipped.
+ */
 export function orderAnnouncements(values: readonly string[]): Announcements {
   const place = (id: UniqueIdentifier | undefined) => values.indexOf(fromId(id ?? '')) + 1;
   const of = `of ${formatCount(values.length)}`;
+  let leftHome = false;
   return {
-    onDragStart: ({ active }) => `Lifted “${fromId(active.id)}”, place ${place(active.id)} ${of}.`,
-    onDragOver: ({ active, over }) =>
-      over ? `“${fromId(active.id)}” is over place ${place(over.id)} ${of}.` : `“${fromId(active.id)}” is outside the list.`,
+    onDragStart: ({ active }) => {
+      leftHome = false;
+      return `Lifted “${fromId(active.id)}”, place ${place(active.id)} ${of}.`;
+    },
+    onDragOver: ({ active, over }) => {
+      if (over?.id === active.id && !leftHome) return undefined;
+      leftHome = true;
+      return over ? `“${fromId(active.id)}” is over place ${place(over.id)} ${of}.` : `“${fromId(active.id)}” is outside the list.`;
+    },
     onDragEnd: ({ active, over }) =>
       over && over.id !== active.id
         ? `“${fromId(active.id)}” put down at place ${place(over.id)} ${of}.`
@@ -62,6 +73,9 @@ export function OrdinalOrderList({ column, levels, onDecide, codes }: OrdinalOrd
   const headingId = useId();
   const values = levels.map((l) => l.value);
   const ids = values.map(toId);
+  const orderKey = values.join('\u0000');
+  // One announcer per order, so its small memory of the current move survives re-renders during a drag.
+  const announcements = useMemo(() => orderAnnouncements(values), [orderKey]); // values change exactly when orderKey does
   const sensors = useSensors(
     useSensor(PointerSensor, { activationConstraint: { distance: 4 } }),
     useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }),
@@ -84,7 +98,7 @@ export function OrdinalOrderList({ column, levels, onDecide, codes }: OrdinalOrd
         sensors={sensors}
         collisionDetection={closestCenter}
         onDragEnd={onDragEnd}
-        accessibility={{ announcements: orderAnnouncements(values), screenReaderInstructions: ORDER_INSTRUCTIONS }}
+        accessibility={{ announcements, screenReaderInstructions: ORDER_INSTRUCTIONS }}
       >
         <SortableContext items={ids} strategy={verticalListSortingStrategy}>
           <ol className="lw-order__list" aria-describedby={headingId} aria-label={`Order of ${column}, lowest first`}>

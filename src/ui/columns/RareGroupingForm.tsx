@@ -73,11 +73,13 @@ export function RareGroupingForm({ column, onDecide }: RareGroupingFormProps) {
 
   const otherCount = column.levels.find((l) => l.value === column.otherLabel)?.count ?? 0;
   return (
-    <form className="lw-rare" onSubmit={submit} aria-label="Rare-level grouping">
+    <form className="lw-rare" onSubmit={submit} aria-label="Rare-level grouping" noValidate>
       <p className="lw-field__hint">A level is grouped when it fails any rule that is switched on. Leave a box empty to switch its rule off.</p>
-      {field('minCount', 'Group levels with fewer than', 'rows', { min: 0, step: 1 })}
-      {field('minShare', 'Group levels with less than', '% of rows', { min: 0, max: 100, step: 'any' })}
-      {field('keepTop', 'Keep only the', 'most frequent levels', { min: 1, step: 1 })}
+      <div className="lw-rare__rules">
+        {field('minCount', 'Group levels with fewer than', 'rows', { min: 0, step: 1 })}
+        {field('minShare', 'Group levels with less than', '% of rows', { min: 0, max: 100, step: 'any' })}
+        {field('keepTop', 'Keep only the', 'most frequent levels', { min: 1, step: 1 })}
+      </div>
       <div className="lw-field">
         <label htmlFor={`${id}-other`} className="lw-field__label">
           Name of the grouped level

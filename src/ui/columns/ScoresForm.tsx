@@ -23,7 +23,7 @@ export function ScoresForm({ column, onDecide }: ScoresFormProps) {
   };
 
   return (
-    <form className="lw-scores" onSubmit={submit} aria-label="Scores per level">
+    <form className="lw-scores" onSubmit={submit} aria-label="Scores per level" noValidate>
       <p className="lw-field__hint">The number each level becomes. Scores need not be evenly spaced.</p>
       <ol className="lw-scores__list">
         {column.levels.map((level, i) => (

@@ -37,6 +37,9 @@ export function WidthMeter({ forecast, threshold = 30, onDecide, keepTop = 20 }:
           {countOf(forecast.total.after, 'output column', 'output columns')}
         </span>
       </p>
+      {forecast.total.after > 0 ? (
+        <p className="lw-width__zeros">About {formatShare(forecast.total.zeroShare)} of the output cells will be 0.</p>
+      ) : null}
       {wide.length > 0 ? (
         <div className="lw-width__warnings" role="region" aria-label="Wide columns">
           {wide.map((c) => (
@@ -51,7 +54,9 @@ export function WidthMeter({ forecast, threshold = 30, onDecide, keepTop = 20 }:
         <thead>
           <tr>
             <th scope="col">Column</th>
-            <th scope="col">Level</th>
+            <th scope="col" className="lw-width__level">
+              Level
+            </th>
             <th scope="col" className="lw-width__num">
               Outputs
             </th>

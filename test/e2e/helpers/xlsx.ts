@@ -12,7 +12,7 @@ export interface SheetSpec {
   readonly rows: readonly (readonly SheetCell[])[];
 }
 
-export function buildXlsx(sheets: readonly SheetSpec[]): Uint8Array {
+export function buildXlsx(sheets: readonly SheetSpec[]): Uint8Array<ArrayBuffer> {
   const entries: [string, string][] = [
     ['[Content_Types].xml', contentTypes(sheets.length)],
     ['_rels/.rels', rootRelationships()],
@@ -120,7 +120,7 @@ export function crc32(bytes: Uint8Array): number {
   return (crc ^ 0xffffffff) >>> 0;
 }
 
-export function storedZip(files: readonly { name: string; bytes: Uint8Array }[]): Uint8Array {
+export function storedZip(files: readonly { name: string; bytes: Uint8Array }[]): Uint8Array<ArrayBuffer> {
   const parts: Uint8Array[] = [];
   const central: Uint8Array[] = [];
   let offset = 0;

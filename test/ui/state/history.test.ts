@@ -1,7 +1,9 @@
-// @vitest-environment jsdom
 /**
  * The recipe history: decisions go through core decide(), undo/redo walk the steps, and saved
  * decisions replay on a freshly drafted recipe of the same file (and survive in localStorage).
+ *
+ * Runs in Node: the store is a Map-backed stand-in for localStorage with the same three methods
+ * (jsdom 31 needs Node >= 22; the page's real localStorage is exercised by the e2e reload test).
  */
 import fc from 'fast-check';
 import { beforeEach, describe, expect, it } from 'vitest';
@@ -11,7 +13,7 @@ import { profileTable } from '../../../src/core/profile.ts';
 import { readTable } from '../../../src/core/read-table.ts';
 import { DEFAULT_MISSING_TOKENS, type NominalColumn } from '../../../src/core/recipe.ts';
 import { EMPTY_HISTORY, HISTORY_LIMIT, historyReducer, redoLabel, undoLabel, type HistoryAction, type RecipeHistory } from '../../../src/ui/state/history.ts';
-import { browserStore, loadDecisions, saveDecisions, SAVED_FILES_LIMIT } from '../../../src/ui/state/persist.ts';
+import { loadDecisions, saveDecisions, SAVED_FILES_LIMIT, type KeyValueStore } from '../../../src/ui/state/persist.ts';
 
 const CSV = 'colour,size,score\nred,S,1\nblue,M,2\nred,L,\ngreen,M,4\n';
 const table = readTable(new TextEncoder().encode(CSV)).table;
@@ -130,30 +132,40 @@ describe('history reducer', () => {
   });
 });
 
+/** The three Storage methods over a Map; `raw` exposes what was stored. */
+function memoryStore(): KeyValueStore & { raw: Map<string, string> } {
+  const raw = new Map<string, string>();
+  return {
+    raw,
+    getItem: (key) => raw.get(key) ?? null,
+    setItem: (key, value) => void raw.set(key, value),
+    removeItem: (key) => void raw.delete(key),
+  };
+}
+
 describe('saving decisions per file', () => {
-  beforeEach(() => localStorage.clear());
+  let store = memoryStore();
+  beforeEach(() => {
+    store = memoryStore();
+  });
 
   it('keeps decisions under the file fingerprint, in the browser store', () => {
-    const store = browserStore();
-    expect(store).not.toBeNull();
     expect(saveDecisions(store, 'fp-1', [toDummy, toBlue])).toBe(true);
     expect(loadDecisions(store, 'fp-1')).toEqual([toDummy, toBlue]);
     expect(loadDecisions(store, 'fp-2')).toEqual([]);
     // Only decisions are kept: no cell values.
-    expect(localStorage.getItem('levelwise.decisions.v1:fp-1')).not.toContain('green');
+    expect(store.getItem('levelwise.decisions.v1:fp-1')).not.toContain('green');
   });
 
   it('drops an empty list and survives broken stored text', () => {
-    const store = browserStore();
     saveDecisions(store, 'fp', [toDummy]);
     saveDecisions(store, 'fp', []);
-    expect(localStorage.getItem('levelwise.decisions.v1:fp')).toBeNull();
-    localStorage.setItem('levelwise.decisions.v1:bad', '{not json');
+    expect(store.getItem('levelwise.decisions.v1:fp')).toBeNull();
+    store.setItem('levelwise.decisions.v1:bad', '{not json');
     expect(loadDecisions(store, 'bad')).toEqual([]);
   });
 
   it('remembers at most the most recent files', () => {
-    const store = browserStore();
     for (let i = 0; i < SAVED_FILES_LIMIT + 3; i++) saveDecisions(store, `f${i}`, [toDummy]);
     expect(loadDecisions(store, 'f0')).toEqual([]);
     expect(loadDecisions(store, 'f2')).toEqual([]);

@@ -1,7 +1,7 @@
 /**
- * Published datasets shipped by the npm package vega-datasets, as rows of cells for
- * `tableFromRows` (first row the header). A JSON null becomes an empty cell, as a spreadsheet
- * export would write it.
+ * Tables for the profiling and inference tests, built with `tableFromRows` (first row the header):
+ * published datasets shipped by the npm package vega-datasets (a JSON null becomes an empty cell,
+ * as a spreadsheet export would write it), and one-column tables from cells.
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';

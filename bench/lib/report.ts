@@ -1,0 +1,139 @@
+/**
+ * The benchmark's results (what bench/results.json holds) and the one table printed from them.
+ */
+import { atMost, BYTES_PER_MB, median, megabytesPerSecond, TARGETS, timeRatio, type Verdict } from './stats.ts';
+import type { Machine } from './machine.ts';
+
+export interface Timing {
+  /** Seconds of each run, in the order run. */
+  readonly runsSeconds: readonly number[];
+  readonly medianSeconds: number;
+  readonly mbPerSecond: number;
+}
+
+export interface ProfileTiming extends Timing {
+  /** Median seconds of each phase of the profile path. */
+  readonly phasesSeconds: Readonly<Record<string, number>>;
+}
+
+export interface ApplyTiming extends Timing {
+  readonly runsPeakRssBytes: readonly number[];
+  readonly peakRssBytes: number;
+  /** Bytes of CSV written by one run. */
+  readonly bytesWritten: number | null;
+}
+
+export interface TableMemory {
+  readonly heapBytes: number;
+  readonly arrayBufferBytes: number;
+  /** (heap + array buffers) ÷ file size. */
+  readonly timesFileSize: number;
+}
+
+export interface SizeResult {
+  readonly rows: number;
+  readonly file: string;
+  readonly bytes: number;
+  readonly parse: Timing | null;
+  readonly profile: ProfileTiming | null;
+  readonly apply: ApplyTiming | null;
+  readonly tableMemory: TableMemory | null;
+  /** Profile path time ÷ papaparse time. */
+  readonly profileOverParse: Verdict;
+  /** Apply path time ÷ papaparse time. */
+  readonly applyOverParse: Verdict;
+}
+
+export type ApplyPath =
+  | { readonly kind: 'cli'; readonly command: string; readonly startupSeconds: number; readonly matchesInProcess: boolean }
+  | { readonly kind: 'in-process'; readonly why: string };
+
+export interface BenchResults {
+  readonly machine: Machine;
+  readonly reps: number;
+  readonly applyPath: ApplyPath;
+  readonly recipe: string;
+  readonly targets: typeof TARGETS;
+  readonly sizes: readonly SizeResult[];
+  /** Peak RSS of apply at the largest size above 1M rows ÷ at 1M rows. */
+  readonly rssLargeOverReference: Verdict & { readonly largeRows: number | null };
+  readonly notes: readonly string[];
+}
+
+export function timing(runsSeconds: readonly number[], bytes: number): Timing {
+  const medianSeconds = median(runsSeconds);
+  return { runsSeconds, medianSeconds, mbPerSecond: megabytesPerSecond(bytes, medianSeconds) };
+}
+
+export function sizeVerdicts(parse: Timing | null, profile: Timing | null, apply: Timing | null) {
+  const parseRate = parse?.mbPerSecond ?? NaN;
+  return {
+    profileOverParse: atMost(timeRatio(parseRate, profile?.mbPerSecond ?? NaN), TARGETS.profileOverParse),
+    applyOverParse: atMost(timeRatio(parseRate, apply?.mbPerSecond ?? NaN), TARGETS.applyOverParse),
+  };
+}
+
+export function rssVerdict(sizes: readonly SizeResult[], referenceRows: number): BenchResults['rssLargeOverReference'] {
+  const reference = sizes.find((s) => s.rows === referenceRows)?.apply?.peakRssBytes ?? NaN;
+  const large = [...sizes].reverse().find((s) => s.rows > referenceRows && s.apply !== null);
+  const value = large?.apply ? large.apply.peakRssBytes / reference : NaN;
+  return { ...atMost(value, TARGETS.rssLargeOverReference), largeRows: large?.rows ?? null };
+}
+
+// ---------------------------------------------------------------------------------------------
+// The printed table
+
+const DASH = '—';
+
+function fixed(value: number | undefined, digits: number): string {
+  return value === undefined || !Number.isFinite(value) ? DASH : value.toFixed(digits);
+}
+
+function megabytes(bytes: number | undefined): string {
+  return bytes === undefined || !Number.isFinite(bytes) ? DASH : `${(bytes / BYTES_PER_MB).toFixed(0)} MB`;
+}
+
+export function verdictCell(verdict: Verdict): string {
+  if (verdict.pass === null) return DASH;
+  return `${verdict.value.toFixed(2)}× ${verdict.pass ? 'pass' : 'FAIL'}`;
+}
+
+export const TABLE_HEADER: readonly string[] = [
+  'rows',
+  'MB',
+  'parse MB/s',
+  'profile MB/s',
+  `profile÷parse ≤${TARGETS.profileOverParse}×`,
+  'apply MB/s',
+  `apply÷parse ≤${TARGETS.applyOverParse}×`,
+  'table in memory',
+  'apply peak RSS',
+  `RSS÷RSS(1M) ≤${TARGETS.rssLargeOverReference}×`,
+];
+
+export function tableRows(results: Pick<BenchResults, 'sizes' | 'rssLargeOverReference'>): string[][] {
+  return results.sizes.map((size) => {
+    const memory = size.tableMemory;
+    const rss = results.rssLargeOverReference;
+    return [
+      size.rows.toLocaleString('en-US'),
+      fixed(size.bytes / BYTES_PER_MB, 1),
+      fixed(size.parse?.mbPerSecond, 1),
+      fixed(size.profile?.mbPerSecond, 1),
+      verdictCell(size.profileOverParse),
+      fixed(size.apply?.mbPerSecond, 1),
+      verdictCell(size.applyOverParse),
+      memory === null ? DASH : `${megabytes(memory.heapBytes + memory.arrayBufferBytes)} (${memory.timesFileSize.toFixed(2)}× file)`,
+      megabytes(size.apply?.peakRssBytes),
+      rss.largeRows === size.rows ? verdictCell(rss) : DASH,
+    ];
+  });
+}
+
+/** Columns padded to their widest cell; numbers right-aligned, the header too. */
+export function renderTable(header: readonly string[], rows: readonly (readonly string[])[]): string {
+  const widths = header.map((title, c) => Math.max(title.length, ...rows.map((row) => (row[c] ?? '').length)));
+  const line = (cells: readonly string[]): string => cells.map((cell, c) => cell.padStart(widths[c] ?? 0)).join('  ');
+  const rule = widths.map((w) => '-'.repeat(w)).join('  ');
+  return [line(header), rule, ...rows.map(line)].join('\n');
+}

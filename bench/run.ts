@@ -1,0 +1,296 @@
+/**
+ * The benchmark: how fast and how lean the big-file paths are, as ratios to papaparse measured side
+ * by side in one run (absolute MB/s drift on a shared machine; ratios measured together hold).
+ *
+ *   npm run bench                       10k, 100k and 1M rows fully, 4M rows for the memory check
+ *   npm run bench -- --sizes 1000000    only the 1M-row file (it is always measured)
+ *   npm run bench -- --cpu-prof         where the time goes: CPU profiles at 1M rows, no table
+ *
+ * Prints one table and writes bench/results.json. Missed targets are reported, never an exit code:
+ * this is a report, not a test. See bench/README.md for what each column means.
+ */
+import { createHash } from 'node:crypto';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, relative } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { stringifyRecipe, type Recipe } from '../src/core/index.ts';
+import { measuresEverything, parseBenchArguments, REFERENCE_ROWS, USAGE, type ApplyChoice, type BenchArguments } from './lib/args.ts';
+import { findResult, type MemoryResult, type TimedResult } from './lib/child-result.ts';
+import { measureInChild, PROJECT_ROOT, runCli, runNode } from './lib/children.ts';
+import { describeMachine, machineLine } from './lib/machine.ts';
+import { applyFromFile, readTableFromFile } from './lib/paths.ts';
+import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
+import {
+  renderTable,
+  rssVerdict,
+  sizeVerdicts,
+  TABLE_HEADER,
+  tableRows,
+  timing,
+  verdictCell,
+  type ApplyPath,
+  type ApplyTiming,
+  type BenchResults,
+  type ProfileTiming,
+  type SizeResult,
+  type TableMemory,
+} from './lib/report.ts';
+import { median, TARGETS } from './lib/stats.ts';
+import type { ProfileSummary } from './lib/summarise-cpu-profile.ts';
+
+const BENCH_DIR = dirname(fileURLToPath(import.meta.url));
+const DATA_DIR = join(BENCH_DIR, 'data');
+const RESULTS_FILE = join(BENCH_DIR, 'results.json');
+/** The recipe is fitted on this size when it is on disk (a sample, as a person would fit one), else on 1M. */
+const FIT_ROWS = 100_000;
+const TOP_FUNCTIONS = 20;
+
+const dataFile = (rows: number): string => join(DATA_DIR, `household-${rows}.csv`);
+const shown = (path: string): string => relative(process.cwd(), path);
+const progress = (text: string): void => void process.stderr.write(`${text}\n`);
+
+function requireDataFiles(sizes: readonly number[]): void {
+  const missing = sizes.filter((rows) => !existsSync(dataFile(rows)));
+  if (missing.length === 0) return;
+  throw new Error(
+    `Missing benchmark inputs: ${missing.map((rows) => shown(dataFile(rows))).join(', ')}.\n` +
+      `Write them with: npm run bench:generate -- --rows ${missing.join(',')}`,
+  );
+}
+
+/** Fits the benchmark recipe and writes it where the measuring processes can read it. */
+function writeBenchRecipe(scratch: string): { file: string; recipe: Recipe } {
+  const fitFile = existsSync(dataFile(FIT_ROWS)) ? dataFile(FIT_ROWS) : dataFile(REFERENCE_ROWS);
+  const recipe = benchRecipeForTable(readTableFromFile(fitFile), shown(fitFile));
+  const file = join(scratch, 'bench-recipe.json');
+  writeFileSync(file, stringifyRecipe(recipe));
+  return { file, recipe };
+}
+
+// ---------------------------------------------------------------------------------------------
+// How apply is measured: the command line when it runs, else the same path in process.
+
+function sha256OfInProcessApply(file: string, recipe: Recipe): string {
+  const hash = createHash('sha256');
+  applyFromFile(file, recipe, (part) => hash.update(part));
+  return hash.digest('hex');
+}
+
+async function chooseApplyPath(choice: ApplyChoice, recipeFile: string, recipe: Recipe, checkFile: string, scratch: string): Promise<ApplyPath> {
+  if (choice === 'in-process') return { kind: 'in-process', why: 'chosen with --apply in-process' };
+  const out = join(scratch, 'cli-check.csv');
+  const run = await runCli(['apply', recipeFile, checkFile, '-o', out]);
+  const wrote = existsSync(out) && statSync(out).size > 0;
+  if (run.exitCode !== 0 || !wrote) {
+    const said = (run.stderr.trim() || run.stdout.trim()).split('\n')[0]?.slice(0, 200) ?? '';
+    const why = `\`levelwise apply\` is not runnable yet (exit ${run.exitCode}${wrote ? '' : ', no output file'}${said ? `: ${said}` : ''})`;
+    if (choice === 'cli') throw new Error(`--apply cli: ${why}`);
+    return { kind: 'in-process', why };
+  }
+  const cliHash = createHash('sha256').update(readFileSync(out)).digest('hex');
+  const startups: number[] = [];
+  for (let i = 0; i < 3; i++) startups.push((await runCli(['--help'])).wallSeconds);
+  return {
+    kind: 'cli',
+    command: 'node bin/levelwise.js apply RECIPE FILE -o /dev/null',
+    startupSeconds: median(startups),
+    matchesInProcess: cliHash === sha256OfInProcessApply(checkFile, recipe),
+  };
+}
+
+async function measureApply(path: ApplyPath, file: string, recipeFile: string): Promise<{ seconds: number; peakRssBytes: number; bytesWritten: number | null }> {
+  if (path.kind === 'cli') {
+    const run = await runCli(['apply', recipeFile, file, '-o', '/dev/null']);
+    if (run.exitCode !== 0) throw new Error(`levelwise apply ${shown(file)} failed (exit ${run.exitCode}):\n${run.stderr.slice(-3000)}`);
+    return { seconds: run.wallSeconds, peakRssBytes: run.peakRssBytes, bytesWritten: null };
+  }
+  const { result, peakRssBytes } = await measureInChild<TimedResult>('apply', [file, recipeFile]);
+  return { seconds: result.seconds, peakRssBytes, bytesWritten: result.bytesWritten ?? null };
+}
+
+// ---------------------------------------------------------------------------------------------
+// The measurements, interleaved: each repetition runs every path on every size before the next
+// repetition starts, so a slow spell on a shared machine hits all paths alike.
+
+interface Runs {
+  parse: number[];
+  profile: number[];
+  phases: Record<string, number>[];
+  apply: number[];
+  applyRss: number[];
+  bytesWritten: number | null;
+}
+
+async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile: string): Promise<SizeResult[]> {
+  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], phases: [], apply: [], applyRss: [], bytesWritten: null }]));
+  for (let rep = 1; rep <= args.reps; rep++) {
+    for (const rows of args.sizes) {
+      const file = dataFile(rows);
+      const r = runs.get(rows)!;
+      const label = `run ${rep}/${args.reps} · ${rows.toLocaleString('en-US')} rows`;
+      if (measuresEverything(rows)) {
+        const parse = await measureInChild<TimedResult>('parse', [file]);
+        r.parse.push(parse.result.seconds);
+        const profile = await measureInChild<TimedResult>('profile', [file]);
+        r.profile.push(profile.result.seconds);
+        r.phases.push({ ...profile.result.phases });
+        checkRows(rows, 'parse', parse.result.rows);
+        checkRows(rows, 'profile', profile.result.rows);
+      }
+      const apply = await measureApply(applyPath, file, recipeFile);
+      r.apply.push(apply.seconds);
+      r.applyRss.push(apply.peakRssBytes);
+      r.bytesWritten = apply.bytesWritten;
+      progress(`${label}: parse ${last(r.parse)} s, profile ${last(r.profile)} s, apply ${last(r.apply)} s`);
+    }
+  }
+  const results: SizeResult[] = [];
+  for (const rows of args.sizes) {
+    const file = dataFile(rows);
+    const bytes = statSync(file).size;
+    const r = runs.get(rows)!;
+    const full = measuresEverything(rows);
+    const parse = full ? timing(r.parse, bytes) : null;
+    const profile: ProfileTiming | null = full ? { ...timing(r.profile, bytes), phasesSeconds: medianPhases(r.phases) } : null;
+    const apply: ApplyTiming = { ...timing(r.apply, bytes), runsPeakRssBytes: r.applyRss, peakRssBytes: median(r.applyRss), bytesWritten: r.bytesWritten };
+    const tableMemory = full ? await measureTableMemory(file, bytes) : null;
+    results.push({ rows, file: shown(file), bytes, parse, profile, apply, tableMemory, ...sizeVerdicts(parse, profile, apply) });
+  }
+  return results;
+}
+
+function last(values: readonly number[]): string {
+  const value = values[values.length - 1];
+  return value === undefined ? '—' : value.toFixed(2);
+}
+
+function checkRows(expected: number, path: string, found: number): void {
+  if (found !== expected) progress(`warning: ${path} read ${found} rows from the ${expected}-row file`);
+}
+
+function medianPhases(phases: readonly Record<string, number>[]): Record<string, number> {
+  const names = Object.keys(phases[0] ?? {});
+  return Object.fromEntries(names.map((name) => [name, median(phases.map((p) => p[name] ?? NaN))]));
+}
+
+async function measureTableMemory(file: string, bytes: number): Promise<TableMemory> {
+  progress(`table memory · ${shown(file)}`);
+  const { result } = await measureInChild<MemoryResult>('table-memory', [file]);
+  return { heapBytes: result.heapBytes, arrayBufferBytes: result.arrayBufferBytes, timesFileSize: (result.heapBytes + result.arrayBufferBytes) / bytes };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Printing
+
+function describeApplyPath(path: ApplyPath): string {
+  if (path.kind === 'in-process') return `apply measured in process (same streamed path as the command line): ${path.why}`;
+  const match = path.matchesInProcess ? 'its output matches the in-process path byte for byte' : 'WARNING: its output differs from the in-process path';
+  return `apply measured through the command line (${path.command}), start-up ${path.startupSeconds.toFixed(2)} s included; ${match}`;
+}
+
+function printResults(results: BenchResults): void {
+  const lines = [
+    `Levelwise benchmark — median of ${results.reps} runs each`,
+    `machine: ${machineLine(results.machine)}`,
+    describeApplyPath(results.applyPath),
+    `recipe: ${results.recipe}`,
+    '',
+    renderTable(TABLE_HEADER, tableRows(results)),
+    '',
+    'ratios are time ÷ papaparse time on the same file (lower is better); targets are upper bounds',
+    `peak RSS at ${results.rssLargeOverReference.largeRows?.toLocaleString('en-US') ?? '—'} rows ÷ at 1,000,000 rows: ${verdictCell(results.rssLargeOverReference)} (target ≤ ${TARGETS.rssLargeOverReference}×)`,
+    ...results.notes.map((note) => `note: ${note}`),
+  ];
+  console.log(lines.join('\n'));
+}
+
+// ---------------------------------------------------------------------------------------------
+// --cpu-prof: where the time goes
+
+/** The main thread's profile in `dir` (--cpu-prof also writes one per loader thread). */
+function mainThreadProfile(dir: string): string {
+  const names = readdirSync(dir).filter((name) => name.endsWith('.cpuprofile'));
+  // CPU.<date>.<time>.<pid>.<thread>.<seq>.cpuprofile; the main thread is thread 0.
+  const main = names.find((name) => name.split('.')[4] === '0') ?? names[0];
+  if (main === undefined) throw new Error(`No .cpuprofile written in ${dir}`);
+  return join(dir, main);
+}
+
+async function whereTimeGoes(applyPath: ApplyPath, recipeFile: string): Promise<void> {
+  const file = dataFile(REFERENCE_ROWS);
+  const keep = mkdtempSync(join(tmpdir(), 'levelwise-cpu-profiles-'));
+  const flags = (name: string): string[] => ['--cpu-prof', `--cpu-prof-dir=${join(keep, name)}`];
+  progress(`CPU-profiling the profile path on ${shown(file)}…`);
+  await measureInChild<TimedResult>('profile', [file], flags('profile-path'));
+  progress(`CPU-profiling the apply path on ${shown(file)}…`);
+  if (applyPath.kind === 'cli') {
+    const run = await runCli(['apply', recipeFile, file, '-o', '/dev/null'], flags('apply-path'));
+    if (run.exitCode !== 0) throw new Error(`levelwise apply failed (exit ${run.exitCode}):\n${run.stderr.slice(-3000)}`);
+  } else {
+    await measureInChild<TimedResult>('apply', [file, recipeFile], flags('apply-path'));
+  }
+  const profiles = [mainThreadProfile(join(keep, 'profile-path')), mainThreadProfile(join(keep, 'apply-path'))];
+  const summariser = join(BENCH_DIR, 'lib', 'summarise-cpu-profile.ts');
+  const run = await runNode(['--enable-source-maps', '--import', 'tsx'], summariser, [PROJECT_ROOT, String(TOP_FUNCTIONS), ...profiles]);
+  if (run.exitCode !== 0) throw new Error(`Summarising the profiles failed:\n${run.stderr.slice(-3000)}`);
+  const summaries = findResult<ProfileSummary[]>(run.stdout);
+  const titles = ['profile path (1 MB slices → table → profileTable → draftRecipe)', `apply path (${describeApplyPath(applyPath)})`];
+  const out: string[] = [`CPU profiles of ${shown(file)} — ${machineLine(describeMachine())}`, `(.cpuprofile files kept in ${keep}; open them in Chrome DevTools)`];
+  summaries.forEach((summary, i) => {
+    out.push('', `${titles[i]}: ${(summary.busyMilliseconds / 1000).toFixed(2)} s busy of ${(summary.wallMilliseconds / 1000).toFixed(2)} s`);
+    out.push(renderTable(['self ms', 'share', 'function (self time)'], summary.functions.map(selfRow)));
+    out.push('', renderTable(['self ms', 'share', 'file (self time)'], summary.files.slice(0, 10).map(selfRow)));
+  });
+  console.log(out.join('\n'));
+}
+
+function selfRow(entry: { label: string; milliseconds: number; share: number }): string[] {
+  return [entry.milliseconds.toFixed(0), `${(entry.share * 100).toFixed(1)}%`, entry.label.padEnd(60)];
+}
+
+// ---------------------------------------------------------------------------------------------
+
+async function main(): Promise<void> {
+  const args = parseBenchArguments(process.argv.slice(2));
+  if (args.help) {
+    console.log(USAGE);
+    return;
+  }
+  requireDataFiles(args.cpuProfile ? [REFERENCE_ROWS] : args.sizes);
+  const scratch = mkdtempSync(join(tmpdir(), 'levelwise-bench-'));
+  try {
+    progress('fitting the benchmark recipe…');
+    const { file: recipeFile, recipe } = writeBenchRecipe(scratch);
+    const checkFile = dataFile(args.sizes.find((rows) => existsSync(dataFile(rows))) ?? REFERENCE_ROWS);
+    const applyPath = await chooseApplyPath(args.apply, recipeFile, recipe, checkFile, scratch);
+    progress(describeApplyPath(applyPath));
+    if (args.cpuProfile) return await whereTimeGoes(applyPath, recipeFile);
+
+    const sizes = await measureAll(args, applyPath, recipeFile);
+    const notes: string[] = [];
+    if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
+    const results: BenchResults = {
+      machine: describeMachine(),
+      reps: args.reps,
+      applyPath,
+      recipe: describeRecipe(recipe),
+      targets: TARGETS,
+      sizes,
+      rssLargeOverReference: rssVerdict(sizes, REFERENCE_ROWS),
+      notes,
+    };
+    printResults(results);
+    if (args.write) {
+      writeFileSync(RESULTS_FILE, `${JSON.stringify(results, null, 2)}\n`);
+      progress(`wrote ${shown(RESULTS_FILE)}`);
+    }
+  } finally {
+    rmSync(scratch, { recursive: true, force: true });
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(error instanceof Error ? error.message : error);
+  process.exitCode = 1;
+});

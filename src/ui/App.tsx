@@ -1,0 +1,175 @@
+/**
+ * The workbench: a top bar (the file, undo/redo, re-use, about), the column list on the left, the
+ * selected column's decisions (or the output width) in the middle, and the encoded output below,
+ * with the take-away buttons beside it. State and the worker live in useWorkbench.
+ */
+import { useCallback, useEffect, useMemo, useState, type KeyboardEvent } from 'react';
+import type { ApplyReport } from '../core/apply-report.ts';
+import { forecastWidth } from '../core/width.ts';
+import { DEMO_NOTE } from '../demo/household-energy.ts';
+import { AboutBox } from './about/AboutBox.tsx';
+import { ColumnEditor } from './columns/ColumnEditor.tsx';
+import { ColumnList } from './columns/ColumnList.tsx';
+import { DropOverlay, useFileDrop } from './files/DropZone.tsx';
+import { FileSummary } from './files/FileSummary.tsx';
+import { Notices } from './files/Notices.tsx';
+import { DATA_FILE_ACCEPT, OpenFileButton } from './files/OpenFileButton.tsx';
+import { TakeAway } from './files/TakeAway.tsx';
+import { TaskBar } from './files/TaskBar.tsx';
+import { useTakeAway } from './files/useTakeAway.ts';
+import { PreviewPane } from './preview/PreviewPane.tsx';
+import { ReportDialog } from './reuse/ReportDialog.tsx';
+import { ReuseDialog } from './reuse/ReuseDialog.tsx';
+import { redoLabel, undoLabel } from './state/history.ts';
+import { useUndoKeys } from './state/useUndoKeys.ts';
+import { useWorkbench } from './state/useWorkbench.ts';
+import { WidthMeter } from './width/WidthMeter.tsx';
+
+type CentreTab = 'column' | 'width';
+
+export function App() {
+  const wb = useWorkbench();
+  const { table, history, recipe, selected, setSelected, openFile, openDemo } = wb;
+  const [aboutOpen, setAboutOpen] = useState(false);
+  const [reuseOpen, setReuseOpen] = useState(false);
+  const [tab, setTab] = useState<CentreTab>('column');
+  const [shownReport, setShownReport] = useState<{ report: ApplyReport; fileName: string } | null>(null);
+  const dragging = useFileDrop(openFile);
+
+  useEffect(() => {
+    void openDemo();
+  }, [openDemo]);
+  useUndoKeys(wb.undo, wb.redo);
+
+  const showReport = useCallback((report: ApplyReport, fileName: string) => setShownReport({ report, fileName }), []);
+  const takeAway = useTakeAway({ client: wb.client, run: wb.run, notify: wb.notify, showReport });
+
+  const profile = table?.profiles.find((p) => p.name === selected) ?? null;
+  const column = recipe?.columns.find((c) => c.name === selected) ?? null;
+  const forecast = useMemo(() => (recipe ? forecastWidth(recipe) : null), [recipe]);
+  const isDemo = table !== null && wb.lastFile === null;
+  const undoText = undoLabel(history);
+  const redoText = redoLabel(history);
+  const notices = <Notices notices={wb.notices} onDismiss={wb.dismiss} />;
+
+  return (
+    <div className="app">
+      <header className="topbar">
+        <div className="brand">
+          <span className="brand-mark" aria-hidden="true" />
+          <span className="brand-name">Levelwise</span>
+        </div>
+        <FileSummary table={table} isDemo={isDemo} demoNote={DEMO_NOTE} onSheet={(sheet) => wb.lastFile && void openFile(wb.lastFile, sheet)} />
+        <div className="topbar-group" role="group" aria-label="Open">
+          <OpenFileButton label="Open a file…" accept={DATA_FILE_ACCEPT} onFile={(f) => void openFile(f)} className="button button-primary" testId="open-file-input" />
+          {!isDemo ? (
+            <button type="button" className="button button-quiet" onClick={() => void openDemo()}>
+              Demo data
+            </button>
+          ) : null}
+        </div>
+        <div className="topbar-group" role="group" aria-label="History">
+          <button
+            type="button"
+            className="button"
+            onClick={wb.undo}
+            disabled={undoText === null}
+            title={undoText ? `Undo “${undoText}” (Ctrl+Z)` : 'Nothing to undo'}
+            aria-keyshortcuts="Control+Z"
+          >
+            <span aria-hidden="true">↶ </span>Undo
+          </button>
+          <button
+            type="button"
+            className="button"
+            onClick={wb.redo}
+            disabled={redoText === null}
+            title={redoText ? `Redo “${redoText}” (Ctrl+Shift+Z)` : 'Nothing to redo'}
+            aria-keyshortcuts="Control+Shift+Z"
+          >
+            <span aria-hidden="true">↷ </span>Redo
+          </button>
+        </div>
+        <div className="topbar-group topbar-end">
+          <button type="button" className="button" onClick={() => setReuseOpen(true)}>
+            Re-use a recipe…
+          </button>
+          <button type="button" className="button button-quiet" onClick={() => setAboutOpen(true)}>
+            About
+          </button>
+        </div>
+      </header>
+      <TaskBar task={reuseOpen ? null : wb.task} />
+      {reuseOpen ? null : notices}
+
+      <main className="workspace">
+        <nav className="pane pane-columns" aria-label="Source columns">
+          <h2 className="pane-title">
+            Columns{table ? <span className="pane-count"> {table.names.length}</span> : null}
+          </h2>
+          <div className="pane-scroll">
+            {table && recipe ? (
+              <ColumnList profiles={[...table.profiles]} recipe={recipe} selected={selected} onSelect={(name) => (setSelected(name), setTab('column'))} />
+            ) : (
+              <p className="muted pane-empty">{wb.task ? 'Reading…' : 'Open a file to see its columns.'}</p>
+            )}
+          </div>
+        </nav>
+
+        <section className="pane pane-centre" aria-label="Decisions">
+          <div className="tabs" role="tablist" aria-label="Centre panel">
+            <button type="button" role="tab" id="tab-column" aria-controls="panel-column" aria-selected={tab === 'column'} tabIndex={tab === 'column' ? 0 : -1} className="tab" onClick={() => setTab('column')} onKeyDown={(e) => tabKeys(e, setTab)}>
+              Column{column ? `: ${column.name}` : ''}
+            </button>
+            <button type="button" role="tab" id="tab-width" aria-controls="panel-width" aria-selected={tab === 'width'} tabIndex={tab === 'width' ? 0 : -1} className="tab" onClick={() => setTab('width')} onKeyDown={(e) => tabKeys(e, setTab)}>
+              Output width{forecast ? `: ${forecast.total.before} → ${forecast.total.after}` : ''}
+            </button>
+          </div>
+          <div className="pane-scroll" role="tabpanel" id={tab === 'column' ? 'panel-column' : 'panel-width'} aria-labelledby={tab === 'column' ? 'tab-column' : 'tab-width'} tabIndex={0}>
+            {tab === 'column' ? (
+              profile && column ? (
+                <ColumnEditor profile={profile} column={column} onDecide={wb.decide} />
+              ) : (
+                <p className="muted pane-empty">Choose a column on the left.</p>
+              )
+            ) : forecast ? (
+              <WidthMeter forecast={forecast} onDecide={wb.decide} />
+            ) : null}
+          </div>
+        </section>
+
+        <section className="pane pane-preview" aria-label="Output">
+          <PreviewPane
+            workbench={wb}
+            actions={
+              table && recipe ? (
+                <TakeAway
+                  onCsv={() => void takeAway.exportCsv({ slot: 'work', version: table.version, fileName: table.fileName, rowCount: table.rowCount, recipe })}
+                  onRecipe={() => takeAway.saveRecipe(recipe, table.fileName)}
+                  onCodebook={(format) => takeAway.saveCodebook(recipe, table.fileName, format)}
+                  busy={wb.task !== null}
+                />
+              ) : null
+            }
+          />
+        </section>
+      </main>
+
+      <DropOverlay visible={dragging} />
+      <AboutBox open={aboutOpen} onClose={() => setAboutOpen(false)} />
+      <ReuseDialog open={reuseOpen} onClose={() => setReuseOpen(false)} workbench={wb} current={recipe} exportCsv={takeAway.exportCsv}>
+        {notices}
+      </ReuseDialog>
+      <ReportDialog shown={shownReport} reading={table} onClose={() => setShownReport(null)} />
+    </div>
+  );
+}
+
+/** Left and right arrows move between the two tabs (WAI-ARIA Authoring Practices, tabs pattern). */
+function tabKeys(event: KeyboardEvent<HTMLButtonElement>, setTab: (tab: CentreTab) => void) {
+  if (event.key !== 'ArrowLeft' && event.key !== 'ArrowRight') return;
+  event.preventDefault();
+  const next: CentreTab = event.currentTarget.id === 'tab-column' ? 'width' : 'column';
+  setTab(next);
+  document.getElementById(`tab-${next}`)?.focus();
+}

@@ -1,0 +1,89 @@
+/**
+ * Saving what the page made. Small results become a Blob and a download link. A large encoded CSV
+ * goes straight to disk through the File System Access API where the browser has it, part by part,
+ * so it never has to fit in memory at once (see PERFORMANCE.md, "Writing large output").
+ */
+
+/** Above this estimated size the encoded CSV is streamed to a file the person picks. */
+export const STREAM_ABOVE_BYTES = 256 * 1024 * 1024;
+
+export function saveBlob(blob: Blob, fileName: string): void {
+  const url = URL.createObjectURL(blob);
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = fileName;
+  link.rel = 'noopener';
+  link.style.display = 'none';
+  document.body.append(link);
+  link.click();
+  link.remove();
+  // The download has started from the URL by now; keep it a little for slow browsers.
+  setTimeout(() => URL.revokeObjectURL(url), 60_000);
+}
+
+export function saveText(text: string, fileName: string, type: string): void {
+  saveBlob(new Blob([text], { type: `${type};charset=utf-8` }), fileName);
+}
+
+/** Where the parts of an export go. */
+export interface PartSink {
+  /** 'disk' when streaming to a picked file, 'download' when collecting for a Blob. */
+  readonly kind: 'disk' | 'download';
+  write(bytes: Uint8Array): void;
+  finish(): Promise<void>;
+  abort(): Promise<void>;
+}
+
+/** The File System Access API's picker, which TypeScript's DOM library does not describe yet. */
+interface SavePickerWindow {
+  showSaveFilePicker?(options: {
+    suggestedName: string;
+    types: { description: string; accept: Record<string, string[]> }[];
+  }): Promise<{ createWritable(): Promise<{ write(data: Uint8Array): Promise<void>; close(): Promise<void>; abort(): Promise<void> }> }>;
+}
+
+/**
+ * A sink for an export of about `estimatedBytes`. Resolves null when the person closed the save
+ * picker without choosing a file. Must be called from a click (the picker needs a user gesture).
+ */
+export async function openPartSink(fileName: string, type: string, estimatedBytes: number): Promise<PartSink | null> {
+  const picker = (window as unknown as SavePickerWindow).showSaveFilePicker;
+  if (estimatedBytes > STREAM_ABOVE_BYTES && picker) {
+    try {
+      const handle = await picker.call(window, { suggestedName: fileName, types: [{ description: 'CSV file', accept: { [type]: ['.csv'] } }] });
+      const writable = await handle.createWritable();
+      let pending = Promise.resolve();
+      return {
+        kind: 'disk',
+        write: (bytes) => {
+          pending = pending.then(() => writable.write(bytes));
+        },
+        finish: async () => {
+          await pending;
+          await writable.close();
+        },
+        abort: async () => {
+          await pending.catch(() => undefined);
+          await writable.abort();
+        },
+      };
+    } catch (error) {
+      if (error instanceof DOMException && error.name === 'AbortError') return null;
+      // Picker refused (e.g. not allowed here): fall back to a download.
+    }
+  }
+  const parts: Uint8Array<ArrayBuffer>[] = [];
+  return {
+    kind: 'download',
+    write: (bytes) => parts.push(bytes as Uint8Array<ArrayBuffer>),
+    finish: async () => saveBlob(new Blob(parts, { type }), fileName),
+    abort: async () => {
+      parts.length = 0;
+    },
+  };
+}
+
+/** "survey 2024.csv" → "survey 2024". */
+export function baseName(fileName: string): string {
+  return fileName.replace(/\.[A-Za-z0-9]{1,5}$/, '') || 'levelwise';
+}

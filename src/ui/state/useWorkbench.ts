@@ -1,0 +1,195 @@
+/**
+ * The workbench's state and its conversation with the worker: the open table, the recipe history,
+ * which recipe the worker is using for the preview, the long task running, and messages for the
+ * person. Components get values and callbacks from here; none of them talks to the worker.
+ */
+import { useCallback, useEffect, useMemo, useReducer, useRef, useState } from 'react';
+import type { ApplyReport } from '../../core/apply-report.ts';
+import type { Decision } from '../../core/decisions.ts';
+import type { Recipe } from '../../core/recipe.ts';
+import { DEMO_ROW_COUNT } from '../../demo/household-energy.ts';
+import { startWorkbenchWorker, type WorkbenchClient } from '../../worker/client.ts';
+import { Cancelled, WorkerProblem, type OpenedTable, type Problem, type RecipeInUse, type TableSource } from '../../worker/protocol.ts';
+import { EMPTY_HISTORY, historyReducer } from './history.ts';
+import { browserStore, forgetDecisions, loadDecisions, saveDecisions } from './persist.ts';
+import { useTask } from './useTask.ts';
+
+export interface Notice {
+  readonly id: number;
+  readonly tone: 'info' | 'success' | 'warning' | 'error';
+  readonly title: string;
+  readonly detail?: string;
+  readonly hint?: string;
+  /** Shown as a button beside the message. */
+  readonly action?: { readonly label: string; run(): void };
+}
+
+/** The recipe the worker is using for the preview, with the revision it belongs to. */
+export interface RecipeShown extends RecipeInUse {
+  readonly recipe: Recipe;
+}
+
+let nextNoticeId = 1;
+
+/**
+ * One worker for the life of the page. Made outside React so StrictMode's double rendering and
+ * effect replays neither start a second worker nor stop the one in use.
+ */
+let sharedClient: WorkbenchClient | null = null;
+function pageClient(): WorkbenchClient {
+  sharedClient ??= startWorkbenchWorker();
+  return sharedClient;
+}
+
+export function problemNotice(problem: Problem, title = 'That did not work'): Omit<Notice, 'id'> {
+  const where = [problem.line !== undefined ? `line ${problem.line}` : null, problem.column !== undefined ? `column ${problem.column}` : null]
+    .filter(Boolean)
+    .join(', ');
+  return { tone: 'error', title, detail: where ? `${problem.message} (${where})` : problem.message, ...(problem.hint ? { hint: problem.hint } : {}) };
+}
+
+export function errorNotice(error: unknown, title: string): Omit<Notice, 'id'> {
+  if (error instanceof WorkerProblem) return problemNotice(error.problem, title);
+  return { tone: 'error', title, detail: error instanceof Error ? error.message : String(error) };
+}
+
+export function useWorkbench() {
+  const client = pageClient();
+
+  const [table, setTable] = useState<OpenedTable | null>(null);
+  const [history, dispatch] = useReducer(historyReducer, EMPTY_HISTORY);
+  const [shown, setShown] = useState<RecipeShown | null>(null);
+  const [selected, setSelected] = useState<string | null>(null);
+  const [notices, setNotices] = useState<readonly Notice[]>([]);
+  const [lastFile, setLastFile] = useState<File | null>(null);
+  const { task, run } = useTask();
+  const store = useMemo(() => browserStore(), []);
+
+  const notify = useCallback((notice: Omit<Notice, 'id'>) => {
+    const id = nextNoticeId++;
+    setNotices((list) => [...list.filter((n) => n.title !== notice.title), { ...notice, id }].slice(-4));
+    return id;
+  }, []);
+  const dismiss = useCallback((id: number) => setNotices((list) => list.filter((n) => n.id !== id)), []);
+
+  // ---- opening files --------------------------------------------------------------------------
+
+  const selectedRef = useRef(selected);
+  selectedRef.current = selected;
+
+  const open = useCallback(
+    async (source: TableSource) => {
+      const label = source.kind === 'demo' ? 'Preparing the invented demo survey' : `Reading ${source.file.name}`;
+      let opened: OpenedTable;
+      try {
+        opened = await run(label, (onProgress) => client.start('open', { slot: 'work', source, draft: true }, { onProgress }));
+      } catch (error) {
+        if (!(error instanceof Cancelled)) notify(errorNotice(error, source.kind === 'file' ? `Could not open ${source.file.name}` : 'Could not prepare the demo'));
+        return;
+      }
+      if (opened.draft === null) return;
+      const replay = loadDecisions(store, opened.fingerprint);
+      setTable(opened);
+      setShown(null);
+      setLastFile(source.kind === 'file' ? source.file : null);
+      dispatch({ type: 'start', recipe: opened.draft, profiles: opened.profiles, replay });
+      const keep = selectedRef.current !== null && opened.names.includes(selectedRef.current);
+      setSelected(keep ? selectedRef.current : (opened.names[0] ?? null));
+      if (replay.length > 0) {
+        const draft = opened.draft;
+        const { fingerprint, profiles } = opened;
+        notify({
+          tone: 'info',
+          title: `Restored ${replay.length} ${replay.length === 1 ? 'decision' : 'decisions'} saved for this file`,
+          detail: 'They were kept in this browser when you last worked on the same file.',
+          action: {
+            label: 'Start from the proposal',
+            run: () => {
+              forgetDecisions(store, fingerprint);
+              dispatch({ type: 'start', recipe: draft, profiles });
+            },
+          },
+        });
+      }
+      if (opened.rowIssueCount > 0) {
+        const first = opened.rowIssues[0];
+        notify({
+          tone: 'warning',
+          title: `${opened.rowIssueCount} ${opened.rowIssueCount === 1 ? 'row has' : 'rows have'} the wrong number of fields`,
+          detail: first ? `First at line ${first.line}: expected ${first.expected} fields, found ${first.found}. Short rows are padded with empty (missing) cells; extra cells are kept aside, not encoded.` : undefined,
+          hint: 'Check the file’s quoting around those lines if the columns look shifted.',
+        });
+      }
+    },
+    [client, notify, run, store],
+  );
+
+  const openFile = useCallback((file: File, sheet?: string) => open({ kind: 'file', file, sheet: sheet ?? null }), [open]);
+  const openDemo = useCallback(() => open({ kind: 'demo', rows: DEMO_ROW_COUNT }), [open]);
+
+  // ---- the recipe: history, persistence, and the worker's copy ---------------------------------
+
+  const recipe = history.present?.recipe ?? null;
+  const decideNow = useCallback((decision: Decision) => dispatch({ type: 'decide', decision }), []);
+  const undo = useCallback(() => dispatch({ type: 'undo' }), []);
+  const redo = useCallback(() => dispatch({ type: 'redo' }), []);
+
+  useEffect(() => {
+    if (table && history.present) saveDecisions(store, table.fingerprint, history.present.decisions);
+  }, [store, table, history.present]);
+
+  useEffect(() => {
+    if (history.refused) notify({ tone: 'warning', title: 'That change was not made', detail: history.refused });
+  }, [history.refused, notify]);
+
+  useEffect(() => {
+    if (history.skipped.length === 0) return;
+    notify({
+      tone: 'warning',
+      title: `${history.skipped.length} saved ${history.skipped.length === 1 ? 'decision' : 'decisions'} no longer applied`,
+      detail: history.skipped.map((s) => `${s.label}: ${s.reason}`).join(' · '),
+    });
+  }, [history.skipped, notify]);
+
+  useEffect(() => {
+    if (table === null || recipe === null) return;
+    let current = true;
+    const revision = history.revision;
+    client.call('use-recipe', { slot: 'work', version: table.version, revision, recipe }).then(
+      (inUse) => current && setShown({ ...inUse, recipe }),
+      (error: unknown) => current && !(error instanceof Cancelled) && notify(errorNotice(error, 'The preview could not be updated')),
+    );
+    return () => {
+      current = false;
+    };
+  }, [client, table, recipe, history.revision, notify]);
+
+  // ---- a full pass: what the recipe does to every row ------------------------------------------
+
+  const [report, setReport] = useState<ApplyReport | null>(null);
+
+  return {
+    client,
+    table,
+    history,
+    recipe,
+    shown,
+    selected,
+    setSelected,
+    notices,
+    notify,
+    dismiss,
+    task,
+    run,
+    lastFile,
+    openFile,
+    openDemo,
+    decide: decideNow,
+    undo,
+    redo,
+    report,
+    setReport,
+  };
+}
+
+export type Workbench = ReturnType<typeof useWorkbench>;

@@ -1,0 +1,144 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { ColumnBuilder, TableBuilder, numberValue, printsBack } from '../../src/core/columns-builder.ts';
+import { cellText, type Column, type NumberColumn, type TextColumn } from '../../src/core/columns.ts';
+
+function build(cells: readonly string[], cap?: number): Column {
+  const builder = new ColumnBuilder('x', cap);
+  for (const cell of cells) builder.push(cell);
+  return builder.build();
+}
+
+function textsOf(column: Column): string[] {
+  return Array.from({ length: column.length }, (_, row) => cellText(column, row));
+}
+
+describe('dictionary storage', () => {
+  it('stores codes, distinct values in order of first appearance, and counts', () => {
+    const column = build(['red', 'blue', 'red', '', 'red', 'blue']) as TextColumn;
+    expect(column.kind).toBe('text');
+    expect(column.length).toBe(6);
+    expect(column.values).toEqual(['red', 'blue', '']);
+    expect(column.counts).toEqual([3, 2, 1]);
+    expect(Array.from(column.codes.subarray(0, 6))).toEqual([0, 1, 0, 2, 0, 1]);
+  });
+
+  it('keeps text untrimmed: " a", "a" and "a " are three values', () => {
+    expect((build([' a', 'a', 'a ']) as TextColumn).values).toEqual([' a', 'a', 'a ']);
+  });
+
+  it('stays a dictionary past the cap when any distinct value is not a number', () => {
+    const cells = ['n/a', ...Array.from({ length: 20 }, (_, i) => String(i))];
+    const column = build(cells, 4);
+    expect(column.kind).toBe('text');
+    expect(textsOf(column)).toEqual(cells);
+  });
+
+  it('grows past its first capacity', () => {
+    const cells = Array.from({ length: 5000 }, (_, i) => `k${i % 7}`);
+    expect(textsOf(build(cells))).toEqual(cells);
+  });
+});
+
+describe('switching to number storage', () => {
+  const before = ['1', '2.5', '', '-3', '4', '5'];
+  const after = ['6', '1.50', 'n/a', '', ' 7', '-0', '1e3', '007', '0.1', '12345678901234567'];
+  const column = build([...before, ...after], 4) as NumberColumn;
+
+  it('happens when distinct values exceed the cap and all are numbers or empty', () => {
+    expect(column.kind).toBe('number');
+    expect(column.length).toBe(16);
+  });
+
+  it('keeps cellText exact for every cell, before and after the switch', () => {
+    expect(textsOf(column)).toEqual([...before, ...after]);
+  });
+
+  it('holds the numbers, NaN for empty and non-number text', () => {
+    expect(Array.from(column.values.subarray(0, 16))).toEqual([
+      1, 2.5, NaN, -3, 4, 5, 6, 1.5, NaN, NaN, NaN, -0, 1000, 7, 0.1, 12345678901234568,
+    ]);
+  });
+
+  it('keeps the text only of cells String(value) does not give back', () => {
+    expect([...column.exceptions.entries()].sort((a, b) => a[0] - b[0])).toEqual([
+      [7, '1.50'],
+      [8, 'n/a'],
+      [10, ' 7'],
+      [11, '-0'],
+      [12, '1e3'],
+      [13, '007'],
+      [15, '12345678901234567'],
+    ]);
+  });
+
+  it('with the default cap, 5000 distinct prices with two fixed decimals become numbers', () => {
+    const cells = Array.from({ length: 5000 }, (_, i) => (i / 4).toFixed(2));
+    const prices = build(cells) as NumberColumn;
+    expect(prices.kind).toBe('number');
+    expect(textsOf(prices)).toEqual(cells);
+    // Of i/4 for i < 5000, those ending in .00 and .50 keep their text: i % 2 === 0.
+    expect(prices.exceptions.size).toBe(2500);
+  });
+});
+
+describe('numberValue and printsBack', () => {
+  it('printsBack(t) holds exactly when String(Number(t)) === t for a finite number (or t is empty)', () => {
+    const numberish = fc.string({ unit: fc.constantFrom('0', '1', '9', '.', '-', '+', 'e', 'E', ' ', 'x'), maxLength: 12 });
+    fc.assert(
+      fc.property(fc.oneof(numberish, fc.string()), (text) => {
+        const value = Number(text);
+        const reference = text === '' || (Number.isFinite(value) && String(value) === text);
+        expect(printsBack(text)).toBe(reference);
+      }),
+      { numRuns: 5000 },
+    );
+  });
+
+  it('any finite double printed by String() reads back as itself', () => {
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), (x) => {
+        const text = String(x);
+        expect(numberValue(text)).toBe(Number(text));
+        expect(printsBack(text)).toBe(true);
+      }),
+      { numRuns: 5000 },
+    );
+  });
+
+  it('decimal text of up to 17 digits reads as Number(text) (exact fast path)', () => {
+    const decimal = fc
+      .tuple(fc.boolean(), fc.stringMatching(/^[0-9]{1,9}$/), fc.option(fc.stringMatching(/^[0-9]{1,8}$/)))
+      .map(([negative, int, frac]) => `${negative ? '-' : ''}${int}${frac === null ? '' : `.${frac}`}`);
+    fc.assert(
+      fc.property(decimal, (text) => {
+        expect(numberValue(text)).toBe(Number(text));
+      }),
+      { numRuns: 5000 },
+    );
+  });
+});
+
+describe('TableBuilder', () => {
+  it('pads short rows with empty cells and keeps extra cells, reporting both with lines', () => {
+    const builder = new TableBuilder(['a', 'b', 'c'], { firstRowIndex: 10 });
+    builder.addRow(['1', '2', '3'], 2);
+    builder.addRow(['4'], 3);
+    builder.addRow(['5', '6', '7', '8', '9'], 5);
+    builder.addRow(['x', 'y'], 6, true);
+    const table = builder.build();
+    expect(table.rowCount).toBe(4);
+    expect(Array.from(table.lineOfRow)).toEqual([2, 3, 5, 6]);
+    expect(table.columns.map(textsOf)).toEqual([
+      ['1', '4', '5', 'x'],
+      ['2', '', '6', 'y'],
+      ['3', '', '7', ''],
+    ]);
+    expect(table.rowIssues).toEqual([
+      { line: 3, row: 11, kind: 'too-few-fields', expected: 3, found: 1 },
+      { line: 5, row: 12, kind: 'too-many-fields', expected: 3, found: 5, extra: ['8', '9'] },
+      { line: 6, row: 13, kind: 'too-few-fields', expected: 3, found: 2 },
+      { line: 6, row: 13, kind: 'unclosed-quote', expected: 3, found: 2 },
+    ]);
+  });
+});

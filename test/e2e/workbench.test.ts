@@ -1,0 +1,351 @@
+/**
+ * The workbench in real Chromium, against the production build served by `vite preview`: the demo,
+ * opening CSV and XLSX files, deciding about columns (keyboard reordering included), the preview,
+ * the three take-aways, re-using a recipe on a second file, decisions surviving a reload, cancelling
+ * a long read — while every network request is recorded and none may leave localhost.
+ *
+ * Expected numbers are worked out by hand in the comments beside them from the invented files below.
+ */
+import { readFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser, BrowserContext, Download, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { browserAvailable, launchChromium } from './helpers/browser.ts';
+import { RESULTS, buildAndServe, type ServedApp } from './helpers/server.ts';
+import { buildXlsx } from './helpers/xlsx.ts';
+
+/** An invented ticket list: identifiers, a nominal colour, an unordered-looking priority, amounts with one gap. */
+const TICKETS_CSV =
+  'ticket,colour,priority,amount\n' +
+  'T-01,red,later,10\n' +
+  'T-02,blue,soon,20.5\n' +
+  'T-03,red,now,\n' +
+  'T-04,green,soon,40\n' +
+  'T-05,red,later,50\n' +
+  'T-06,blue,now,12\n';
+
+/** A second invented file for the same recipe: an unseen colour (twice), one never seen, a stray text amount, no priority, an extra column. */
+const SECOND_CSV = 'ticket,colour,amount,region\nU-01,red,5,north\nU-02,purple,7,south\nU-03,purple,x,north\nU-04,teal,,east\n';
+
+const available = browserAvailable();
+
+describe.skipIf(!available)('the workbench in Chromium', () => {
+  let app: ServedApp;
+  let browser: Browser;
+  let context: BrowserContext;
+  let page: Page;
+  const requests: string[] = [];
+  const cspByUrl = new Map<string, string | undefined>();
+  const pageErrors: string[] = [];
+
+  beforeAll(async () => {
+    mkdirSync(RESULTS, { recursive: true });
+    app = await buildAndServe('e2e-workbench-dist');
+    browser = await launchChromium();
+    context = await browser.newContext({ viewport: { width: 1280, height: 800 }, acceptDownloads: true });
+    context.on('request', (request) => requests.push(request.url()));
+    context.on('response', (response) => cspByUrl.set(response.url(), response.headers()['content-security-policy']));
+    page = await context.newPage();
+    page.on('pageerror', (error) => pageErrors.push(error.message));
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await app?.close();
+  });
+
+  async function shot(name: string): Promise<void> {
+    await page.screenshot({ path: join(RESULTS, `e2e-${name}.png`) });
+  }
+
+  /** Drops a text file on the page as a person dragging it from their desktop would. */
+  async function dropFile(name: string, text: string): Promise<void> {
+    await page.evaluate(
+      ({ name, text }) => {
+        const transfer = new DataTransfer();
+        transfer.items.add(new File([text], name, { type: 'text/csv' }));
+        for (const type of ['dragenter', 'dragover', 'drop']) {
+          window.dispatchEvent(new DragEvent(type, { dataTransfer: transfer, bubbles: true, cancelable: true }));
+        }
+      },
+      { name, text },
+    );
+  }
+
+  async function waitForFile(name: string, rows: number): Promise<void> {
+    const summary = page.getByTestId('file-summary');
+    await expect.poll(() => summary.textContent(), { timeout: 30_000 }).toContain(name);
+    await expect.poll(() => summary.textContent(), { timeout: 30_000 }).toContain(`${rows.toLocaleString('en-GB')} rows`);
+    await page.getByTestId('output-shape').waitFor();
+  }
+
+  /** Output column names in the preview's header, in order. */
+  async function outputHeaders(): Promise<string[]> {
+    return page.locator('.grid-leaf[data-output]').evaluateAll((cells) => cells.map((c) => c.getAttribute('data-output') ?? ''));
+  }
+
+  /** The text of one preview cell: data row `row` (0-based) under output column `output`. */
+  async function previewCell(row: number, output: string): Promise<string> {
+    const header = page.locator(`.grid-leaf[data-output="${output}"]`);
+    await header.waitFor();
+    const column = await header.getAttribute('aria-colindex');
+    const cell = page.locator(`[role="row"][aria-rowindex="${row + 3}"] [role="gridcell"][aria-colindex="${column}"]`);
+    await expect.poll(() => cell.evaluate((c) => (c.classList.contains('is-pending') ? null : c.textContent))).not.toBeNull();
+    return (await cell.textContent()) ?? '';
+  }
+
+  async function chooseColumn(name: string): Promise<void> {
+    await page.getByRole('option', { name: new RegExp(`^${name}\\b`) }).click();
+    await expect(page.locator('.lw-editor__title')).toHaveText(name);
+  }
+
+  async function downloadText(click: () => Promise<void>): Promise<{ name: string; text: string; download: Download }> {
+    const [download] = await Promise.all([page.waitForEvent('download'), click()]);
+    const path = await download.path();
+    return { name: download.suggestedFilename(), text: readFileSync(path, 'utf8'), download };
+  }
+
+  it('opens with the invented demo survey, labelled as invented', async () => {
+    const response = await page.goto(app.url);
+    expect(response?.status()).toBe(200);
+    await waitForFile('household-energy-survey (invented).csv', 2000);
+    await expect.poll(() => page.getByTestId('file-summary').textContent()).toContain('Invented demo');
+    // The first row of the demo is HH-000001 on line 2 (the header is line 1).
+    expect(await previewCell(0, 'household_id')).toBe('HH-000001');
+    await shot('01-demo');
+  });
+
+  it('sends the content security policy with the page and with the worker script', async () => {
+    const pageCsp = cspByUrl.get(app.url);
+    expect(pageCsp).toContain("connect-src 'none'");
+    expect(pageCsp).toContain("worker-src 'self' blob:");
+    const workerUrl = requests.find((url) => /workbench\.worker.*\.js$/.test(url));
+    expect(workerUrl).toBeDefined();
+    expect(cspByUrl.get(workerUrl!)).toContain("connect-src 'none'");
+    // The <meta> copy in index.html is there for static hosts.
+    expect(await page.locator('meta[http-equiv="Content-Security-Policy"]').getAttribute('content')).toContain("connect-src 'none'");
+  });
+
+  it('scrolls through every row of the demo: the last line is reachable and encoded', async () => {
+    const grid = page.getByRole('grid', { name: 'Encoded output preview' });
+    await grid.evaluate((el) => el.scrollTo({ top: el.scrollHeight }));
+    // 2000 data rows: the last starts on line 2001.
+    const last = page.locator('[role="row"][aria-rowindex="2002"] [role="rowheader"]');
+    await expect.poll(() => last.textContent(), { timeout: 15_000 }).toContain('2001');
+    // Only a window of rows exists in the page, not all 2000.
+    expect(await page.locator('.grid-row').count()).toBeLessThan(80);
+    await grid.evaluate((el) => el.scrollTo({ top: 0 }));
+  });
+
+  it('opens a dropped CSV file and drafts a recipe for it', async () => {
+    await dropFile('tickets.csv', TICKETS_CSV);
+    await waitForFile('tickets.csv', 6);
+    await expect.poll(() => page.getByTestId('file-summary').textContent()).toContain('comma-separated');
+    expect(await outputHeaders()).toContain('colour=red');
+    await shot('02-dropped-csv');
+  });
+
+  it('keeps identifiers as text and reads amounts as numbers', async () => {
+    await chooseColumn('ticket');
+    await page.getByRole('radio', { name: 'identifier (kept as is)', exact: true }).check();
+    await chooseColumn('amount');
+    await page.getByRole('radio', { name: 'continuous', exact: true }).check();
+    await expect.poll(outputHeaders).toEqual([
+      'ticket',
+      'colour=red',
+      'colour=blue',
+      'colour=green',
+      'priority=later',
+      'priority=soon',
+      'priority=now',
+      'amount',
+      'amount (missing)',
+    ]);
+    // T-03 has no amount: filled with the mean of 10, 20.5, 40, 50, 12 = 132.5 / 5 = 26.5, and flagged.
+    expect(await previewCell(2, 'amount')).toBe('26.5');
+    expect(await previewCell(2, 'amount (missing)')).toBe('1');
+    expect(await previewCell(0, 'ticket')).toBe('T-01');
+  });
+
+  it('changes a nominal column to dummy coding with a chosen reference level, and the preview follows', async () => {
+    await chooseColumn('colour');
+    await page.getByRole('radio', { name: 'dummy', exact: true }).check();
+    await page.getByLabel('Reference level').selectOption('blue');
+    // Levels by count: red 3, blue 2, green 1; dummy coding drops the reference "blue".
+    await expect.poll(outputHeaders).toContain('colour=green');
+    const headers = await outputHeaders();
+    expect(headers.filter((h) => h.startsWith('colour'))).toEqual(['colour=red', 'colour=green']);
+    expect(await previewCell(0, 'colour=red')).toBe('1'); // T-01 red
+    expect(await previewCell(1, 'colour=red')).toBe('0'); // T-02 blue: the reference, all zeros
+    expect(await previewCell(1, 'colour=green')).toBe('0');
+    expect(await previewCell(3, 'colour=green')).toBe('1'); // T-04 green
+    await shot('03-dummy-coding');
+  });
+
+  it('undoes and redoes with the keyboard', async () => {
+    await page.locator('body').press('Control+z');
+    await expect.poll(async () => (await outputHeaders()).filter((h) => h.startsWith('colour'))).toEqual(['colour=blue', 'colour=green']);
+    await page.locator('body').press('Control+Shift+z');
+    await expect.poll(async () => (await outputHeaders()).filter((h) => h.startsWith('colour'))).toEqual(['colour=red', 'colour=green']);
+  });
+
+  it('makes a column ordinal and reorders its levels with the keyboard alone', async () => {
+    await chooseColumn('priority');
+    await page.getByRole('radio', { name: 'ordinal', exact: true }).check();
+    // Levels in order of count, ties first-seen first: later, soon, now → ranks 1, 2, 3.
+    await expect.poll(outputHeaders).toContain('priority');
+    expect(await previewCell(2, 'priority')).toBe('3'); // T-03 now
+    const liveRegion = page.locator('[id^="DndLiveRegion"]');
+    const handle = page.getByRole('button', { name: /^Move “now”/ });
+    await handle.focus();
+    await page.keyboard.press('Space');
+    await expect.poll(() => liveRegion.textContent()).toContain('Lifted “now”');
+    await page.keyboard.press('ArrowUp');
+    await expect.poll(() => liveRegion.textContent()).toContain('over place 2');
+    await page.keyboard.press('ArrowUp');
+    await expect.poll(() => liveRegion.textContent()).toContain('over place 1');
+    await page.keyboard.press('Space');
+    await expect.poll(() => liveRegion.textContent()).toContain('put down at place 1');
+    // New order now < later < soon: T-03 (now) = 1, T-01 (later) = 2, T-02 (soon) = 3.
+    await expect.poll(() => previewCell(2, 'priority')).toBe('1');
+    expect(await previewCell(0, 'priority')).toBe('2');
+    expect(await previewCell(1, 'priority')).toBe('3');
+    await shot('04-ordinal-reordered');
+  });
+
+  it('shows the original values beside the outputs on demand', async () => {
+    await page.getByLabel('Show original values').check();
+    await expect.poll(() => page.locator('.grid-leaf.kind-original').count()).toBe(4);
+    const originals = page.locator('[role="row"][aria-rowindex="3"] .grid-cell.kind-original');
+    await expect.poll(() => originals.allTextContents()).toEqual(['T-01', 'red', 'later', '10']);
+    await shot('05-originals');
+    await page.getByLabel('Show original values').uncheck();
+  });
+
+  let recipeText = '';
+
+  it('takes away the encoded CSV, the recipe and the codebook', async () => {
+    const csv = await downloadText(() => page.getByRole('button', { name: 'Encoded CSV' }).click());
+    expect(csv.name).toBe('tickets — encoded.csv');
+    // RFC 4180: CRLF line ends. Values worked out above: dummy colour (reference blue), ranks now < later < soon,
+    // amount with the mean 26.5 filled in for T-03 and flagged.
+    expect(csv.text).toBe(
+      'ticket,colour=red,colour=green,priority,amount,amount (missing)\r\n' +
+        'T-01,1,0,2,10,0\r\n' +
+        'T-02,0,0,3,20.5,0\r\n' +
+        'T-03,1,0,1,26.5,1\r\n' +
+        'T-04,0,1,3,40,0\r\n' +
+        'T-05,1,0,2,50,0\r\n' +
+        'T-06,0,0,1,12,0\r\n',
+    );
+
+    const recipe = await downloadText(() => page.getByRole('button', { name: 'Recipe', exact: true }).click());
+    expect(recipe.name).toBe('tickets.recipe.json');
+    recipeText = recipe.text;
+    const parsed = JSON.parse(recipe.text) as { kind: string; source: { file: string; rows: number }; columns: { name: string; level: string; coding?: string; reference?: string; levels?: { value: string }[] }[] };
+    expect(parsed.kind).toBe('levelwise.recipe');
+    expect(parsed.source).toMatchObject({ file: 'tickets.csv', rows: 6 });
+    expect(parsed.columns.map((c) => c.level)).toEqual(['identifier', 'nominal', 'ordinal', 'continuous']);
+    expect(parsed.columns[1]).toMatchObject({ coding: 'dummy', reference: 'blue' });
+    expect(parsed.columns[2]?.levels?.map((l) => l.value)).toEqual(['now', 'later', 'soon']);
+
+    const markdown = await downloadText(() => page.getByRole('button', { name: 'Codebook', exact: true }).click());
+    expect(markdown.name).toBe('tickets — codebook.md');
+    expect(markdown.text).toContain('colour=green');
+    expect(markdown.text).toContain('amount (missing)');
+
+    await page.getByLabel('Codebook format').selectOption('html');
+    const html = await downloadText(() => page.getByRole('button', { name: 'Codebook', exact: true }).click());
+    expect(html.name).toBe('tickets — codebook.html');
+    expect(html.text).toMatch(/<table/i);
+    expect(html.text).toContain('colour=red');
+    await shot('06-after-downloads');
+  });
+
+  it('re-applies the saved recipe to a second file and reports everything it met', async () => {
+    await page.getByRole('button', { name: 'Re-use a recipe…' }).click();
+    const dialog = page.getByRole('dialog', { name: 'Re-use a recipe on a new file' });
+    await dialog.waitFor();
+    await page.getByTestId('reuse-recipe-input').setInputFiles({ name: 'tickets.recipe.json', mimeType: 'application/json', buffer: Buffer.from(recipeText) });
+    await expect.poll(() => page.getByTestId('reuse-recipe-summary').textContent()).toContain('“tickets.csv” (6 rows)');
+    await page.getByTestId('reuse-data-input').setInputFiles({ name: 'second.csv', mimeType: 'text/csv', buffer: Buffer.from(SECOND_CSV) });
+    const report = page.getByTestId('reuse-report');
+    await report.waitFor({ timeout: 30_000 });
+    const text = (await report.textContent()) ?? '';
+    expect(text).toContain('Columns the file lacks');
+    expect(text).toContain('priority');
+    expect(text).toContain('“region”');
+    // purple on lines 3 and 4, teal on line 5 (line 1 is the header).
+    const colour = report.locator('[data-column="colour"]');
+    await expect.poll(() => colour.locator('tbody tr').allTextContents()).toEqual(['purple2lines 3, 4', 'teal1line 5']);
+    const amount = report.locator('[data-column="amount"]');
+    expect(await amount.textContent()).toContain('line 4');
+    expect(await amount.textContent()).toContain('26.5');
+    await dialog.screenshot({ path: join(RESULTS, 'e2e-07-reuse-report.png') });
+
+    const encoded = await downloadText(() => page.getByRole('button', { name: 'Download the encoded CSV of this file' }).click());
+    expect(encoded.name).toBe('second — encoded.csv');
+    // Unseen colours → all zeros; no priority column → missing → zeros policy → 0; "x" and "" → mean 26.5, flagged.
+    expect(encoded.text).toBe(
+      'ticket,colour=red,colour=green,priority,amount,amount (missing)\r\n' +
+        'U-01,1,0,0,5,0\r\n' +
+        'U-02,0,0,0,7,0\r\n' +
+        'U-03,0,0,0,26.5,1\r\n' +
+        'U-04,0,0,0,26.5,1\r\n',
+    );
+    await page.keyboard.press('Escape');
+    await expect.poll(() => dialog.isVisible()).toBe(false);
+  });
+
+  it('reads the first sheet of an XLSX workbook, and another sheet on request', async () => {
+    const xlsx = buildXlsx([
+      { name: 'Plots', rows: [['plot', 'soil', 'yield_t'], ['P1', 'clay', 4.2], ['P2', 'sand', 3.1], ['P3', 'clay', null]] },
+      { name: 'Visits', rows: [['visit', 'plot'], ['V1', 'P1'], ['V2', 'P3']] },
+    ]);
+    await page.getByTestId('open-file-input').setInputFiles({ name: 'plots.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: Buffer.from(xlsx) });
+    await waitForFile('plots.xlsx', 3);
+    await expect.poll(() => page.getByTestId('file-summary').textContent()).toContain('sheet “Plots”');
+    expect(await outputHeaders()).toContain('soil=clay');
+    await shot('08-xlsx');
+    await page.getByLabel('Sheet').selectOption('Visits');
+    await expect.poll(() => page.getByTestId('file-summary').textContent(), { timeout: 30_000 }).toContain('sheet “Visits”');
+    await waitForFile('plots.xlsx', 2);
+  });
+
+  it('restores the decisions made on a file when it is opened again after a reload', async () => {
+    await page.reload();
+    await waitForFile('household-energy-survey (invented).csv', 2000);
+    await dropFile('tickets.csv', TICKETS_CSV);
+    await waitForFile('tickets.csv', 6);
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'Restored' }).first().textContent()).toContain('Restored 6 decisions');
+    await expect.poll(async () => (await outputHeaders()).filter((h) => h.startsWith('colour'))).toEqual(['colour=red', 'colour=green']);
+    expect(await previewCell(2, 'priority')).toBe('1');
+    await shot('09-restored');
+  });
+
+  it('shows progress while reading a large file and stops when cancelled', async () => {
+    // About 120 MB of invented rows, made in the page; reading and profiling it takes long enough to cancel.
+    await page.evaluate(() => {
+      const line = 'R-000001,red,soon,12.5,some words here to make the line longer\n';
+      const text = 'ticket,colour,priority,amount,note\n' + line.repeat(1_900_000);
+      const transfer = new DataTransfer();
+      transfer.items.add(new File([text], 'large.csv', { type: 'text/csv' }));
+      for (const type of ['dragenter', 'dragover', 'drop']) window.dispatchEvent(new DragEvent(type, { dataTransfer: transfer, bubbles: true, cancelable: true }));
+    });
+    const bar = page.getByRole('progressbar', { name: 'Reading large.csv' });
+    await bar.waitFor({ timeout: 15_000 });
+    await shot('10-progress');
+    await page.getByRole('button', { name: 'Cancel' }).click();
+    await expect.poll(() => bar.count()).toBe(0);
+    // The file that was open stays open.
+    expect(await page.getByTestId('file-summary').textContent()).toContain('tickets.csv');
+  });
+
+  it('raised no script errors and sent nothing beyond localhost', () => {
+    expect(pageErrors).toEqual([]);
+    const outside = requests.filter((url) => !url.startsWith(app.url) && !url.startsWith('blob:') && !url.startsWith('data:'));
+    expect(outside).toEqual([]);
+    expect(requests.length).toBeGreaterThan(3);
+  });
+});
