@@ -22,15 +22,19 @@ export const CHUNK_BYTES = 1 << 20;
 /** Rows per batch on the command line's streamed path. */
 export const APPLY_BATCH_ROWS = 65_536;
 
-/** papaparse alone: records counted, nothing kept, no typing, no header objects. */
-export function parseWithPapa(text: string): { records: number } {
+/**
+ * papaparse alone: records counted, nothing kept, no typing, no header objects. `dataRows` leaves
+ * out the header and the empty record papaparse reports after a final line break.
+ */
+export function parseWithPapa(text: string): { records: number; dataRows: number } {
   let records = 0;
   Papa.parse<string[]>(text, {
     step: () => {
       records++;
     },
   });
-  return { records };
+  const trailingEmpty = text.endsWith('\n') || text.endsWith('\r') ? 1 : 0;
+  return { records, dataRows: Math.max(0, records - 1 - trailingEmpty) };
 }
 
 export interface ProfileRun {
@@ -87,10 +91,10 @@ export interface ApplyRun {
  * The command line's streamed path, in process: file slices → batches of rows → encoded batch →
  * CSV bytes to `sink`, with the re-use report. No batch outlives its turn, so memory stays flat.
  */
-export function applyFromFile(path: string, recipe: Recipe, sink: (bytes: Uint8Array) => void): ApplyRun {
+export function applyFromFile(path: string, recipe: Recipe, sink: (bytes: Uint8Array) => void, batchRows = APPLY_BATCH_ROWS): ApplyRun {
   let session: ReturnType<typeof startWriting> | null = null;
   const reader = createTableReader({
-    batchRows: APPLY_BATCH_ROWS,
+    batchRows,
     onBatch: (batch) => {
       session ??= startWriting(recipe, batch, sink);
       session.writer.writeBatch(encodeBatch(session.plan, batch, 0, batch.rowCount, session.report));

@@ -112,7 +112,6 @@ export function printsBack(text: string): boolean {
 }
 
 const ZERO = 0x30;
-const NINE = 0x39;
 const MINUS = 0x2d;
 const PLUS = 0x2b;
 const DOT = 0x2e;
@@ -130,27 +129,24 @@ class NumberScanner {
   value = NaN;
   /** Whether String(value) === text (or text is '' and value NaN): cellText needs no copy of the text. */
   printsBack = false;
+  private mantissa = 0;
 
   read(text: string): void {
     const n = text.length;
     const negative = n > 0 && text.charCodeAt(0) === MINUS;
-    let i = negative ? 1 : 0;
-    const intStart = i;
-    let mantissa = 0;
-    for (let c = text.charCodeAt(i); c >= ZERO && c <= NINE; c = text.charCodeAt(++i)) mantissa = mantissa * 10 + (c - ZERO);
-    const intDigits = i - intStart;
-    let fracDigits = 0;
-    const hasDot = text.charCodeAt(i) === DOT;
-    if (hasDot) {
-      for (let c = text.charCodeAt(++i); c >= ZERO && c <= NINE; c = text.charCodeAt(++i)) mantissa = mantissa * 10 + (c - ZERO);
-      fracDigits = i - intStart - intDigits - 1;
-    }
+    const intStart = negative ? 1 : 0;
+    this.mantissa = 0;
+    const intEnd = this.readDigits(text, intStart);
+    const hasDot = intEnd < n && text.charCodeAt(intEnd) === DOT;
+    const end = hasDot ? this.readDigits(text, intEnd + 1) : intEnd;
+    const intDigits = intEnd - intStart;
+    const fracDigits = hasDot ? end - intEnd - 1 : 0;
     if (intDigits + fracDigits === 0) return this.notANumber(n === 0);
-    if (i < n) return this.readExponentForm(text, i);
+    if (end < n) return this.readExponentForm(text, end);
     // Up to 15 digits the mantissa is an exact integer and one division by an exact power of ten
     // rounds correctly, so this equals Number(text) (the classic fast path, Clinger 1990).
     if (intDigits + fracDigits > 15) this.value = +text;
-    else this.value = negative ? -mantissa / POWERS_OF_TEN[fracDigits]! : mantissa / POWERS_OF_TEN[fracDigits]!;
+    else this.value = (negative ? -this.mantissa : this.mantissa) / POWERS_OF_TEN[fracDigits]!;
     const plainInteger = intDigits === 1 || (intDigits > 1 && text.charCodeAt(intStart) !== ZERO);
     const plainFraction = !hasDot || (fracDigits > 0 && text.charCodeAt(n - 1) !== ZERO);
     // String() never writes leading zeros, trailing fraction zeros or a bare dot; within 15
@@ -160,14 +156,26 @@ class NumberScanner {
     else this.printsBack = this.value === 0 ? text === '0' : Math.abs(this.value) >= 1e-6;
   }
 
+  /** Adds the digits from `from` on to `mantissa`; returns where they stop. */
+  private readDigits(text: string, from: number): number {
+    let mantissa = this.mantissa;
+    let i = from;
+    while (i < text.length) {
+      const digit = text.charCodeAt(i) - ZERO;
+      if (digit < 0 || digit > 9) break;
+      mantissa = mantissa * 10 + digit;
+      i++;
+    }
+    this.mantissa = mantissa;
+    return i;
+  }
+
   private readExponentForm(text: string, at: number): void {
     let i = at;
     if ((text.charCodeAt(i) | 0x20) !== 0x65) return this.notANumber(false); // e or E
     const sign = text.charCodeAt(++i);
     if (sign === MINUS || sign === PLUS) i++;
-    const digitsStart = i;
-    for (let c = text.charCodeAt(i); c >= ZERO && c <= NINE; c = text.charCodeAt(++i));
-    if (i === digitsStart || i !== text.length) return this.notANumber(false);
+    if (i === text.length || this.readDigits(text, i) !== text.length) return this.notANumber(false);
     const value = +text;
     if (!Number.isFinite(value)) return this.notANumber(false);
     this.value = value;

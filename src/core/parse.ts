@@ -3,11 +3,12 @@
  * line each record starts on. papaparse's core `Parser` does the field splitting and quote
  * handling; with `ignoreLastRow` it stops before an incomplete record, and we keep that tail for
  * the next chunk. Everything papaparse leaves to its callers or gets inconsistent is done here:
- * choosing the delimiter and line break, line numbers, CRLF mixed with LF, empty lines, the
- * trailing newline, unclosed quotes.
+ * choosing the delimiter and line break, line numbers, CRLF mixed with LF, telling empty lines
+ * apart, the trailing newline, unclosed quotes.
  *
- * Line breaks: a file with any LF is read by LF, and a CR right before an LF that ends a record
- * is dropped with it (CRLF files, and files mixing CRLF and LF); a file of lone CRs is read by CR.
+ * Line breaks: a file with any LF outside quotes is read by LF, and a CR right before an LF that
+ * ends a record is dropped with it (CRLF files, and files mixing CRLF and LF); a file of lone CRs
+ * is read by CR.
  * Line numbers count those breaks; breaks inside quoted fields count too, so a record's line is
  * the one an editor shows.
  */
@@ -26,7 +27,9 @@ export interface RecordSink {
    * One record. `fields` is papaparse's array, valid only during the call. `line` is the 1-based
    * physical line the record starts on; `unclosedQuote` says a quoted field ran to the end of the file.
    */
-  (fields: readonly string[], line: number, unclosedQuote: boolean): void;
+  record(fields: readonly string[], line: number, unclosedQuote: boolean): void;
+  /** A line with nothing on it. Whether it is skipped or is an empty cell is the table's call. */
+  emptyLine(line: number): void;
 }
 
 export interface RecordParserOptions {
@@ -49,7 +52,7 @@ interface StepResult {
 }
 
 export class RecordParser {
-  private readonly onRecord: RecordSink;
+  private readonly sink: RecordSink;
   private delimiterChoice: Delimiter | null;
   private lineBreak: LineBreak = '\n';
   private parser: Papa.Parser | null = null;
@@ -59,25 +62,19 @@ export class RecordParser {
   private parseAt = SNIFF_CHARS;
   /** Line on which `pending` starts. */
   private line = 1;
-  private emptyLines = 0;
   // State of the parse in progress, read by the step callback.
   private input = '';
   private recordStart = 0;
   private nextQuote = -1;
 
-  constructor(onRecord: RecordSink, options: RecordParserOptions = {}) {
-    this.onRecord = onRecord;
+  constructor(sink: RecordSink, options: RecordParserOptions = {}) {
+    this.sink = sink;
     this.delimiterChoice = options.delimiter ?? null;
   }
 
   /** The delimiter in use; null until enough text was seen to choose. */
   get delimiter(): Delimiter | null {
     return this.parser === null ? null : this.delimiterChoice;
-  }
-
-  /** Completely empty lines met and skipped so far. */
-  get emptyLinesSkipped(): number {
-    return this.emptyLines;
   }
 
   push(text: string): void {
@@ -121,12 +118,9 @@ export class RecordParser {
     this.recordStart = end;
     this.line += this.lineBreaksIn(start, end, quoted);
     if (fields === undefined || start === end) return; // nothing after the final line break
-    if (this.lineBreak === '\n') dropCarriageReturn(fields, this.input, end, quoted);
-    if (this.isEmptyLine(fields, start)) {
-      this.emptyLines++;
-      return;
-    }
-    this.onRecord(fields, line, result.errors.length > 0 && hasUnclosedQuote(result.errors));
+    if (this.lineBreak === '\n') dropCarriageReturn(fields, this.input, start, end, this.delimiterChoice ?? ',', quoted);
+    if (this.isEmptyLine(fields, start)) this.sink.emptyLine(line);
+    else this.sink.record(fields, line, result.errors.length > 0 && hasUnclosedQuote(result.errors));
   };
 
   /** Whether input[start, end) holds a quote; one forward-moving search over the whole input. */
@@ -151,25 +145,29 @@ export class RecordParser {
 export function parseRecords(
   text: string,
   options: RecordParserOptions = {},
-): { records: string[][]; lines: number[]; unclosedQuoteLines: number[]; delimiter: Delimiter; emptyLinesSkipped: number } {
+): { records: string[][]; lines: number[]; unclosedQuoteLines: number[]; emptyLines: number[]; delimiter: Delimiter } {
   const records: string[][] = [];
   const lines: number[] = [];
   const unclosedQuoteLines: number[] = [];
-  const parser = new RecordParser((fields, line, unclosed) => {
-    records.push([...fields]);
-    lines.push(line);
-    if (unclosed) unclosedQuoteLines.push(line);
-  }, options);
+  const emptyLines: number[] = [];
+  const sink: RecordSink = {
+    record(fields, line, unclosed) {
+      records.push([...fields]);
+      lines.push(line);
+      if (unclosed) unclosedQuoteLines.push(line);
+    },
+    emptyLine: (line) => emptyLines.push(line),
+  };
+  const parser = new RecordParser(sink, options);
   parser.push(text);
   parser.finish();
-  return { records, lines, unclosedQuoteLines, delimiter: parser.delimiter ?? ',', emptyLinesSkipped: parser.emptyLinesSkipped };
+  return { records, lines, unclosedQuoteLines, emptyLines, delimiter: parser.delimiter ?? ',' };
 }
 
-/** LF unless the text breaks lines with lone CRs (old Mac style) more often than with LFs. */
+/** LF if the text has any outside quoted fields (LF or CRLF files); CR if it has only CRs (old Mac files). */
 export function chooseLineBreak(sample: string): LineBreak {
-  const lf = countOccurrences(sample, '\n', 0, sample.length);
-  const loneCr = sample.match(/\r(?!\n)/g)?.length ?? 0;
-  return loneCr > lf ? '\r' : '\n';
+  const outsideQuotes = sample.replace(/"[^"]*"/g, '');
+  return outsideQuotes.includes('\n') || !outsideQuotes.includes('\r') ? '\n' : '\r';
 }
 
 /**
@@ -206,15 +204,23 @@ function scoreDelimiter(sample: string, delimiter: Delimiter, lineBreak: LineBre
 
 /**
  * In LF mode a CRLF ends the record, and papaparse leaves its CR on an unquoted last field. A
- * quoted last field keeps a CR written inside its quotes: there the raw text differs from the field.
+ * quoted last field keeps a CR written inside its quotes. In a record holding quotes, the last
+ * field was unquoted when the raw text before the line break is that field, not starting with a
+ * quote and right after a delimiter (or at the record's start).
  */
-function dropCarriageReturn(fields: string[], input: string, end: number, quoted: boolean): void {
+function dropCarriageReturn(fields: string[], input: string, start: number, end: number, delimiter: string, quoted: boolean): void {
   if (input.charCodeAt(end - 1) !== LF || input.charCodeAt(end - 2) !== CR) return;
   const last = fields.length - 1;
   const field = fields[last];
   if (field === undefined || field.charCodeAt(field.length - 1) !== CR) return;
-  if (quoted && input.slice(end - 1 - field.length, end - 1) !== field) return;
+  if (quoted && !isRawLastField(field, input, start, end - 1, delimiter, last === 0)) return;
   fields[last] = field.slice(0, -1);
+}
+
+function isRawLastField(field: string, input: string, recordStart: number, fieldEnd: number, delimiter: string, only: boolean): boolean {
+  const fieldStart = fieldEnd - field.length;
+  const afterDelimiter = only ? fieldStart === recordStart : input[fieldStart - 1] === delimiter;
+  return afterDelimiter && input.charCodeAt(fieldStart) !== QUOTE && input.slice(fieldStart, fieldEnd) === field;
 }
 
 function hasUnclosedQuote(errors: StepResult['errors']): boolean {

@@ -12,7 +12,7 @@ import type { HeaderIssue, Table } from './columns.ts';
 import { TableBuilder } from './columns-builder.ts';
 import { ChunkDecoder, retryAsWindows1252, type EncodingName } from './decode.ts';
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
-import { RecordParser, uniqueColumnNames, type Delimiter } from './parse.ts';
+import { RecordParser, uniqueColumnNames, type Delimiter, type RecordSink } from './parse.ts';
 
 export type { Delimiter } from './parse.ts';
 export type { EncodingName } from './decode.ts';
@@ -43,8 +43,12 @@ export interface ReadResult {
 }
 
 export interface TableReader {
+  /**
+   * Reads the next chunk. Throws a LevelwiseError: 'not-text' (binary file), 'encoding-restart'
+   * (read the source again with `encoding: 'windows-1252'`), 'bad-encoding'.
+   */
   push(bytes: Uint8Array): void;
-  /** Reads what is left and returns the result; throws a LevelwiseError for an empty or binary file. */
+  /** Reads what is left and returns the result; throws a LevelwiseError ('empty-file' and those of push). */
   finish(): ReadResult;
   /** Bytes pushed so far, for progress. */
   readonly bytesRead: number;
@@ -98,7 +102,7 @@ class StreamingTableReader implements TableReader {
   constructor(options: ReadOptions) {
     this.decoder = new ChunkDecoder(options.encoding ?? null);
     this.rows = new RowCollector(options);
-    this.parser = new RecordParser((fields, line, unclosed) => this.rows.add(fields, line, unclosed), options);
+    this.parser = new RecordParser(this.rows, options);
   }
 
   get bytesRead(): number {
@@ -120,21 +124,32 @@ class StreamingTableReader implements TableReader {
       table,
       encoding: this.decoder.encoding ?? 'utf-8',
       delimiter: this.parser.delimiter ?? ',',
-      emptyLinesSkipped: this.parser.emptyLinesSkipped,
+      emptyLinesSkipped: this.rows.emptyLinesSkipped,
       bytes: this.bytes,
       totalRows: this.rows.totalRows,
     };
   }
 }
 
-/** Takes records after the header; keeps them all, or hands them on in batches. */
-class RowCollector {
+/** A one-field record holding an empty cell; shared, as records are only read during a call. */
+const EMPTY_CELL: readonly string[] = [''];
+
+/**
+ * Takes records after the header; keeps them all, or hands them on in batches. Empty lines are
+ * skipped and counted, except inside a one-column table: there an empty line is how an empty cell
+ * is written (spreadsheet programs save one-column sheets that way), so it becomes a row unless
+ * only empty lines follow it up to the end of the file.
+ */
+class RowCollector implements RecordSink {
   private readonly options: ReadOptions;
   private readonly batchRows: number;
   private names: readonly string[] | null = null;
   private headerIssues: readonly HeaderIssue[] = [];
   private builder: TableBuilder | null = null;
   private batchStart = 0;
+  private skipped = 0;
+  /** Lines of empty lines in a one-column table, waiting to see whether a record follows. */
+  private blankLines: number[] = [];
 
   constructor(options: ReadOptions) {
     this.options = options;
@@ -148,13 +163,23 @@ class RowCollector {
     return this.batchStart + (this.builder?.rowCount ?? 0);
   }
 
-  add(fields: readonly string[], line: number, unclosedQuote: boolean): void {
+  get emptyLinesSkipped(): number {
+    return this.skipped + this.blankLines.length;
+  }
+
+  record(fields: readonly string[], line: number, unclosedQuote: boolean): void {
     if (this.builder === null) {
       this.startTable(fields);
       return;
     }
-    this.builder.addRow(fields, line, unclosedQuote);
-    if (this.builder.rowCount >= this.batchRows) this.handOver();
+    for (const blankLine of this.blankLines) this.addRow(EMPTY_CELL, blankLine, false);
+    this.blankLines = [];
+    this.addRow(fields, line, unclosedQuote);
+  }
+
+  emptyLine(line: number): void {
+    if (this.names?.length === 1) this.blankLines.push(line);
+    else this.skipped++;
   }
 
   /**
@@ -166,6 +191,12 @@ class RowCollector {
     if (this.batchRows === Infinity) return this.builder.build();
     if (this.builder.rowCount > 0 || this.batchStart === 0) this.handOver();
     return new TableBuilder(this.names ?? [], { firstRowIndex: this.batchStart, headerIssues: this.headerIssues }).build();
+  }
+
+  private addRow(fields: readonly string[], line: number, unclosedQuote: boolean): void {
+    const builder = this.builder!;
+    builder.addRow(fields, line, unclosedQuote);
+    if (builder.rowCount >= this.batchRows) this.handOver();
   }
 
   private startTable(header: readonly string[]): void {
@@ -197,17 +228,17 @@ function emptyFileError(message: string): LevelwiseError {
 }
 
 /**
- * Rows already split into cells, the first being the header; a row of only empty cells counts as
- * an empty line. Line numbers are positions in `rows` counted from 1 (the sheet's row numbers when
- * `rows` starts at the sheet's first row). `encoding` and `delimiter` are reported as 'utf-8' and ','.
+ * Rows already split into cells, the first being the header. A row with no cells at all is an
+ * empty line (see RowCollector); a row of empty cells is a record of missing values. Line numbers
+ * are positions in `rows` counted from 1 (the sheet's row numbers when `rows` starts at the sheet's
+ * first row). `encoding` and `delimiter` are reported as 'utf-8' and ','.
  */
 export function tableFromRows(rows: readonly (readonly string[])[], options: Pick<ReadOptions, 'dictionaryCap'> = {}): ReadResult {
   const collector = new RowCollector(options);
-  let emptyLines = 0;
   rows.forEach((row, index) => {
-    if (row.every((cell) => cell === '')) emptyLines++;
-    else collector.add(row, index + 1, false);
+    if (row.length === 0) collector.emptyLine(index + 1);
+    else collector.record(row, index + 1, false);
   });
   const table = collector.finish();
-  return { table, encoding: 'utf-8', delimiter: ',', emptyLinesSkipped: emptyLines, bytes: 0, totalRows: table.rowCount };
+  return { table, encoding: 'utf-8', delimiter: ',', emptyLinesSkipped: collector.emptyLinesSkipped, bytes: 0, totalRows: table.rowCount };
 }

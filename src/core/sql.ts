@@ -51,6 +51,24 @@ export const REJECTED_MISSING = -2;
 /** Level index of a row whose unseen level the policy "error" rejects. */
 export const REJECTED_UNSEEN = -3;
 
+/** PostgreSQL keeps at most this many bytes of a name (NAMEDATALEN − 1) and cuts longer ones with only a NOTICE. */
+export const POSTGRES_NAME_BYTES = 63;
+
+/**
+ * What a person should know before running the query on this engine, in sentences; also written
+ * as comments at the top of the SQL. Today: PostgreSQL cutting long output names.
+ */
+export function sqlNotes(recipe: Recipe, options: Pick<SqlOptions, 'dialect'>): string[] {
+  if (options.dialect !== 'postgres') return [];
+  const encoder = new TextEncoder();
+  const long = recipe.columns.flatMap((c) => c.outputs).filter((name) => encoder.encode(name).length > POSTGRES_NAME_BYTES);
+  if (long.length === 0) return [];
+  return [
+    `PostgreSQL cuts names to ${POSTGRES_NAME_BYTES} bytes, and ${long.length} output name(s) are longer, e.g. "${long[0]}"; ` +
+      'use the naming style "safe" or shorter level names to keep them whole.',
+  ];
+}
+
 /** True when some column of the recipe can reject a row (a policy set to "error"). */
 export function recipeCanReject(recipe: Recipe): boolean {
   return recipe.columns.some(columnCanReject);
@@ -88,7 +106,7 @@ export function compileSql(recipe: Recipe, options: SqlOptions): string {
   }
   const mode = options.rejected ?? 'flag';
   return [
-    ...headerComment(recipe, sql, rejections.length > 0, mode),
+    ...headerComment(recipe, sql, rejections.length > 0, mode, sqlNotes(recipe, options)),
     ...withClause(steps, sql, tableParts),
     ...finalSelect(outputs, rejections, steps.lastStage(), mode),
   ].join('\n');
@@ -181,7 +199,7 @@ function finalSelect(outputs: readonly OutputLine[], rejections: readonly Reject
   return select;
 }
 
-function headerComment(recipe: Recipe, sql: SqlDialect, canReject: boolean, mode: 'flag' | 'drop'): string[] {
+function headerComment(recipe: Recipe, sql: SqlDialect, canReject: boolean, mode: 'flag' | 'drop', notes: readonly string[]): string[] {
   const source = recipe.source.file === null ? 'a file' : `"${recipe.source.file}"`;
   const lines = [
     `Levelwise recipe as SQL (dialect: ${sql.name}); fitted on ${source}, ${recipe.source.rows} rows.`,
@@ -191,6 +209,7 @@ function headerComment(recipe: Recipe, sql: SqlDialect, canReject: boolean, mode
     lines.push(`Rows a policy "error" rejects have NULL outputs for that column and a reason in ${REJECTED_COLUMN};`);
     lines.push(`keep "WHERE ${REJECTED_COLUMN} IS NULL" to get the rows the command line writes.`);
   }
+  lines.push(...notes.map((note) => `Note: ${note}`));
   return lines.map((line) => `-- ${commentText(line)}`);
 }
 

@@ -3,7 +3,7 @@
  * selected column's decisions (or the output width) in the middle, and the encoded output below,
  * with the take-away buttons beside it. State and the worker live in useWorkbench.
  */
-import { useCallback, useEffect, useMemo, useState, type KeyboardEvent } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import type { ApplyReport } from '../core/apply-report.ts';
 import { forecastWidth } from '../core/width.ts';
 import { DEMO_NOTE } from '../demo/household-energy.ts';
@@ -18,6 +18,7 @@ import { TakeAway } from './files/TakeAway.tsx';
 import { TaskBar } from './files/TaskBar.tsx';
 import { useTakeAway } from './files/useTakeAway.ts';
 import { PreviewPane } from './preview/PreviewPane.tsx';
+import { Splitter } from './preview/Splitter.tsx';
 import { ReportDialog } from './reuse/ReportDialog.tsx';
 import { ReuseDialog } from './reuse/ReuseDialog.tsx';
 import { redoLabel, undoLabel } from './state/history.ts';
@@ -35,6 +36,8 @@ export function App() {
   const [tab, setTab] = useState<CentreTab>('column');
   const [shownReport, setShownReport] = useState<{ report: ApplyReport; fileName: string } | null>(null);
   const dragging = useFileDrop(openFile);
+  const [editorShare, setEditorShare] = useState(0.5);
+  const workspaceRef = useRef<HTMLElement>(null);
 
   useEffect(() => {
     void openDemo();
@@ -102,7 +105,11 @@ export function App() {
       <TaskBar task={reuseOpen ? null : wb.task} />
       {reuseOpen ? null : notices}
 
-      <main className="workspace">
+      <main
+        className="workspace"
+        ref={workspaceRef}
+        style={{ gridTemplateRows: `minmax(0, ${editorShare}fr) 10px minmax(0, ${1 - editorShare}fr)` }}
+      >
         <nav className="pane pane-columns" aria-label="Source columns">
           <h2 className="pane-title">
             Columns{table ? <span className="pane-count"> {table.names.length}</span> : null}
@@ -125,7 +132,7 @@ export function App() {
               Output width{forecast ? `: ${forecast.total.before} → ${forecast.total.after}` : ''}
             </button>
           </div>
-          <div className="pane-scroll" role="tabpanel" id={tab === 'column' ? 'panel-column' : 'panel-width'} aria-labelledby={tab === 'column' ? 'tab-column' : 'tab-width'} tabIndex={0}>
+          <div key={tab === 'column' ? `column:${selected ?? ''}` : 'width'} className="pane-scroll" role="tabpanel" id={tab === 'column' ? 'panel-column' : 'panel-width'} aria-labelledby={tab === 'column' ? 'tab-column' : 'tab-width'} tabIndex={0}>
             {tab === 'column' ? (
               profile && column ? (
                 <ColumnEditor profile={profile} column={column} onDecide={wb.decide} />
@@ -137,6 +144,8 @@ export function App() {
             ) : null}
           </div>
         </section>
+
+        <Splitter share={editorShare} onChange={setEditorShare} container={() => workspaceRef.current} />
 
         <section className="pane pane-preview" aria-label="Output">
           <PreviewPane

@@ -120,5 +120,6 @@ export class WorkbenchClient {
 /** A client over the real worker. */
 export function startWorkbenchWorker(): WorkbenchClient {
   const worker = new Worker(new URL('./workbench.worker.ts', import.meta.url), { type: 'module', name: 'levelwise' });
+  // A Worker is a WorkerPort; the DOM typings' overloaded addEventListener just does not say so.
   return new WorkbenchClient(worker as unknown as WorkerPort);
 }

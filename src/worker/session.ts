@@ -86,12 +86,13 @@ export function createSession(post: Post): Session {
       let profiles: OpenedTable['profiles'] = [];
       let draft: Recipe | null = null;
       if (request.draft) {
-        context.progress('profiling', 0, table.columns.length);
+        context.progress('profiling', 0, null);
         await breathe(context.signal);
         const missingTokens = request.missingTokens ?? DEFAULT_MISSING_TOKENS;
         profiles = profileTable(table, { missingTokens });
-        const delimiter = read.sheet === null ? read.read.delimiter : null;
-        draft = draftRecipe(profiles, { file: read.fileName, rows: table.rowCount }, { missingTokens, delimiter });
+        // The delimiter is left to detection (null) rather than pinned to this file's: a recipe made on
+        // a comma file then still reads a semicolon or tab export of the same data.
+        draft = draftRecipe(profiles, { file: read.fileName, rows: table.rowCount }, { missingTokens, delimiter: null });
       }
       if (context.signal.aborted) throw new Cancelled();
       slots.set(request.slot, { version, table, fileName: read.fileName, plan: null, revision: -1 });
@@ -171,7 +172,7 @@ export function createSession(post: Post): Session {
     const context: Context = {
       id: message.id,
       signal: controller.signal,
-      progress: (phase, done, total) => post({ type: 'progress', id: message.id, phase, done, total }),
+      progress: throttledProgress((phase, done, total) => post({ type: 'progress', id: message.id, phase, done, total })),
       chunk: (bytes) => post({ type: 'chunk', id: message.id, bytes }, [bytes.buffer]),
     };
     try {
@@ -240,6 +241,23 @@ async function encodeAll(
     await breathe(context.signal);
   }
   return report.finish();
+}
+
+/**
+ * Passes on a progress report only when it moved by at least half a percent, changed phase, or
+ * finished: a gigabyte read in 64 KB chunks would otherwise send the page 16,000 messages.
+ */
+export function throttledProgress(send: Context['progress']): Context['progress'] {
+  let lastPhase: Phase | null = null;
+  let lastStep = -1;
+  return (phase, done, total) => {
+    // Whole steps of 0.5 %, so rounding in the division cannot skip or repeat one.
+    const step = total ? Math.floor((done * 200) / total) : 0;
+    if (phase === lastPhase && total !== null && done < total && step <= lastStep) return;
+    lastPhase = phase;
+    lastStep = step;
+    send(phase, done, total);
+  };
 }
 
 /** Lets queued messages (a cancel) in, then stops the job if it was cancelled. */

@@ -42,7 +42,7 @@ describe('csv-spectrum (npm package csv-spectrum 2.0.0: RFC 4180 edge cases with
 describe('RecordParser', () => {
   it('gives the physical line each record starts on, counting breaks inside quotes', () => {
     const text = 'a,b\n"one\ntwo",x\n\n"three\r\nfour\r\nfive",y\nlast,z';
-    const { records, lines, emptyLinesSkipped } = parseRecords(text);
+    const { records, lines, emptyLines } = parseRecords(text);
     expect(records).toEqual([
       ['a', 'b'],
       ['one\ntwo', 'x'],
@@ -50,7 +50,7 @@ describe('RecordParser', () => {
       ['last', 'z'],
     ]);
     expect(lines).toEqual([1, 2, 5, 8]);
-    expect(emptyLinesSkipped).toBe(1);
+    expect(emptyLines).toEqual([4]);
   });
 
   it('reads LF, CRLF, CR and mixed CRLF/LF line breaks to the same records', () => {
@@ -63,18 +63,23 @@ describe('RecordParser', () => {
   });
 
   it('keeps a CR written inside quotes at the end of a CRLF line', () => {
-    expect(parseRecords('a,b\r\n1,"x\r"\r\n').records).toEqual([['a', 'b'], ['1', 'x\r']]);
+    expect(parseRecords('a,b\r\n1,"x\r"\r\n"\r"\r\n"2","\r"\r\n').records).toEqual([
+      ['a', 'b'],
+      ['1', 'x\r'],
+      ['\r'],
+      ['2', '\r'],
+    ]);
   });
 
   it('keeps a quote in the middle of an unquoted field as text (12" pipe)', () => {
     expect(parseRecords('item,size\r\npipe,12"\r\n').records).toEqual([['item', 'size'], ['pipe', '12"']]);
   });
 
-  it('makes no record of the trailing newline and skips blank lines, counting them', () => {
-    const result = parseRecords('\na,b\n\n1,2\n\n\n');
+  it('makes no record of the trailing newline and tells empty lines apart', () => {
+    const result = parseRecords('\na,b\n\n1,2\r\n\r\n\n');
     expect(result.records).toEqual([['a', 'b'], ['1', '2']]);
     expect(result.lines).toEqual([2, 4]);
-    expect(result.emptyLinesSkipped).toBe(4);
+    expect(result.emptyLines).toEqual([1, 3, 5, 6]);
   });
 
   it('keeps a line holding only "" (one empty field written on purpose)', () => {
@@ -92,9 +97,12 @@ describe('RecordParser', () => {
     const whole = parseRecords(text);
     const records: string[][] = [];
     const lines: number[] = [];
-    const parser = new RecordParser((fields, line) => {
-      records.push([...fields]);
-      lines.push(line);
+    const parser = new RecordParser({
+      record(fields, line) {
+        records.push([...fields]);
+        lines.push(line);
+      },
+      emptyLine: () => undefined,
     });
     for (const ch of text) parser.push(ch);
     parser.finish();
@@ -108,7 +116,7 @@ describe('RecordParser', () => {
   it('holds a record spanning many chunks and parses it once complete', () => {
     const long = 'x'.repeat(300_000);
     let seen: readonly string[] = [];
-    const collecting = new RecordParser((fields) => (seen = [...fields]));
+    const collecting = new RecordParser({ record: (fields) => (seen = [...fields]), emptyLine: () => undefined });
     const text = `a,b\n1,"${long}\n${long}"\n`;
     for (let at = 0; at < text.length; at += 10_000) collecting.push(text.slice(at, at + 10_000));
     collecting.finish();

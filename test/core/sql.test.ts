@@ -4,9 +4,15 @@
  * golden case, for the invented demo survey under two recipes, and for random cells built to hit
  * the edges (white space, quotes, number formats). The raw table is loaded as all-text columns
  * with parameterised INSERTs, so no engine type inference can change a value on the way in.
+ *
+ * PostgreSQL joins in when LEVELWISE_TEST_POSTGRES holds a psql connection string (e.g.
+ * "host=/tmp/pg port=5432 user=me dbname=scratch"); the table is then loaded with COPY into TEXT
+ * columns and the query runs through psql.
  */
 import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
+import { spawnSync } from 'node:child_process';
 import fc from 'fast-check';
+import Papa from 'papaparse';
 import initSqlJs, { type Database } from 'sql.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApplyReport } from '../../src/core/apply-report.ts';
@@ -21,7 +27,16 @@ import { readTable, tableFromRows } from '../../src/core/read-table.ts';
 import { parseRecipe } from '../../src/core/recipe-io.ts';
 import { DEFAULT_MISSING_TOKENS, type ContinuousColumn, type NumberFormat, type Recipe } from '../../src/core/recipe.ts';
 import { JS_TRIM_CODE_POINTS, dialect, quoteIdentifier } from '../../src/core/sql-dialects.ts';
-import { compileSql, numberPattern, recipeCanReject, REJECTED_COLUMN, SQL_DIALECTS } from '../../src/core/sql.ts';
+import {
+  compileSql,
+  numberPattern,
+  POSTGRES_NAME_BYTES,
+  recipeCanReject,
+  REJECTED_COLUMN,
+  SQL_DIALECTS,
+  sqlNotes,
+  type SqlDialectName,
+} from '../../src/core/sql.ts';
 import { generateHouseholdEnergyCsv } from '../../src/demo/household-energy.ts';
 import { goldenCases } from '../golden/cases.ts';
 
@@ -32,7 +47,7 @@ interface QueryResult {
 }
 
 interface Engine {
-  readonly name: 'duckdb' | 'sqlite';
+  readonly name: 'duckdb' | 'sqlite' | 'postgres';
   load(table: string, names: readonly string[], rows: readonly (readonly string[])[]): Promise<void>;
   query(sql: string): Promise<QueryResult>;
 }
@@ -40,7 +55,6 @@ interface Engine {
 const INSERT_ROWS = 100;
 
 async function duckdbEngine(): Promise<Engine & { close(): void }> {
-  // One thread: a plain scan then returns rows in insertion order, which the comparison relies on.
   const instance = await DuckDBInstance.create(':memory:', { threads: '1' });
   const connection: DuckDBConnection = await instance.connect();
   return {
@@ -92,6 +106,51 @@ async function sqliteEngine(): Promise<Engine & { close(): void }> {
   };
 }
 
+const POSTGRES = process.env['LEVELWISE_TEST_POSTGRES'] ?? '';
+/** How psql prints NULL here: a text no cell of ours holds. */
+const PSQL_NULL = '\u0001NULL';
+
+function postgresEngine(connection: string): Engine & { close(): void } {
+  const psql = (input: string): string => {
+    const run = spawnSync('psql', [connection, '-X', '-q', '--csv', '-P', `null=${PSQL_NULL}`, '-v', 'ON_ERROR_STOP=1', '-f', '-'], {
+      input,
+      encoding: 'utf8',
+      maxBuffer: 1 << 28,
+    });
+    if (run.status !== 0) throw new Error(`psql failed: ${run.stderr}`);
+    return run.stdout;
+  };
+  return {
+    name: 'postgres',
+    async load(table, names, rows) {
+      const csv = Papa.unparse(rows as string[][], { quotes: true, newline: '\n' });
+      psql(
+        `DROP TABLE IF EXISTS ${quoteIdentifier(table)};\n` +
+          `CREATE TABLE ${quoteIdentifier(table)} (${names.map((n) => `${quoteIdentifier(n)} TEXT`).join(', ')});\n` +
+          `COPY ${quoteIdentifier(table)} FROM STDIN WITH (FORMAT csv);\n${rows.length > 0 ? `${csv}\n` : ''}\\.\n`,
+      );
+    },
+    async query(sql) {
+      // Without parallel workers a plain scan returns rows in the order they were loaded.
+      const parsed = Papa.parse<string[]>(psql(`SET max_parallel_workers_per_gather = 0;\n${sql};\n`), { skipEmptyLines: true });
+      const [columns = [], ...rows] = parsed.data;
+      return { columns, rows: rows.map((row) => row.map((cell) => (cell === PSQL_NULL ? null : cell))) };
+    },
+    close() {},
+  };
+}
+
+/** A name as PostgreSQL keeps it: at most 63 bytes, cut between characters. */
+function postgresName(name: string): string {
+  const encoder = new TextEncoder();
+  let kept = '';
+  for (const ch of name) {
+    if (encoder.encode(kept + ch).length > POSTGRES_NAME_BYTES) break;
+    kept += ch;
+  }
+  return kept;
+}
+
 // -------------------------------------------------------------------------------------------------
 // The core's answer: encodeBatch with a report, numbers written by writeEncodedColumn, identifiers as text.
 
@@ -137,12 +196,45 @@ function sameNumber(expected: number, actual: number): boolean {
 
 const TABLE = 'raw "survey" data';
 
-async function compareOnEngine(engine: Engine, recipe: Recipe, table: Table): Promise<{ cells: number; exact: number }> {
+/**
+ * Engines need not return rows in the order they were loaded (PostgreSQL's COPY fills free space in
+ * earlier pages), so the table gets a row-number column and the recipe passes it through in front.
+ */
+const ROW = '__test_row';
+
+function withRowNumber(recipe: Recipe): Recipe {
+  return { ...recipe, columns: [{ name: ROW, reason: 'row number for the comparison', outputs: [ROW], level: 'identifier' }, ...recipe.columns] };
+}
+
+async function loadWithRowNumbers(engine: Engine, table: Table): Promise<void> {
+  await engine.load(TABLE, [ROW, ...table.names], rawRows(table).map((row, r) => [String(r), ...row]));
+}
+
+/** The compiled query's result in load order, without the row-number column. */
+async function queryInLoadOrder(
+  engine: Engine,
+  recipe: Recipe,
+  rejected: 'flag' | 'drop' = 'flag',
+  dialectName: SqlDialectName = engine.name,
+): Promise<QueryResult> {
+  const result = await engine.query(compileSql(withRowNumber(recipe), { table: TABLE, dialect: dialectName, rejected }));
+  expect(result.columns[0]).toBe(ROW);
+  const rows = [...result.rows].sort((a, b) => Number(a[0]) - Number(b[0])).map((row) => row.slice(1));
+  return { columns: result.columns.slice(1), rows };
+}
+
+async function compareOnEngine(
+  engine: Engine,
+  recipe: Recipe,
+  table: Table,
+  dialectName: SqlDialectName = engine.name,
+): Promise<{ cells: number; exact: number }> {
   const expected = coreAnswer(recipe, table);
-  await engine.load(TABLE, table.names, rawRows(table));
-  const result = await engine.query(compileSql(recipe, { table: TABLE, dialect: engine.name }));
+  await loadWithRowNumbers(engine, table);
+  const result = await queryInLoadOrder(engine, recipe, 'flag', dialectName);
   const canReject = recipeCanReject(recipe);
-  expect(result.columns).toEqual(canReject ? [...expected.outputs, REJECTED_COLUMN] : expected.outputs);
+  const names = engine.name === 'postgres' ? expected.outputs.map(postgresName) : expected.outputs;
+  expect(result.columns).toEqual(canReject ? [...names, REJECTED_COLUMN] : names);
   expect(result.rows.length).toBe(table.rowCount);
   let cells = 0;
   let exact = 0;
@@ -155,15 +247,16 @@ async function compareOnEngine(engine: Engine, recipe: Recipe, table: Table): Pr
     expected.rows[r]!.forEach((want, c) => {
       const got = row[c];
       cells++;
-      if (got === want) exact++;
-      else if (typeof want === 'string' || typeof got !== 'number' || !sameNumber(want, got)) {
+      const value = typeof want === 'number' && typeof got === 'string' && got !== '' ? Number(got) : got;
+      if (value === want) exact++;
+      else if (typeof want === 'string' || typeof value !== 'number' || !sameNumber(want, value)) {
         differences.push(`row ${r}, ${expected.outputs[c]}: SQL ${JSON.stringify(got)}, core ${JSON.stringify(want)}`);
       }
     });
   });
   expect(differences.slice(0, 10)).toEqual([]);
-  const dropped = await engine.query(compileSql(recipe, { table: TABLE, dialect: engine.name, rejected: 'drop' }));
-  expect(dropped.columns).toEqual(expected.outputs);
+  const dropped = await queryInLoadOrder(engine, recipe, 'drop', dialectName);
+  expect(dropped.columns).toEqual(names);
   expect(dropped.rows.length).toBe(table.rowCount - expected.rejected.size);
   return { cells, exact };
 }
@@ -173,11 +266,12 @@ async function compareOnEngine(engine: Engine, recipe: Recipe, table: Table): Pr
 const engines: (Engine & { close(): void })[] = [];
 beforeAll(async () => {
   engines.push(await duckdbEngine(), await sqliteEngine());
+  if (POSTGRES !== '') engines.push(postgresEngine(POSTGRES));
 });
 afterAll(() => engines.forEach((e) => e.close()));
 
-const ENGINE_NAMES = ['duckdb', 'sqlite'] as const;
-const engineNamed = (name: (typeof ENGINE_NAMES)[number]) => engines.find((e) => e.name === name)!;
+const ENGINE_NAMES: readonly Engine['name'][] = POSTGRES === '' ? ['duckdb', 'sqlite'] : ['duckdb', 'sqlite', 'postgres'];
+const engineNamed = (name: Engine['name']) => engines.find((e) => e.name === name)!;
 
 function parsed(text: string): Recipe {
   const result = parseRecipe(text);
@@ -199,6 +293,13 @@ describe('compiled SQL gives the core’s numbers on real engines', () => {
         expect(exact).toBe(cells);
       });
     }
+  }
+  // PostgreSQL speaks standard SQL too (SIMILAR TO, TRIM(BOTH … FROM …)): the ansi dialect runs there.
+  for (const c of POSTGRES === '' ? [] : cases) {
+    it(`postgres: golden case ${c.name} in the ansi dialect`, async () => {
+      const { cells, exact } = await compareOnEngine(engineNamed('postgres'), parsed(c.recipeText), readTable(c.input).table, 'ansi');
+      expect(exact).toBe(cells);
+    });
   }
 });
 
@@ -327,7 +428,7 @@ describe('numbers are read as numbers.ts reads them', () => {
     it(`${engineName}: a cell that is not a number rejects its row with the core's reason`, async () => {
       const table = oneColumn('x', ['1', 'twelve', '', '3']);
       await compareOnEngine(engineNamed(engineName), numberRecipe({ decimal: '.', group: '' }, 'error'), table);
-      const result = await engineNamed(engineName).query(compileSql(numberRecipe({ decimal: '.', group: '' }, 'error'), { table: TABLE, dialect: engineName }));
+      const result = await queryInLoadOrder(engineNamed(engineName), numberRecipe({ decimal: '.', group: '' }, 'error'));
       expect(result.rows.map((r) => r[2])).toEqual([null, 'x: "twelve" is not a number', null, null]);
     });
   }
@@ -354,20 +455,20 @@ describe('levels: trimming, case, merges, rare and unseen values', () => {
       const recipe = levelRecipe([hostile, hostile, 'plain', '"quoted"', "it's"], []);
       const table = oneColumn('v', ['plain', hostile, "it's", '"quoted"', 'other']);
       await compareOnEngine(engineNamed(engineName), recipe, table);
-      const result = await engineNamed(engineName).query(compileSql(recipe, { table: TABLE, dialect: engineName }));
+      const result = await queryInLoadOrder(engineNamed(engineName), recipe);
       const hostileColumn = result.columns.indexOf(`v=${hostile}`);
       expect(hostileColumn).toBeGreaterThanOrEqual(0);
-      expect(result.rows.map((r) => r[hostileColumn])).toEqual([0, 1, 0, 0, 0]);
+      expect(result.rows.map((r) => Number(r[hostileColumn]))).toEqual([0, 1, 0, 0, 0]);
       // The table is still there.
-      expect((await engineNamed(engineName).query(`SELECT count(*) FROM ${quoteIdentifier(TABLE)}`)).rows[0]?.[0]).toBe(5);
+      expect(Number((await engineNamed(engineName).query(`SELECT count(*) FROM ${quoteIdentifier(TABLE)}`)).rows[0]?.[0])).toBe(5);
     });
     it(`${engineName}: every white-space character JavaScript trims is trimmed`, async () => {
       const cells = WHITE.map((w) => `${w}gas${w}`);
       const recipe = levelRecipe(['gas', 'oil', 'gas'], [{ type: 'set-cleaning', column: 'v', trim: true }]);
       const result = await compareOnEngine(engineNamed(engineName), recipe, oneColumn('v', cells));
       expect(result.cells).toBe(cells.length * 2);
-      const sql = await engineNamed(engineName).query(compileSql(recipe, { table: TABLE, dialect: engineName }));
-      expect(sql.rows.every((row) => row[sql.columns.indexOf('v=gas')] === 1)).toBe(true);
+      const sql = await queryInLoadOrder(engineNamed(engineName), recipe);
+      expect(sql.rows.map((row) => Number(row[sql.columns.indexOf('v=gas')]))).toEqual(cells.map(() => 1));
     });
     it(`${engineName}: random cells through trim, case-fold, merges, rare grouping and unseen policies (property)`, async () => {
       const text = fc.array(fc.constantFrom(...LEVEL_CHARS), { maxLength: 4 }).map((chars) => chars.join(''));
@@ -426,6 +527,13 @@ describe('constants and quoting', () => {
     expect(() => compileSql(demoDraft, { table: '__levelwise_step0', dialect: 'duckdb' })).toThrow(/clashes/);
     const none: Recipe = { ...demoDraft, columns: demoDraft.columns.map((c) => ({ name: c.name, reason: c.reason, outputs: [], level: 'excluded' as const })) };
     expect(() => compileSql(none, { table: 't', dialect: 'duckdb' })).toThrow(/no output columns/);
+  });
+  it('warns that PostgreSQL cuts output names longer than 63 bytes', () => {
+    const notes = sqlNotes(demoDraft, { dialect: 'postgres' });
+    expect(notes).toHaveLength(1);
+    expect(notes[0]).toMatch(/^PostgreSQL cuts names to 63 bytes, and \d+ output name\(s\) are longer/);
+    expect(compileSql(demoDraft, { table: 't', dialect: 'postgres' })).toContain(`-- Note: ${notes[0]}`);
+    expect(sqlNotes(demoDraft, { dialect: 'duckdb' })).toEqual([]);
   });
   it('keeps a file name with a line break inside its comment line', () => {
     const recipe: Recipe = { ...demoDraft, source: { ...demoDraft.source, file: 'x\nDROP TABLE t; --' } };

@@ -10,7 +10,7 @@ import type { Recipe } from '../../src/core/recipe.ts';
 import { WorkbenchClient } from '../../src/worker/client.ts';
 import { createInPagePort } from '../../src/worker/in-page-port.ts';
 import { Cancelled, WorkerProblem, type FromWorker, type OpenedTable } from '../../src/worker/protocol.ts';
-import { createSession } from '../../src/worker/session.ts';
+import { createSession, throttledProgress } from '../../src/worker/session.ts';
 import { buildXlsx } from '../e2e/helpers/xlsx.ts';
 
 const SMALL_CSV = 'id,colour,size,score\na1,red,S,1\na2,blue,M,2\na3,red,L,\na4,green,M,4\n';
@@ -201,6 +201,37 @@ describe('checking a recipe against a second file', () => {
   });
 });
 
+describe('a recipe made in the page', () => {
+  it('leaves the delimiter to detection, so it reads a semicolon export of the same data', async () => {
+    const client = newClient();
+    const opened = await openSmall(client);
+    expect(opened.draft?.reading.delimiter).toBeNull();
+    const recipe = decided(opened);
+    const reuse = await client.call('open', {
+      slot: 'reuse',
+      source: { kind: 'file', file: new File([SMALL_CSV.replaceAll(',', ';')], 'small-semicolon.csv') },
+      draft: false,
+      delimiter: recipe.reading.delimiter,
+    });
+    const report = await client.call('check', { slot: 'reuse', version: reuse.version, recipe });
+    expect(report.missingColumns).toEqual([]);
+    expect(report.fits).toBe(true);
+  });
+});
+
 async function until(condition: () => boolean): Promise<void> {
   while (!condition()) await new Promise((resolve) => setTimeout(resolve, 5));
 }
+
+describe('progress reports', () => {
+  it('pass on only steps of half a percent, phase changes and the end', () => {
+    const sent: [string, number][] = [];
+    const progress = throttledProgress((phase, done) => sent.push([phase, done]));
+    for (let done = 0; done <= 1000; done += 1) progress('reading', done, 1000);
+    progress('profiling', 0, null);
+    progress('profiling', 0, null);
+    // 0, 5, 10, … 995 (every 0.5 %), then 1000 (the end), then the new phase once per report without a total.
+    expect(sent.filter(([p]) => p === 'reading').map(([, d]) => d)).toEqual([...Array.from({ length: 200 }, (_, i) => i * 5), 1000]);
+    expect(sent.filter(([p]) => p === 'profiling')).toHaveLength(2);
+  });
+});

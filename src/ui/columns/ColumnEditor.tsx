@@ -6,6 +6,7 @@
  */
 import { useId } from 'react';
 import type { Decision } from '../../core/decisions.ts';
+import { sensitiveAttributeCaution } from '../../core/infer.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import { LEVELS, type ColumnRecipe, type MeasurementLevel } from '../../core/recipe.ts';
 import { BinaryOptions } from './BinaryOptions.tsx';
@@ -42,6 +43,7 @@ export function ColumnEditor({ profile, column, onDecide }: ColumnEditorProps) {
           <span className="lw-editor__reason-label">Why: </span>
           {column.reason}
         </p>
+        <SensitiveCaution name={column.name} />
         <ProfileFacts profile={profile} />
       </header>
 
@@ -64,6 +66,18 @@ export function ColumnEditor({ profile, column, onDecide }: ColumnEditorProps) {
         {isCategorical(column) ? <CodeTable column={column} /> : null}
       </Panel>
     </section>
+  );
+}
+
+/** The usual caution, shown where the decision is made, when the column's name suggests data about people. */
+function SensitiveCaution({ name }: { readonly name: string }) {
+  const caution = sensitiveAttributeCaution(name);
+  if (caution === null) return null;
+  return (
+    <p className="lw-editor__caution" role="note">
+      <strong>Take care: </strong>
+      {caution}.
+    </p>
   );
 }
 

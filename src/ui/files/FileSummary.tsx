@@ -23,7 +23,11 @@ export function FileSummary({ table, isDemo, demoNote, onSheet }: FileSummaryPro
   return (
     <div className="file-summary" data-testid="file-summary">
       <span className="file-name" title={table.fileName}>
-        {isDemo ? <span className="badge badge-invented">Invented demo</span> : null}
+        {isDemo ? (
+          <span className="badge badge-invented" title={demoNote}>
+            Invented demo
+          </span>
+        ) : null}
         {table.fileName}
       </span>
       <span className="file-meta">

@@ -1,10 +1,7 @@
 /** Counts and sizes in words the top bar and messages share. */
 
-const counts = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 0 });
-
-export function formatCount(n: number): string {
-  return counts.format(n);
-}
+/** The column panels' count format, so every count on the page reads the same. */
+export { formatCount } from '../columns/labels.ts';
 
 /** 1536 → "1.5 KB" (powers of 1024, one decimal under 10). */
 export function formatBytes(bytes: number): string {

@@ -54,7 +54,7 @@ export function useTakeAway({ client, run, notify, showReport }: Deps) {
         const left = report.rowsRejected;
         notify({
           tone: left > 0 ? 'warning' : 'success',
-          title: `Encoded CSV ${sink.kind === 'disk' ? 'saved' : 'ready'}: ${formatCount(summary.rowsWritten)} rows, ${formatBytes(summary.bytes)}`,
+          title: `Encoded CSV of ${target.fileName} ${sink.kind === 'disk' ? 'saved' : 'ready'}: ${formatCount(summary.rowsWritten)} rows, ${formatBytes(summary.bytes)}`,
           ...(left > 0 ? { detail: `${formatCount(left)} ${left === 1 ? 'row was' : 'rows were'} left out by an “error” policy.` } : {}),
           action: { label: left > 0 ? 'See which rows' : 'See the report', run: () => showReport(report, target.fileName) },
         });

@@ -1,8 +1,9 @@
 /** The report of a full pass over the open file (after writing its encoded CSV), in a dialog. */
-import { useEffect, useId, useRef } from 'react';
+import { useId, useRef } from 'react';
 import type { ApplyReport } from '../../core/apply-report.ts';
 import type { ReadingFacts } from './report-model.ts';
 import { ReuseReport } from './ReuseReport.tsx';
+import { useModalDialog } from './useModalDialog.ts';
 
 export interface ReportDialogProps {
   readonly shown: { readonly report: ApplyReport; readonly fileName: string } | null;
@@ -13,12 +14,7 @@ export interface ReportDialogProps {
 export function ReportDialog({ shown, reading, onClose }: ReportDialogProps) {
   const ref = useRef<HTMLDialogElement>(null);
   const titleId = useId();
-  useEffect(() => {
-    const dialog = ref.current;
-    if (!dialog) return;
-    if (shown && !dialog.open) dialog.showModal();
-    if (!shown && dialog.open) dialog.close();
-  }, [shown]);
+  useModalDialog(ref, shown !== null);
   return (
     <dialog ref={ref} className="reuse" aria-labelledby={titleId} onCancel={(e) => (e.preventDefault(), onClose())}>
       <header className="reuse-head">

@@ -3,7 +3,7 @@
  * file; the recipe is applied to it as it is — nothing is refitted — and the report says what it
  * met. The encoded CSV of the new file can then be taken away.
  */
-import { useCallback, useEffect, useId, useRef, useState, type ReactNode } from 'react';
+import { useCallback, useId, useRef, useState, type ReactNode } from 'react';
 import type { ApplyReport } from '../../core/apply-report.ts';
 import type { Recipe } from '../../core/recipe.ts';
 import { parseRecipe } from '../../core/recipe-io.ts';
@@ -14,6 +14,7 @@ import { formatCount } from '../files/format.ts';
 import type { ExportTarget } from '../files/useTakeAway.ts';
 import { errorNotice, type Workbench } from '../state/useWorkbench.ts';
 import { ReuseReport } from './ReuseReport.tsx';
+import { useModalDialog } from './useModalDialog.ts';
 
 export interface ReuseDialogProps {
   readonly open: boolean;
@@ -46,12 +47,7 @@ export function ReuseDialog({ open, onClose, workbench, current, exportCsv, chil
   const [problem, setProblem] = useState<string | null>(null);
   const { client, run, task } = workbench;
 
-  useEffect(() => {
-    const dialog = dialogRef.current;
-    if (!dialog) return;
-    if (open && !dialog.open) dialog.showModal();
-    if (!open && dialog.open) dialog.close();
-  }, [open]);
+  useModalDialog(dialogRef, open);
 
   const close = useCallback(() => {
     task?.cancel();

@@ -4,6 +4,11 @@ import type { ApplyReport } from '../../core/apply-report.ts';
 import { formatCount } from '../files/format.ts';
 import { linesText, reportView, type ReadingFacts, type TallyView } from './report-model.ts';
 
+/** Values listed per table; the rest are counted in a last line. */
+export const VALUES_LISTED = 50;
+/** Rejected rows listed; the rest are counted. */
+export const REJECTED_LISTED = 200;
+
 export interface ReuseReportProps {
   readonly report: ApplyReport;
   readonly reading: ReadingFacts;
@@ -88,7 +93,7 @@ export function ReuseReport({ report, reading, fileName }: ReuseReportProps) {
               </tr>
             </thead>
             <tbody>
-              {view.rejected.slice(0, 200).map((r) => (
+              {view.rejected.slice(0, REJECTED_LISTED).map((r) => (
                 <tr key={r.row}>
                   <td className="num">{r.line}</td>
                   <td>{r.column}</td>
@@ -97,8 +102,8 @@ export function ReuseReport({ report, reading, fileName }: ReuseReportProps) {
               ))}
             </tbody>
           </table>
-          {view.rejected.length > 200 || view.rejectedMore > 0 ? (
-            <p>… and {formatCount(view.rejected.length - Math.min(200, view.rejected.length) + view.rejectedMore)} more.</p>
+          {view.rejected.length > REJECTED_LISTED || view.rejectedMore > 0 ? (
+            <p>… and {formatCount(view.rejected.length - Math.min(REJECTED_LISTED, view.rejected.length) + view.rejectedMore)} more rows left out.</p>
           ) : null}
         </section>
       ) : null}
@@ -122,7 +127,7 @@ function TallyTable({ caption, tally }: { readonly caption: string; readonly tal
         </tr>
       </thead>
       <tbody>
-        {tally.values.slice(0, 50).map((v) => (
+        {tally.values.slice(0, VALUES_LISTED).map((v) => (
           <tr key={v.value}>
             <td>
               <code>{v.value === '' ? '(empty)' : v.value}</code>
@@ -132,6 +137,20 @@ function TallyTable({ caption, tally }: { readonly caption: string; readonly tal
           </tr>
         ))}
       </tbody>
+      {tally.values.length > VALUES_LISTED ? (
+        <tfoot>
+          <tr>
+            <td colSpan={3}>
+              … and {formatCount(tally.values.length - VALUES_LISTED)} more values ({formatCount(countBeyond(tally))} cells), each treated the same way.
+            </td>
+          </tr>
+        </tfoot>
+      ) : null}
     </table>
   );
+}
+
+/** Cells held by the values beyond the listed ones. */
+function countBeyond(tally: TallyView): number {
+  return tally.values.slice(VALUES_LISTED).reduce((n, v) => n + v.count, 0);
 }

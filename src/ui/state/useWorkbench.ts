@@ -4,7 +4,6 @@
  * person. Components get values and callbacks from here; none of them talks to the worker.
  */
 import { useCallback, useEffect, useMemo, useReducer, useRef, useState } from 'react';
-import type { ApplyReport } from '../../core/apply-report.ts';
 import type { Decision } from '../../core/decisions.ts';
 import type { Recipe } from '../../core/recipe.ts';
 import { DEMO_ROW_COUNT } from '../../demo/household-energy.ts';
@@ -67,7 +66,7 @@ export function useWorkbench() {
 
   const notify = useCallback((notice: Omit<Notice, 'id'>) => {
     const id = nextNoticeId++;
-    setNotices((list) => [...list.filter((n) => n.title !== notice.title), { ...notice, id }].slice(-4));
+    setNotices((list) => [...list.filter((n) => n.title !== notice.title), { ...notice, id }].slice(-3));
     return id;
   }, []);
   const dismiss = useCallback((id: number) => setNotices((list) => list.filter((n) => n.id !== id)), []);
@@ -89,6 +88,8 @@ export function useWorkbench() {
       }
       if (opened.draft === null) return;
       const replay = loadDecisions(store, opened.fingerprint);
+      // Messages about the previous file no longer apply.
+      setNotices([]);
       setTable(opened);
       setShown(null);
       setLastFile(source.kind === 'file' ? source.file : null);
@@ -164,10 +165,6 @@ export function useWorkbench() {
     };
   }, [client, table, recipe, history.revision, notify]);
 
-  // ---- a full pass: what the recipe does to every row ------------------------------------------
-
-  const [report, setReport] = useState<ApplyReport | null>(null);
-
   return {
     client,
     table,
@@ -187,8 +184,6 @@ export function useWorkbench() {
     decide: decideNow,
     undo,
     redo,
-    report,
-    setReport,
   };
 }
 

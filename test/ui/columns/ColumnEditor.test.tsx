@@ -317,3 +317,14 @@ describe('ColumnEditor: ordinal and binary', () => {
     expect(screen.getByRole('status').textContent).toMatch(/has 3 levels, but binary coding needs exactly two/);
   });
 });
+
+describe('ColumnEditor caution for data about people', () => {
+  it('shows the caution when the column name suggests a sensitive attribute, and not otherwise', () => {
+    const profile = surveyProfiles.find((p) => p.name === heatingColumn.name)!;
+    render(<ColumnEditor profile={{ ...profile, name: 'occupant_age_band' }} column={{ ...heatingColumn, name: 'occupant_age_band' }} onDecide={() => {}} />);
+    expect(screen.getByRole('note').textContent).toMatch(/sensitive attribute of people.*check local law and have the use reviewed/);
+    cleanup();
+    render(<ColumnEditor profile={profile} column={heatingColumn} onDecide={() => {}} />);
+    expect(screen.queryByRole('note')).toBeNull();
+  });
+});

@@ -1,0 +1,56 @@
+/**
+ * How the command line fails: one line on stderr saying what went wrong, where, and what to do,
+ * and an exit code a scheduler can act on. Never a stack trace (LEVELWISE_DEBUG=1 shows one).
+ */
+import { isLevelwiseError, type LevelwiseError } from '../core/errors.ts';
+
+/** 0: done; 1: the data does not fit the recipe; 2: the command was wrong or the input unreadable. */
+export const EXIT = { ok: 0, doesNotFit: 1, usage: 2 } as const;
+export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
+
+/** A failure the person can fix; `hint` says how. */
+export class CliFailure extends Error {
+  readonly exitCode: ExitCode;
+  readonly hint: string;
+
+  constructor(message: string, hint: string, exitCode: ExitCode = EXIT.usage) {
+    super(message);
+    this.name = 'CliFailure';
+    this.hint = hint;
+    this.exitCode = exitCode;
+  }
+}
+
+/** The command line was wrong: an unknown option, a missing argument. */
+export function usageFailure(verb: string | null, message: string, hint?: string): CliFailure {
+  return new CliFailure(message, hint ?? `Run "levelwise ${verb === null ? '' : `${verb} `}--help" for how to use it.`);
+}
+
+/** A reading problem core reported (empty file, binary file, bad bytes), said of the file it is in. */
+export function readingFailure(label: string, error: LevelwiseError): CliFailure {
+  const message = error.message.charAt(0).toLowerCase() + error.message.slice(1);
+  return new CliFailure(`cannot read "${label}": ${withPlace(message, error)}`, error.hint);
+}
+
+function withPlace(message: string, error: LevelwiseError): string {
+  const where = [error.line === undefined ? '' : `line ${error.line}`, error.column === undefined ? '' : `column ${error.column}`]
+    .filter((p) => p !== '')
+    .join(', ');
+  return where === '' ? message : `${message.replace(/\.$/, '')} (${where}).`;
+}
+
+/** The one line printed for any error, and the exit code that goes with it. */
+export function describeFailure(error: unknown, verb: string | null): { line: string; exitCode: ExitCode } {
+  const prefix = `levelwise${verb === null ? '' : ` ${verb}`}:`;
+  if (error instanceof CliFailure) return { line: oneLine(`${prefix} ${error.message} ${error.hint}`), exitCode: error.exitCode };
+  if (isLevelwiseError(error)) return { line: oneLine(`${prefix} ${withPlace(error.message, error)} ${error.hint}`), exitCode: EXIT.usage };
+  const message = error instanceof Error ? error.message : String(error);
+  return {
+    line: oneLine(`${prefix} unexpected problem: ${message.replace(/\.$/, '')}. This is a fault in Levelwise; please report it with the command you ran.`),
+    exitCode: EXIT.usage,
+  };
+}
+
+function oneLine(text: string): string {
+  return text.replace(/\s*[\r\n]+\s*/g, ' ').trim();
+}

@@ -1,0 +1,279 @@
+/**
+ * Where tables and recipes come from: a file path, or "-" for standard input. Text files are read
+ * in chunks into core's table reader — whole (profile, draft) or batch by batch (apply, check), so
+ * memory does not grow with the file. XLSX workbooks are read whole by read-excel-file, then go
+ * through core's tableFromRows like the page's spreadsheets.
+ */
+import { createReadStream } from 'node:fs';
+import { stat } from 'node:fs/promises';
+import { basename } from 'node:path';
+import readXlsxFile from 'read-excel-file/node';
+import type { Table } from '../core/columns.ts';
+import type { EncodingName } from '../core/decode.ts';
+import { isLevelwiseError } from '../core/errors.ts';
+import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
+import { parseRecipe } from '../core/recipe-io.ts';
+import type { Recipe } from '../core/recipe.ts';
+import { cellToText } from '../worker/read-source.ts';
+import { CliFailure, readingFailure } from './failure.ts';
+
+export interface InputSource {
+  /** The path as given, or "standard input". */
+  readonly label: string;
+  /** The file's name for a recipe's `source.file`; null for standard input. */
+  readonly fileName: string | null;
+  /** Whether the bytes can be read a second time (files can, standard input cannot). */
+  readonly reopenable: boolean;
+  /** Size in bytes when known, for progress. */
+  readonly size: number | null;
+  chunks(): AsyncIterable<Uint8Array>;
+}
+
+const STDIN_LABEL = 'standard input';
+
+/** A file path or "-"; fails at once (exit 2) when the file cannot be read. */
+export async function inputSource(path: string): Promise<InputSource> {
+  if (path === '-') {
+    let used = false;
+    return {
+      label: STDIN_LABEL,
+      fileName: null,
+      reopenable: false,
+      size: null,
+      chunks() {
+        if (used) throw new Error('standard input can be read only once');
+        used = true;
+        return process.stdin;
+      },
+    };
+  }
+  let size: number;
+  try {
+    const info = await stat(path);
+    if (info.isDirectory()) throw new CliFailure(`"${path}" is a folder, not a file.`, 'Give the path of a CSV, TSV or XLSX file.');
+    size = info.size;
+  } catch (error) {
+    throw readFailure(path, error);
+  }
+  return {
+    label: path,
+    fileName: basename(path),
+    reopenable: true,
+    size,
+    chunks: () => readChunks(path),
+  };
+}
+
+async function* readChunks(path: string): AsyncGenerator<Uint8Array> {
+  try {
+    for await (const chunk of createReadStream(path, { highWaterMark: 1 << 16 })) yield chunk as Buffer;
+  } catch (error) {
+    throw readFailure(path, error);
+  }
+}
+
+function readFailure(path: string, error: unknown): unknown {
+  if (error instanceof CliFailure) return error;
+  const code = (error as NodeJS.ErrnoException | null)?.code;
+  if (code === 'ENOENT') return new CliFailure(`cannot read "${path}": there is no such file.`, `Check the path (relative paths start at ${process.cwd()}).`);
+  if (code === 'EACCES' || code === 'EPERM') return new CliFailure(`cannot read "${path}": permission denied.`, 'Check the file’s permissions.');
+  if (code === 'EISDIR') return new CliFailure(`"${path}" is a folder, not a file.`, 'Give the path of a CSV, TSV or XLSX file.');
+  return error;
+}
+
+/** The whole of a small input (a recipe) as text. */
+async function readAllText(source: InputSource): Promise<string> {
+  const parts: Uint8Array[] = [];
+  for await (const chunk of source.chunks()) parts.push(chunk);
+  return Buffer.concat(parts).toString('utf8');
+}
+
+/** A recipe file, validated; its problems are one line each, the first shown, with a count of the rest. */
+export async function readRecipe(path: string): Promise<Recipe> {
+  const source = await inputSource(path);
+  const parsed = parseRecipe(await readAllText(source));
+  if (parsed.ok) return parsed.recipe;
+  const [first = 'it is not a recipe', ...rest] = parsed.errors;
+  const more = rest.length > 0 ? ` (and ${rest.length} more problem${rest.length > 1 ? 's' : ''})` : '';
+  // Some of core's messages already say what to do; the others get our hint.
+  const hint = /make (it|a new one)|remove|choose/i.test(first) ? '' : 'Fix the recipe, or make a new one with "levelwise draft".';
+  throw new CliFailure(`the recipe "${source.label}" cannot be used: ${first.replace(/\.$/, '')}${more}.`, hint);
+}
+
+// ---------------------------------------------------------------------------------------------------
+
+export interface ReadSettings {
+  readonly delimiter: Delimiter | null;
+  /** null: chosen from the bytes (and read again as Windows-1252 when UTF-8 turns out wrong). */
+  readonly encoding: EncodingName | null;
+  /** For workbooks: the sheet to read (default the first). */
+  readonly sheet: string | null;
+}
+
+/** What was read, besides the rows. */
+export interface ReadSummary {
+  readonly names: readonly string[];
+  readonly rows: number;
+  readonly encoding: EncodingName | 'xlsx';
+  readonly delimiter: Delimiter | null;
+  readonly sheet: string | null;
+}
+
+/** The start of every ZIP container, XLSX included ("PK\3\4"). */
+const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04];
+
+/** The whole table in memory (profile, draft). */
+export async function readWholeTable(source: InputSource, settings: ReadSettings): Promise<{ table: Table; summary: ReadSummary }> {
+  let table: Table | null = null;
+  const summary = await readBatches(source, settings, null, {
+    onBatch(batch) {
+      table = batch;
+    },
+    async afterChunk() {},
+    async restart() {
+      return true;
+    },
+  });
+  if (table === null) throw new Error('the reader handed over no table');
+  return { table, summary };
+}
+
+export interface BatchHandlers {
+  /** Rows [start, end) of `table` are ready; called in order, rows numbered from 0 across batches. */
+  onBatch(table: Table, start: number, end: number): void;
+  /** After each chunk of input: wait for the output to drain, show progress. */
+  afterChunk(bytesRead: number, rowsRead: number): Promise<void>;
+  /**
+   * Non-UTF-8 bytes turned up after the start: may everything be read again as Windows-1252 from
+   * row 0? Return false when what was written cannot be taken back (standard output).
+   */
+  restart(): Promise<boolean>;
+}
+
+/**
+ * Reads `source` and hands its rows over in batches of `batchRows` (null: one batch with every row).
+ * Workbooks are read whole, then handed over in the same batches.
+ */
+export async function readBatches(
+  source: InputSource,
+  settings: ReadSettings,
+  batchRows: number | null,
+  handlers: BatchHandlers,
+): Promise<ReadSummary> {
+  try {
+    return await readBatchesOnce(source, settings, batchRows, handlers);
+  } catch (error) {
+    throw isLevelwiseError(error) ? readingFailure(source.label, error) : error;
+  }
+}
+
+async function readBatchesOnce(
+  source: InputSource,
+  settings: ReadSettings,
+  batchRows: number | null,
+  handlers: BatchHandlers,
+): Promise<ReadSummary> {
+  const chunks = withFirstChunk(source.chunks());
+  const first = await chunks.first();
+  if (first !== null && ZIP_MAGIC.every((b, i) => first[i] === b)) return readWorkbook(source, chunks, settings, batchRows, handlers);
+  try {
+    return await readText(chunks, settings.delimiter, settings.encoding, batchRows, handlers);
+  } catch (error) {
+    if (!isLevelwiseError(error, 'encoding-restart')) throw error;
+    if (!source.reopenable || !(await handlers.restart())) {
+      throw new CliFailure(
+        `"${source.label}" started as UTF-8 text but holds other bytes further down (${error.message.replace(/^.*UTF-8 /, '').replace(/\.$/, '')}).`,
+        'Run again with --encoding windows-1252, or save the file as UTF-8.',
+      );
+    }
+    return readText(withFirstChunk(source.chunks()), settings.delimiter, 'windows-1252', batchRows, handlers);
+  }
+}
+
+async function readText(
+  chunks: AsyncIterable<Uint8Array>,
+  delimiter: Delimiter | null,
+  encoding: EncodingName | null,
+  batchRows: number | null,
+  handlers: BatchHandlers,
+): Promise<ReadSummary> {
+  let rows = 0;
+  const reader = createTableReader({
+    delimiter,
+    encoding,
+    ...(batchRows === null
+      ? {}
+      : {
+          batchRows,
+          onBatch: (batch: Table) => {
+            handlers.onBatch(batch, 0, batch.rowCount);
+            rows += batch.rowCount;
+          },
+        }),
+  });
+  for await (const chunk of chunks) {
+    reader.push(chunk);
+    await handlers.afterChunk(reader.bytesRead, rows);
+  }
+  const result: ReadResult = reader.finish();
+  if (batchRows === null) handlers.onBatch(result.table, 0, result.table.rowCount);
+  return { names: result.table.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null };
+}
+
+async function readWorkbook(
+  source: InputSource,
+  chunks: AsyncIterable<Uint8Array>,
+  settings: ReadSettings,
+  batchRows: number | null,
+  handlers: BatchHandlers,
+): Promise<ReadSummary> {
+  const parts: Uint8Array[] = [];
+  for await (const chunk of chunks) parts.push(chunk);
+  let sheets: Awaited<ReturnType<typeof readXlsxFile>>;
+  try {
+    sheets = await readXlsxFile(Buffer.concat(parts), { trim: false });
+  } catch (error) {
+    throw new CliFailure(
+      `"${source.label}" could not be read as an XLSX workbook (${error instanceof Error ? error.message.replace(/\.$/, '') : String(error)}).`,
+      'Open it in a spreadsheet program and save it again as .xlsx, or export the sheet as CSV.',
+    );
+  }
+  const names = sheets.map((s) => s.sheet);
+  const chosen = settings.sheet === null ? sheets[0] : sheets.find((s) => s.sheet === settings.sheet);
+  if (chosen === undefined) {
+    throw new CliFailure(
+      settings.sheet === null ? `"${source.label}" holds no sheets.` : `"${source.label}" has no sheet named "${settings.sheet}".`,
+      names.length > 0 ? `Choose one with --sheet: ${names.join(', ')}.` : 'Choose a workbook with at least one sheet.',
+    );
+  }
+  const { table } = tableFromRows(chosen.data.map((row) => row.map(cellToText)));
+  const step = batchRows ?? Math.max(1, table.rowCount);
+  for (let start = 0; start < table.rowCount || start === 0; start += step) {
+    handlers.onBatch(table, start, Math.min(table.rowCount, start + step));
+    await handlers.afterChunk(0, Math.min(table.rowCount, start + step));
+    if (table.rowCount === 0) break;
+  }
+  return { names: table.names, rows: table.rowCount, encoding: 'xlsx', delimiter: null, sheet: chosen.sheet };
+}
+
+/** An async iterable that can show its first chunk before being iterated (to spot a workbook). */
+function withFirstChunk(source: AsyncIterable<Uint8Array>): AsyncIterable<Uint8Array> & { first(): Promise<Uint8Array | null> } {
+  const iterator = source[Symbol.asyncIterator]();
+  let head: IteratorResult<Uint8Array> | null = null;
+  return {
+    async first() {
+      head ??= await iterator.next();
+      return head.done ? null : head.value;
+    },
+    async *[Symbol.asyncIterator]() {
+      head ??= await iterator.next();
+      if (head.done) return;
+      yield head.value;
+      for (;;) {
+        const next = await iterator.next();
+        if (next.done) return;
+        yield next.value;
+      }
+    },
+  };
+}

@@ -1,0 +1,126 @@
+/**
+ * Where results go: a file, or "-" / nothing for standard output. A file is written under a
+ * temporary name beside it and renamed when complete, so a scheduled job never picks up half a
+ * file; on failure the partial file is removed. Writes wait for the stream to drain, so memory
+ * stays flat however large the output grows.
+ */
+import { once } from 'node:events';
+import { createWriteStream, type WriteStream } from 'node:fs';
+import { rename, rm } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { CliFailure } from './failure.ts';
+
+export interface Output {
+  /** The path, or "standard output". */
+  readonly label: string;
+  /** Queues a copy of `bytes` (the caller may reuse its buffer at once). */
+  write(bytes: Uint8Array | string): void;
+  /** Resolves when queued bytes have gone out far enough to take more. */
+  drained(): Promise<void>;
+  /** Starts the output over (files only); false for standard output, which cannot take bytes back. */
+  restart(): Promise<boolean>;
+  /** Finishes: the file appears under its name. */
+  close(): Promise<void>;
+  /** Gives up: a partial file is removed. */
+  discard(): Promise<void>;
+}
+
+/** Standard output was closed by the reader (e.g. "| head"): stop quietly. */
+export class OutputClosed extends Error {}
+
+export function openOutput(path: string | undefined): Output {
+  return path === undefined || path === '-' ? standardOutput() : fileOutput(path);
+}
+
+function standardOutput(): Output {
+  let closed = false;
+  let failure: unknown = null;
+  process.stdout.on('error', (error: NodeJS.ErrnoException) => {
+    if (error.code === 'EPIPE') closed = true;
+    else failure = error;
+  });
+  const check = () => {
+    if (closed) throw new OutputClosed('standard output was closed');
+    if (failure !== null) throw failure;
+  };
+  return {
+    label: 'standard output',
+    write(bytes) {
+      check();
+      process.stdout.write(typeof bytes === 'string' ? bytes : Buffer.from(bytes));
+    },
+    async drained() {
+      check();
+      if (process.stdout.writableNeedDrain) await Promise.race([once(process.stdout, 'drain'), once(process.stdout, 'error')]);
+      check();
+    },
+    async restart() {
+      return false;
+    },
+    async close() {
+      check();
+      if (process.stdout.writableNeedDrain) await once(process.stdout, 'drain');
+    },
+    async discard() {},
+  };
+}
+
+function fileOutput(path: string): Output {
+  const partial = join(dirname(path), `.${basename(path)}.${process.pid}.partial`);
+  let stream: WriteStream = open();
+  let failure: unknown = null;
+
+  function open(): WriteStream {
+    const s = createWriteStream(partial);
+    s.on('error', (error) => {
+      failure ??= error;
+    });
+    return s;
+  }
+  const check = () => {
+    if (failure !== null) throw writeFailure(path, failure);
+  };
+  const end = async (s: WriteStream) => {
+    if (s.closed) return;
+    s.end();
+    await Promise.race([once(s, 'close'), once(s, 'error')]).catch(() => undefined);
+  };
+  return {
+    label: path,
+    write(bytes) {
+      check();
+      stream.write(typeof bytes === 'string' ? bytes : Buffer.from(bytes));
+    },
+    async drained() {
+      check();
+      if (stream.writableNeedDrain) await Promise.race([once(stream, 'drain'), once(stream, 'error').catch(() => undefined)]);
+      check();
+    },
+    async restart() {
+      await end(stream);
+      check();
+      stream = open();
+      return true;
+    },
+    async close() {
+      await end(stream);
+      check();
+      try {
+        await rename(partial, path);
+      } catch (error) {
+        throw writeFailure(path, error);
+      }
+    },
+    async discard() {
+      await end(stream);
+      await rm(partial, { force: true });
+    },
+  };
+}
+
+function writeFailure(path: string, error: unknown): CliFailure {
+  const code = (error as NodeJS.ErrnoException | null)?.code;
+  const why =
+    code === 'ENOENT' ? 'its folder does not exist' : code === 'EACCES' || code === 'EPERM' ? 'permission denied' : code === 'ENOSPC' ? 'the disk is full' : code === 'EISDIR' ? 'it is a folder' : String((error as Error)?.message ?? error);
+  return new CliFailure(`cannot write "${path}": ${why}.`, 'Choose a path in a folder you can write to.');
+}

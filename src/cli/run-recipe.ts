@@ -1,0 +1,92 @@
+/**
+ * A recipe over a file, batch by batch: the loop `apply` and `check` share. The plan is made when
+ * the header is read; each batch is encoded with core's encodeBatch and handed on with the rows a
+ * policy rejected (line, column, reason) in row order.
+ */
+import { createApplyReport, type ApplyReport, type ApplyReportBuilder } from '../core/apply-report.ts';
+import { encodeBatch, type EncodedBatch } from '../core/apply.ts';
+import type { Table } from '../core/columns.ts';
+import { compilePlan, type Plan } from '../core/plan.ts';
+import type { Recipe } from '../core/recipe.ts';
+import { batchRows } from './common.ts';
+import { readBatches, type InputSource, type ReadSettings, type ReadSummary } from './input.ts';
+import { createProgress } from './progress.ts';
+
+/** One rejected row of a batch: its row in the batch's table, file line, the first column at fault and why. */
+export interface Rejection {
+  readonly row: number;
+  readonly line: number;
+  readonly column: string;
+  readonly reason: string;
+}
+
+export interface RecipeRunHooks {
+  /** The header is known (again, after a restart). */
+  start(plan: Plan): void;
+  batch(plan: Plan, encoded: EncodedBatch, table: Table, rejections: readonly Rejection[]): void;
+  /** After each chunk of input (e.g. wait for the output to drain). */
+  afterChunk(): Promise<void>;
+  /** May the run start over from row 0 (see BatchHandlers.restart)? */
+  restart(): Promise<boolean>;
+}
+
+export async function runRecipe(
+  recipe: Recipe,
+  source: InputSource,
+  settings: ReadSettings,
+  verb: string,
+  hooks: RecipeRunHooks,
+): Promise<{ report: ApplyReport; summary: ReadSummary }> {
+  let plan: Plan | null = null;
+  let report: ReturnType<typeof rejectionTee> | null = null;
+  const progress = createProgress(`levelwise ${verb}`, source.size);
+  try {
+    const summary = await readBatches(source, settings, batchRows(), {
+      onBatch(table, start, end) {
+        if (plan === null || report === null) {
+          plan = compilePlan(recipe, table.names);
+          report = rejectionTee(createApplyReport(plan));
+          hooks.start(plan);
+        }
+        const encoded = encodeBatch(plan, table, start, end, report);
+        hooks.batch(plan, encoded, table, report.take());
+      },
+      async afterChunk(bytes, rows) {
+        await hooks.afterChunk();
+        progress.update(bytes, rows);
+      },
+      async restart() {
+        plan = null;
+        report = null;
+        return hooks.restart();
+      },
+    });
+    if (report === null) throw new Error('the reader handed over no batch');
+    return { report: (report as ReturnType<typeof rejectionTee>).finish(), summary };
+  } finally {
+    progress.done();
+  }
+}
+
+/**
+ * Passes every cell outcome on to the report and keeps the rejected rows of the current batch:
+ * the report lists only the first MAX_REJECTED_LISTED, the rejects file needs them all.
+ */
+function rejectionTee(inner: ApplyReportBuilder): ApplyReportBuilder & { take(): Rejection[] } {
+  let pending = new Map<number, Rejection>();
+  return {
+    cell(columnPlan, row, line, text, outcome) {
+      inner.cell(columnPlan, row, line, text, outcome);
+      if (outcome.reject !== null && !pending.has(row)) pending.set(row, { row, line, column: columnPlan.recipe.name, reason: outcome.reject });
+    },
+    rowsDone(rows, rejected) {
+      inner.rowsDone(rows, rejected);
+    },
+    finish: () => inner.finish(),
+    take() {
+      const rows = [...pending.values()].sort((a, b) => a.row - b.row);
+      pending = new Map();
+      return rows;
+    },
+  };
+}

@@ -1,0 +1,174 @@
+/**
+ * levelwise draft FILE [-o RECIPE] [--set column=level[:coding]]... [--reference column=level]...
+ *   [--positive column=level]... [--order column=a,b,c]... [--keep-top column=N]... [--naming readable|safe]
+ *
+ * Profiles FILE, proposes a recipe (core's draftRecipe) and applies the person's choices as core
+ * decisions (decide), the same decisions the page makes. The options are applied in a fixed order:
+ * --set, --keep-top, --order, --reference, --positive, --naming.
+ */
+import type { Decision } from '../../core/decisions.ts';
+import { decide } from '../../core/decisions.ts';
+import { draftRecipe } from '../../core/fit.ts';
+import { sensitiveAttributeCaution } from '../../core/infer.ts';
+import { profileTable, type ColumnProfile } from '../../core/profile.ts';
+import { stringifyRecipe } from '../../core/recipe-io.ts';
+import { DEFAULT_MISSING_TOKENS, LEVELS, type ColumnRecipe, type MeasurementLevel, type Recipe } from '../../core/recipe.ts';
+import { optionValue, parseArgs, positionals, type ParsedArgs } from '../args.ts';
+import { note, OUTPUT_OPTION, plural, READ_OPTIONS, readSettings } from '../common.ts';
+import { EXIT, usageFailure, type ExitCode } from '../failure.ts';
+import { inputSource, readWholeTable } from '../input.ts';
+import { openOutput } from '../output.ts';
+
+const VERB = 'draft';
+
+/** The codings --set accepts after the level, per level (continuous: its scaling). */
+export const CODINGS: Partial<Record<MeasurementLevel, readonly string[]>> = {
+  nominal: ['one-hot', 'dummy', 'effect', 'frequency'],
+  ordinal: ['rank', 'scores', 'cumulative'],
+  continuous: ['none', 'z-score', 'min-max'],
+};
+
+export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
+  const args = parseArgs(VERB, argv, [
+    OUTPUT_OPTION,
+    { name: 'set', repeatable: true },
+    { name: 'reference', repeatable: true },
+    { name: 'positive', repeatable: true },
+    { name: 'order', repeatable: true },
+    { name: 'keep-top', repeatable: true },
+    { name: 'naming', choices: ['readable', 'safe'] },
+    ...READ_OPTIONS,
+  ]);
+  const [filePath = ''] = positionals(VERB, args, ['FILE']);
+  const source = await inputSource(filePath);
+  const settings = readSettings(args);
+  const { table } = await readWholeTable(source, settings);
+  const profiles = profileTable(table, { missingTokens: DEFAULT_MISSING_TOKENS });
+  const drafted = draftRecipe(profiles, { file: source.fileName, rows: table.rowCount }, { delimiter: settings.delimiter });
+  const recipe = applyChoices(drafted, args, profiles);
+
+  for (const column of recipe.columns) {
+    const caution = column.level === 'excluded' ? null : sensitiveAttributeCaution(column.name);
+    if (caution !== null) note(VERB, `caution: ${caution}.`);
+  }
+  const output = openOutput(optionValue(args, 'output'));
+  output.write(stringifyRecipe(recipe));
+  await output.close();
+  if (process.stderr.isTTY && output.label !== 'standard output') {
+    const outputs = recipe.columns.reduce((n, c) => n + c.outputs.length, 0);
+    note(VERB, `wrote ${output.label}: ${plural(recipe.columns.length, 'column')} → ${plural(outputs, 'output column')}.`);
+  }
+  return EXIT.ok;
+}
+
+/** Every option turned into decisions, each checked against the recipe so far. */
+export function applyChoices(start: Recipe, args: ParsedArgs, profiles: readonly ColumnProfile[]): Recipe {
+  let recipe = start;
+  const names = start.columns.map((c) => c.name);
+  const apply = (decision: Decision) => {
+    recipe = decide(recipe, decision, profiles);
+  };
+  const each = (option: string, visit: (column: string, value: string, given: string) => void) => {
+    for (const given of args.options.get(option) ?? []) {
+      const { column, value } = splitColumnValue(option, given, names);
+      visit(column, value, given);
+    }
+  };
+
+  each('set', (column, value, given) => {
+    const [level = '', coding, ...rest] = value.split(':');
+    if (!(LEVELS as readonly string[]).includes(level) || rest.length > 0) {
+      throw usageFailure(VERB, `--set ${given}: "${level}" is not a level of measurement.`, `Use one of ${LEVELS.join(', ')}, e.g. --set region=nominal:dummy.`);
+    }
+    apply({ type: 'set-level', column, level: level as MeasurementLevel });
+    if (coding !== undefined) apply(codingDecision(column, level as MeasurementLevel, coding, given));
+  });
+  each('keep-top', (column, value, given) => {
+    const current = columnNamed(recipe, column);
+    const n = Number(value);
+    if (current.level !== 'nominal') throw notLevel('--keep-top', given, current, 'nominal');
+    if (!Number.isSafeInteger(n) || n < 1) throw usageFailure(VERB, `--keep-top ${given}: "${value}" is not a whole number of at least 1.`);
+    apply({ type: 'set-rare', column, rare: { ...current.rare, keepTop: n } });
+  });
+  each('order', (column, value, given) => {
+    const current = columnNamed(recipe, column);
+    if (current.level !== 'ordinal') throw notLevel('--order', given, current, 'ordinal');
+    const order = splitList(value);
+    requireLevels('--order', given, current, order);
+    apply({ type: 'set-order', column, order });
+  });
+  each('reference', (column, value, given) => {
+    const current = columnNamed(recipe, column);
+    if (current.level !== 'nominal') throw notLevel('--reference', given, current, 'nominal');
+    requireLevels('--reference', given, current, [value]);
+    apply({ type: 'set-reference', column, reference: value });
+  });
+  each('positive', (column, value, given) => {
+    const current = columnNamed(recipe, column);
+    if (current.level !== 'binary') throw notLevel('--positive', given, current, 'binary');
+    requireLevels('--positive', given, current, [value]);
+    apply({ type: 'set-positive', column, positive: value });
+  });
+  const naming = optionValue(args, 'naming');
+  if (naming === 'readable' || naming === 'safe') apply({ type: 'set-naming', naming });
+  return recipe;
+}
+
+function codingDecision(column: string, level: MeasurementLevel, coding: string, given: string): Decision {
+  const allowed = CODINGS[level];
+  if (allowed === undefined || !allowed.includes(coding)) {
+    const hint = allowed === undefined ? `A ${level} column has no coding to choose; write --set ${column}=${level}.` : `For ${level} use one of ${allowed.join(', ')}.`;
+    throw usageFailure(VERB, `--set ${given}: "${coding}" is not a coding of a ${level} column.`, hint);
+  }
+  if (level === 'nominal') return { type: 'set-nominal-coding', column, coding: coding as 'one-hot' };
+  if (level === 'ordinal') return { type: 'set-ordinal-coding', column, coding: coding as 'rank' };
+  return { type: 'set-scaling', column, scaling: coding as 'none' };
+}
+
+/**
+ * "column=value" where the column name may itself hold "=": the first split whose left side is a
+ * column of the file wins.
+ */
+export function splitColumnValue(option: string, given: string, names: readonly string[]): { column: string; value: string } {
+  for (let at = given.indexOf('='); at !== -1; at = given.indexOf('=', at + 1)) {
+    const column = given.slice(0, at);
+    if (names.includes(column)) return { column, value: given.slice(at + 1) };
+  }
+  const column = given.includes('=') ? given.slice(0, given.indexOf('=')) : given;
+  throw usageFailure(
+    VERB,
+    given.includes('=') ? `--${option} ${given}: the file has no column "${column}".` : `--${option} ${given}: write it as column=value.`,
+    `Columns: ${names.slice(0, 12).join(', ')}${names.length > 12 ? ', …' : ''}.`,
+  );
+}
+
+/** "a,b,c" with "\," for a comma inside a level. */
+export function splitList(text: string): string[] {
+  return text.split(/(?<!\\),/).map((part) => part.replace(/\\,/g, ','));
+}
+
+function columnNamed(recipe: Recipe, name: string): ColumnRecipe {
+  const column = recipe.columns.find((c) => c.name === name);
+  if (column === undefined) throw new Error(`no column ${name}`);
+  return column;
+}
+
+function notLevel(option: string, given: string, column: ColumnRecipe, level: MeasurementLevel) {
+  return usageFailure(
+    VERB,
+    `${option} ${given}: "${column.name}" is ${column.level}, and ${option} applies to ${level} columns.`,
+    `Make it ${level} first with --set ${column.name}=${level}.`,
+  );
+}
+
+function requireLevels(option: string, given: string, column: ColumnRecipe, wanted: readonly string[]): void {
+  const levels = 'levels' in column ? column.levels.map((l) => l.value) : [];
+  const unknown = wanted.filter((w) => !levels.includes(w));
+  if (unknown.length === 0) return;
+  const shown = levels.slice(0, 12).map((l) => `"${l}"`).join(', ');
+  throw usageFailure(
+    VERB,
+    `${option} ${given}: "${column.name}" has no level ${unknown.map((u) => `"${u}"`).join(', ')}.`,
+    `Its levels after cleaning: ${shown}${levels.length > 12 ? ', …' : ''}.`,
+  );
+}

@@ -1,0 +1,77 @@
+/**
+ * levelwise profile FILE [--format text|json] [-o OUT]
+ *
+ * What each column holds — missing cells, distinct values, the most frequent levels or the
+ * numbers' summary — and the level of measurement Levelwise would propose, with its reason.
+ */
+import { DEFAULT_MISSING_TOKENS } from '../../core/recipe.ts';
+import { inferLevel, sensitiveAttributeCaution, type Inference } from '../../core/infer.ts';
+import { profileTable, type ColumnProfile } from '../../core/profile.ts';
+import { optionValue, parseArgs, positionals } from '../args.ts';
+import { count, OUTPUT_OPTION, plural, READ_OPTIONS, readSettings } from '../common.ts';
+import { EXIT, type ExitCode } from '../failure.ts';
+import { inputSource, readWholeTable, type ReadSummary } from '../input.ts';
+import { openOutput } from '../output.ts';
+
+const VERB = 'profile';
+const TOP_LEVELS = 5;
+
+export async function profileVerb(argv: readonly string[]): Promise<ExitCode> {
+  const args = parseArgs(VERB, argv, [{ name: 'format', choices: ['text', 'json'] }, OUTPUT_OPTION, ...READ_OPTIONS]);
+  const [filePath = ''] = positionals(VERB, args, ['FILE']);
+  const source = await inputSource(filePath);
+  const { table, summary } = await readWholeTable(source, readSettings(args));
+  const profiles = profileTable(table, { missingTokens: DEFAULT_MISSING_TOKENS });
+  const suggestions = profiles.map((p) => inferLevel(p));
+  const output = openOutput(optionValue(args, 'output'));
+  if (optionValue(args, 'format') === 'json') {
+    const columns = profiles.map((profile, i) => ({ ...profile, suggestion: suggestions[i], caution: sensitiveAttributeCaution(profile.name) }));
+    output.write(`${JSON.stringify({ file: source.fileName, ...summary, columns }, null, 2)}\n`);
+  } else {
+    output.write(profileText(source.label, summary, profiles, suggestions));
+  }
+  await output.close();
+  return EXIT.ok;
+}
+
+function profileText(label: string, summary: ReadSummary, profiles: readonly ColumnProfile[], suggestions: readonly Inference[]): string {
+  const how = summary.encoding === 'xlsx' ? `sheet "${summary.sheet}"` : `${summary.encoding}, ${delimiterName(summary.delimiter)}-separated`;
+  const lines = [`${label}: ${plural(summary.rows, 'row')}, ${plural(profiles.length, 'column')} (${how})`, ''];
+  profiles.forEach((p, i) => {
+    const s = suggestions[i];
+    lines.push(`${p.index + 1}. ${p.name} — ${s?.level ?? '?'}: ${s?.reason ?? ''}`);
+    lines.push(`   ${count(p.missing)} missing${spellings(p)}, ${count(p.distinct)} distinct`);
+    const detail = p.numeric !== null && p.numeric.share >= 0.5 ? numbersLine(p) : p.flags.identifier ? '' : levelsLine(p);
+    if (detail !== '') lines.push(`   ${detail}`);
+    const caution = sensitiveAttributeCaution(p.name);
+    if (caution !== null) lines.push(`   Caution: ${caution}.`);
+  });
+  return `${lines.join('\n')}\n`;
+}
+
+function spellings(p: ColumnProfile): string {
+  if (p.missingSpellings.length === 0) return '';
+  return ` (${p.missingSpellings.map((s) => `${s.value.trim() === '' ? 'empty' : `"${s.value}"`} ${count(s.count)}`).join(', ')})`;
+}
+
+function numbersLine(p: ColumnProfile): string {
+  const n = p.numeric;
+  if (n === null) return '';
+  const stray = n.invalidCount > 0 ? `; ${count(n.invalidCount)} not numbers, e.g. ${[...new Set(n.invalidExamples.map((e) => `"${e.text}"`))].slice(0, 3).join(', ')}` : '';
+  return `numbers: min ${show(n.min)}, max ${show(n.max)}, mean ${show(n.mean)}, sd ${show(n.sd)}, median ${show(n.median)}${stray}`;
+}
+
+function levelsLine(p: ColumnProfile): string {
+  if (p.levels === null || p.levels.length === 0) return '';
+  const top = p.levels.slice(0, TOP_LEVELS).map((l) => `"${l.value}" ${count(l.count)}`);
+  const more = p.levels.length > TOP_LEVELS ? `, and ${plural(p.levels.length - TOP_LEVELS, 'more level')}` : '';
+  return `most frequent: ${top.join(', ')}${more}`;
+}
+
+function show(x: number): string {
+  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(6)));
+}
+
+function delimiterName(delimiter: string | null): string {
+  return delimiter === '\t' ? 'tab' : delimiter === ';' ? 'semicolon' : delimiter === '|' ? 'pipe' : 'comma';
+}

@@ -1,0 +1,48 @@
+import { describe, expect, it } from 'vitest';
+import { renderTable, rssVerdict, sizeVerdicts, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
+
+const MB = 1e6;
+
+function size(rows: number, bytes: number, seconds: { parse?: number; profile?: number; apply: number; rss: number }): SizeResult {
+  const parse = seconds.parse === undefined ? null : timing([seconds.parse], bytes);
+  const profile = seconds.profile === undefined ? null : { ...timing([seconds.profile], bytes), phasesSeconds: {} };
+  const apply = { ...timing([seconds.apply], bytes), runsPeakRssBytes: [seconds.rss], peakRssBytes: seconds.rss, bytesWritten: null };
+  return { rows, file: `household-${rows}.csv`, bytes, parse, profile, apply, tableMemory: null, ...sizeVerdicts(parse, profile, apply) };
+}
+
+describe('benchmark report', () => {
+  // 1M rows: 120 MB parsed in 1 s, profiled in 5 s, applied in 2.4 s; 4M rows applied with 390 MB peak RSS.
+  const sizes = [size(1_000_000, 120 * MB, { parse: 1, profile: 5, apply: 2.4, rss: 325 * MB }), size(4_000_000, 480 * MB, { apply: 9.6, rss: 390 * MB })];
+
+  it('judges each ratio against its target', () => {
+    const [reference] = sizes;
+    expect(reference?.profileOverParse).toEqual({ value: 5, target: 1.3, pass: false });
+    expect(reference?.applyOverParse.value).toBeCloseTo(2.4, 10);
+    expect(reference?.applyOverParse.pass).toBe(false);
+    const rss = rssVerdict(sizes, 1_000_000);
+    expect(rss.largeRows).toBe(4_000_000);
+    expect(rss.value).toBeCloseTo(1.2, 10);
+    expect(rss.pass).toBe(true);
+  });
+
+  it('has no memory verdict without a size above 1M rows', () => {
+    expect(rssVerdict(sizes.slice(0, 1), 1_000_000)).toEqual({ value: NaN, target: 1.2, pass: null, largeRows: null });
+  });
+
+  it('prints one row per size, with dashes where a path was not measured', () => {
+    const rows = tableRows({ sizes, rssLargeOverReference: rssVerdict(sizes, 1_000_000) });
+    expect(rows[0]).toEqual(['1,000,000', '120.0', '120.0', '24.0', '5.00× FAIL', '50.0', '2.40× FAIL', '—', '325 MB', '—']);
+    expect(rows[1]).toEqual(['4,000,000', '480.0', '—', '—', '—', '50.0', '—', '—', '390 MB', '1.20× pass']);
+  });
+
+  it('writes verdicts as ratio and outcome', () => {
+    expect(verdictCell({ value: 1.234, target: 1.3, pass: true })).toBe('1.23× pass');
+    expect(verdictCell({ value: NaN, target: 1.3, pass: null })).toBe('—');
+  });
+
+  it('right-aligns every column to its widest cell', () => {
+    expect(renderTable(['rows', 'MB/s'], [['10', '1.5'], ['1,000', '12.25']])).toBe(
+      [' rows   MB/s', '-----  -----', '   10    1.5', '1,000  12.25'].join('\n'),
+    );
+  });
+});
