@@ -19,8 +19,10 @@ export interface ProfileTiming extends Timing {
 export interface ApplyTiming extends Timing {
   readonly runsPeakRssBytes: readonly number[];
   readonly peakRssBytes: number;
-  /** Bytes of CSV written by one run. */
+  /** Bytes of CSV written by one run (known for the in-process path). */
   readonly bytesWritten: number | null;
+  /** Through the command line: MB/s with its start-up time taken out of the median. */
+  readonly mbPerSecondExcludingStartup: number | null;
 }
 
 export interface TableMemory {
@@ -50,6 +52,8 @@ export type ApplyPath =
 
 export interface BenchResults {
   readonly machine: Machine;
+  /** The 1-minute load average when the measurements started and ended: how busy the machine was. */
+  readonly loadAverage: { readonly start: number; readonly end: number };
   readonly reps: number;
   readonly applyPath: ApplyPath;
   readonly recipe: string;

@@ -51,7 +51,7 @@ function standardOutput(): Output {
     },
     async drained() {
       check();
-      if (process.stdout.writableNeedDrain) await Promise.race([once(process.stdout, 'drain'), once(process.stdout, 'error')]);
+      await drain(process.stdout);
       check();
     },
     async restart() {
@@ -59,7 +59,8 @@ function standardOutput(): Output {
     },
     async close() {
       check();
-      if (process.stdout.writableNeedDrain) await once(process.stdout, 'drain');
+      await drain(process.stdout);
+      check();
     },
     async discard() {},
   };
@@ -93,7 +94,7 @@ function fileOutput(path: string): Output {
     },
     async drained() {
       check();
-      if (stream.writableNeedDrain) await Promise.race([once(stream, 'drain'), once(stream, 'error').catch(() => undefined)]);
+      await drain(stream);
       check();
     },
     async restart() {
@@ -116,6 +117,12 @@ function fileOutput(path: string): Output {
       await rm(partial, { force: true });
     },
   };
+}
+
+/** Waits until `stream` takes more bytes; an error ends the wait (the stream's error listener keeps it). */
+async function drain(stream: NodeJS.WritableStream & { writableNeedDrain: boolean }): Promise<void> {
+  if (!stream.writableNeedDrain) return;
+  await once(stream, 'drain').catch(() => undefined);
 }
 
 function writeFailure(path: string, error: unknown): CliFailure {

@@ -6,7 +6,7 @@ const MB = 1e6;
 function size(rows: number, bytes: number, seconds: { parse?: number; profile?: number; apply: number; rss: number }): SizeResult {
   const parse = seconds.parse === undefined ? null : timing([seconds.parse], bytes);
   const profile = seconds.profile === undefined ? null : { ...timing([seconds.profile], bytes), phasesSeconds: {} };
-  const apply = { ...timing([seconds.apply], bytes), runsPeakRssBytes: [seconds.rss], peakRssBytes: seconds.rss, bytesWritten: null };
+  const apply = { ...timing([seconds.apply], bytes), runsPeakRssBytes: [seconds.rss], peakRssBytes: seconds.rss, bytesWritten: null, mbPerSecondExcludingStartup: null };
   return { rows, file: `household-${rows}.csv`, bytes, parse, profile, apply, tableMemory: null, ...sizeVerdicts(parse, profile, apply) };
 }
 
