@@ -202,11 +202,17 @@ function describeApplyPath(path: ApplyPath): string {
   return `apply measured through the command line (${path.command}), start-up ${path.startupSeconds.toFixed(2)} s included; ${match}`;
 }
 
+function loadLine({ loadAverage, machine }: BenchResults): string {
+  const line = `load average (1 min) at start ${loadAverage.start.toFixed(1)}, at end ${loadAverage.end.toFixed(1)}`;
+  const busy = Math.max(loadAverage.start, loadAverage.end) > machine.cores;
+  return busy ? `${line}: above the core count, so other work shared the machine and every MB/s is low; the side-by-side ratios still compare` : line;
+}
+
 function printResults(results: BenchResults): void {
   const lines = [
     `Levelwise benchmark — median of ${results.reps} runs each`,
     `machine: ${machineLine(results.machine)}`,
-    `load average (1 min) at start ${results.loadAverage.start.toFixed(1)}, at end ${results.loadAverage.end.toFixed(1)}: above the core count, other work shared the machine and every MB/s is low; the side-by-side ratios still compare`,
+    loadLine(results),
     describeApplyPath(results.applyPath),
     `recipe: ${results.recipe}`,
     '',
@@ -254,14 +260,14 @@ async function whereTimeGoes(applyPath: ApplyPath, recipeFile: string): Promise<
   const out: string[] = [`CPU profiles of ${shown(file)} — ${machineLine(describeMachine())}`, `(.cpuprofile files kept in ${keep}; open them in Chrome DevTools)`];
   summaries.forEach((summary, i) => {
     out.push('', `${titles[i]}: ${(summary.busyMilliseconds / 1000).toFixed(2)} s busy of ${(summary.wallMilliseconds / 1000).toFixed(2)} s`);
-    out.push(renderTable(['self ms', 'share', 'function (self time)'], summary.functions.map(selfRow)));
-    out.push('', renderTable(['self ms', 'share', 'file (self time)'], summary.files.slice(0, 10).map(selfRow)));
+    out.push(renderTable(['self ms', 'share', 'function (self time)'], summary.functions.map(selfRow), [2]));
+    out.push('', renderTable(['self ms', 'share', 'file (self time)'], summary.files.slice(0, 10).map(selfRow), [2]));
   });
   console.log(out.join('\n'));
 }
 
 function selfRow(entry: { label: string; milliseconds: number; share: number }): string[] {
-  return [entry.milliseconds.toFixed(0), `${(entry.share * 100).toFixed(1)}%`, entry.label.padEnd(60)];
+  return [entry.milliseconds.toFixed(0), `${(entry.share * 100).toFixed(1)}%`, entry.label];
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -134,10 +134,11 @@ export function tableRows(results: Pick<BenchResults, 'sizes' | 'rssLargeOverRef
   });
 }
 
-/** Columns padded to their widest cell; numbers right-aligned, the header too. */
-export function renderTable(header: readonly string[], rows: readonly (readonly string[])[]): string {
+/** Columns padded to their widest cell: right-aligned (numbers), except those listed in `leftAligned`. */
+export function renderTable(header: readonly string[], rows: readonly (readonly string[])[], leftAligned: readonly number[] = []): string {
   const widths = header.map((title, c) => Math.max(title.length, ...rows.map((row) => (row[c] ?? '').length)));
-  const line = (cells: readonly string[]): string => cells.map((cell, c) => cell.padStart(widths[c] ?? 0)).join('  ');
+  const pad = (cell: string, c: number): string => (leftAligned.includes(c) ? cell.padEnd(widths[c] ?? 0) : cell.padStart(widths[c] ?? 0));
+  const line = (cells: readonly string[]): string => cells.map(pad).join('  ').trimEnd();
   const rule = widths.map((w) => '-'.repeat(w)).join('  ');
   return [line(header), rule, ...rows.map(line)].join('\n');
 }

@@ -139,8 +139,8 @@ export async function readWholeTable(source: InputSource, settings: ReadSettings
 }
 
 export interface BatchHandlers {
-  /** Rows [start, end) of `table` are ready; called in order, rows numbered from 0 across batches. */
-  onBatch(table: Table, start: number, end: number): void;
+  /** Rows [start, end) of `table` are ready, in order; row 0 of `table` is row `firstRow` of the file. */
+  onBatch(table: Table, start: number, end: number, firstRow: number): void;
   /** After each chunk of input: wait for the output to drain, show progress. */
   afterChunk(bytesRead: number, rowsRead: number): Promise<void>;
   /**
@@ -205,8 +205,8 @@ async function readText(
       ? {}
       : {
           batchRows,
-          onBatch: (batch: Table) => {
-            handlers.onBatch(batch, 0, batch.rowCount);
+          onBatch: (batch: Table, firstRow: number) => {
+            handlers.onBatch(batch, 0, batch.rowCount, firstRow);
             rows += batch.rowCount;
           },
         }),
@@ -216,7 +216,7 @@ async function readText(
     await handlers.afterChunk(reader.bytesRead, rows);
   }
   const result: ReadResult = reader.finish();
-  if (batchRows === null) handlers.onBatch(result.table, 0, result.table.rowCount);
+  if (batchRows === null) handlers.onBatch(result.table, 0, result.table.rowCount, 0);
   return { names: result.table.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null };
 }
 
@@ -249,7 +249,7 @@ async function readWorkbook(
   const { table } = tableFromRows(chosen.data.map((row) => row.map(cellToText)));
   const step = batchRows ?? Math.max(1, table.rowCount);
   for (let start = 0; start < table.rowCount || start === 0; start += step) {
-    handlers.onBatch(table, start, Math.min(table.rowCount, start + step));
+    handlers.onBatch(table, start, Math.min(table.rowCount, start + step), 0);
     await handlers.afterChunk(0, Math.min(table.rowCount, start + step));
     if (table.rowCount === 0) break;
   }

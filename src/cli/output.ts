@@ -1,11 +1,11 @@
 /**
- * Where results go: a file, or "-" / nothing for standard output. A file is written under a
- * temporary name beside it and renamed when complete, so a scheduled job never picks up half a
- * file; on failure the partial file is removed. Writes wait for the stream to drain, so memory
+ * Where results go: a file, or "-" / nothing for standard output. A plain file is written under
+ * a temporary name beside it and renamed when complete, so a scheduled job never picks up half a
+ * file; on failure the partial file is removed. Devices, pipes and links are written in place. Writes wait for the stream to drain, so memory
  * stays flat however large the output grows.
  */
 import { once } from 'node:events';
-import { createWriteStream, type WriteStream } from 'node:fs';
+import { createWriteStream, lstatSync, type WriteStream } from 'node:fs';
 import { rename, rm } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { CliFailure } from './failure.ts';
@@ -29,7 +29,21 @@ export interface Output {
 export class OutputClosed extends Error {}
 
 export function openOutput(path: string | undefined): Output {
-  return path === undefined || path === '-' ? standardOutput() : fileOutput(path);
+  if (path === undefined || path === '-') return standardOutput();
+  return replacesRegularFile(path) ? fileOutput(path) : directOutput(path);
+}
+
+/**
+ * Only a new path or a plain file is written beside and renamed: a device (/dev/null), a named
+ * pipe or a symbolic link must be written through, never replaced.
+ */
+function replacesRegularFile(path: string): boolean {
+  try {
+    const info = lstatSync(path);
+    return info.isFile() && !info.isSymbolicLink();
+  } catch {
+    return true;
+  }
 }
 
 function standardOutput(): Output {
@@ -67,12 +81,21 @@ function standardOutput(): Output {
 }
 
 function fileOutput(path: string): Output {
-  const partial = join(dirname(path), `.${basename(path)}.${process.pid}.partial`);
+  return streamOutput(path, join(dirname(path), `.${basename(path)}.${process.pid}.partial`));
+}
+
+/** Written in place: what is already there (a device, a pipe, a link's target) stays. */
+function directOutput(path: string): Output {
+  return streamOutput(path, null);
+}
+
+function streamOutput(path: string, partial: string | null): Output {
+  const target = partial ?? path;
   let stream: WriteStream = open();
   let failure: unknown = null;
 
   function open(): WriteStream {
-    const s = createWriteStream(partial);
+    const s = createWriteStream(target);
     s.on('error', (error) => {
       failure ??= error;
     });
@@ -98,6 +121,8 @@ function fileOutput(path: string): Output {
       check();
     },
     async restart() {
+      // A pipe or device cannot take back what it was given.
+      if (partial === null) return false;
       await end(stream);
       check();
       stream = open();
@@ -106,6 +131,7 @@ function fileOutput(path: string): Output {
     async close() {
       await end(stream);
       check();
+      if (partial === null) return;
       try {
         await rename(partial, path);
       } catch (error) {
@@ -114,7 +140,7 @@ function fileOutput(path: string): Output {
     },
     async discard() {
       await end(stream);
-      await rm(partial, { force: true });
+      if (partial !== null) await rm(partial, { force: true });
     },
   };
 }

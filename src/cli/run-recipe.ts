@@ -14,6 +14,7 @@ import { createProgress } from './progress.ts';
 
 /** One rejected row of a batch: its row in the batch's table, file line, the first column at fault and why. */
 export interface Rejection {
+  /** Row of the batch's table (for its cells). */
   readonly row: number;
   readonly line: number;
   readonly column: string;
@@ -42,12 +43,13 @@ export async function runRecipe(
   const progress = createProgress(`levelwise ${verb}`, source.size);
   try {
     const summary = await readBatches(source, settings, batchRows(), {
-      onBatch(table, start, end) {
+      onBatch(table, start, end, firstRow) {
         if (plan === null || report === null) {
           plan = compilePlan(recipe, table.names);
           report = rejectionTee(createApplyReport(plan));
           hooks.start(plan);
         }
+        report.startBatch(firstRow);
         const encoded = encodeBatch(plan, table, start, end, report);
         hooks.batch(plan, encoded, table, report.take());
       },
@@ -69,14 +71,19 @@ export async function runRecipe(
 }
 
 /**
- * Passes every cell outcome on to the report and keeps the rejected rows of the current batch:
- * the report lists only the first MAX_REJECTED_LISTED, the rejects file needs them all.
+ * Passes every cell outcome on to the report, numbering rows from the start of the file (a batch's
+ * table numbers them from its own start), and keeps the rejected rows of the current batch: the
+ * report lists only the first MAX_REJECTED_LISTED, the rejects file needs them all.
  */
-function rejectionTee(inner: ApplyReportBuilder): ApplyReportBuilder & { take(): Rejection[] } {
+function rejectionTee(inner: ApplyReportBuilder): ApplyReportBuilder & { startBatch(firstRow: number): void; take(): Rejection[] } {
   let pending = new Map<number, Rejection>();
+  let firstRowOfBatch = 0;
   return {
+    startBatch(firstRow) {
+      firstRowOfBatch = firstRow;
+    },
     cell(columnPlan, row, line, text, outcome) {
-      inner.cell(columnPlan, row, line, text, outcome);
+      inner.cell(columnPlan, firstRowOfBatch + row, line, text, outcome);
       if (outcome.reject !== null && !pending.has(row)) pending.set(row, { row, line, column: columnPlan.recipe.name, reason: outcome.reject });
     },
     rowsDone(rows, rejected) {

@@ -4,7 +4,8 @@
  * a number and stays one.
  */
 
-const FORMULA_START = /^[=+\-@\t\r]/;
+/** OWASP "CSV Injection": =, +, -, @, tab and CR; and LF, so no cell opens with a line break before a formula (common practice). */
+const FORMULA_START = /^[=+\-@\t\r\n]/;
 const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const NEEDS_QUOTES = /[",\r\n]/;
 

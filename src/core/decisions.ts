@@ -3,8 +3,9 @@
  * (recipe, decision, profiles) → new recipe; the page's undo history, the worker and the command
  * line's options all go through it, so a decision means the same thing everywhere.
  */
-import { draftColumn, refitColumn, SET_BY_HAND } from './fit.ts';
+import { draftColumn, levelsOverLimit, refitColumn, SET_BY_HAND } from './fit.ts';
 import { inferLevel } from './infer.ts';
+import { wideDraftNote } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
 import type { ColumnProfile } from './profile.ts';
 import type {
@@ -113,7 +114,9 @@ function changeLevel(column: ColumnRecipe, level: MeasurementLevel, profile: Col
   const inference = inferLevel(profile);
   const cleaning = isCategorical(column) ? column.cleaning : inference.cleaning;
   const drafted = draftColumn(profile, level, { ...inference, cleaning });
-  return { ...drafted, reason: SET_BY_HAND };
+  // A nominal column too wide to encode whole is drafted with its rare levels grouped: say so.
+  const wide = level === 'nominal' ? levelsOverLimit(profile, cleaning) : null;
+  return { ...drafted, reason: wide === null ? SET_BY_HAND : SET_BY_HAND + wideDraftNote(wide) };
 }
 
 /** Levels named in `order` move to the front in that order; any others keep their relative order after them. */

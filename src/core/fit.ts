@@ -5,6 +5,7 @@
  */
 import { cleanLevels } from './cleaning.ts';
 import { inferLevel, type Inference } from './infer.ts';
+import { MAX_CATEGORICAL_LEVELS, WIDE_DRAFT_KEEP_TOP, tooManyLevelsError, wideDraftNote } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
 import type { ColumnProfile, LevelCount } from './profile.ts';
 import {
@@ -75,18 +76,21 @@ export function draftColumn(profile: ColumnProfile, level?: MeasurementLevel, in
         },
         profile,
       );
-    case 'nominal':
+    case 'nominal': {
+      const wide = levelsOverLimit(profile, inference.cleaning);
       return refitColumn(
         {
           ...base,
           ...categoricalDefaults(inference.cleaning, hasMissing),
+          ...(wide === null ? {} : { reason: base.reason + wideDraftNote(wide) }),
           level: 'nominal',
           coding: 'one-hot',
           reference: null,
-          rare: { minCount: null, minShare: null, keepTop: null },
+          rare: { minCount: null, minShare: null, keepTop: wide === null ? null : WIDE_DRAFT_KEEP_TOP },
         },
         profile,
       );
+    }
     case 'ordinal':
       return refitColumn(
         {
@@ -113,6 +117,16 @@ export function draftColumn(profile: ColumnProfile, level?: MeasurementLevel, in
         profile,
       );
   }
+}
+
+/**
+ * The number of levels a nominal column of `profile` would have with `cleaning` and no grouping
+ * (its missing level included), when that is more than a column can encode; null when it fits.
+ */
+export function levelsOverLimit(profile: ColumnProfile, cleaning: Cleaning): number | null {
+  if (profile.levels === null || profile.levels.length + 1 <= MAX_CATEGORICAL_LEVELS) return null;
+  const levels = cleanLevels(profile.levels, cleaning).length + (profile.missing > 0 ? 1 : 0);
+  return levels > MAX_CATEGORICAL_LEVELS ? levels : null;
 }
 
 function categoricalDefaults(cleaning: Cleaning, hasMissing: boolean) {
@@ -159,6 +173,7 @@ function refitNominal(column: NominalColumn, profile: ColumnProfile): NominalCol
   const levels: FittedLevel[] = [...kept];
   if (grouped.length > 0 || column.unseen === 'other') levels.push({ value: column.otherLabel, count: otherCount });
   addMissingLevel(levels, column, profile);
+  if (levels.length > MAX_CATEGORICAL_LEVELS) throw tooManyLevelsError(column.name, levels.length);
   const values = levels.map((l) => l.value);
   const reference = column.reference !== null && values.includes(column.reference) ? column.reference : (values[0] ?? null);
   return { ...column, levels, grouped: grouped.map((l) => l.value), reference, fittedRows: profile.count };
@@ -189,6 +204,7 @@ function refitOrdinal(column: OrdinalColumn, profile: ColumnProfile): OrdinalCol
   const counted = new Map(cleanLevels(profile.levels ?? [], column.cleaning).map((l) => [l.value, l.count]));
   if (column.missing.policy === 'level') counted.set(MISSING_LEVEL, (counted.get(MISSING_LEVEL) ?? 0) + profile.missing);
   if (column.unseen === 'other' && !counted.has(column.otherLabel)) counted.set(column.otherLabel, 0);
+  if (counted.size > MAX_CATEGORICAL_LEVELS) throw tooManyLevelsError(column.name, counted.size);
   const previousOrder = column.levels.map((l) => l.value).filter((v) => counted.has(v));
   const order = [...new Set(previousOrder)];
   for (const value of counted.keys()) if (!order.includes(value)) order.push(value);
@@ -206,6 +222,7 @@ function refitOrdinal(column: OrdinalColumn, profile: ColumnProfile): OrdinalCol
 function refitBinary(column: BinaryColumn, profile: ColumnProfile): BinaryColumn {
   const levels: FittedLevel[] = cleanLevels(profile.levels ?? [], column.cleaning);
   addMissingLevel(levels, column, profile);
+  if (levels.length > MAX_CATEGORICAL_LEVELS) throw tooManyLevelsError(column.name, levels.length);
   const values = levels.map((l) => l.value);
   // Without a stated positive class, the less frequent of the first two levels is the event coded 1.
   const positive = values.includes(column.positive) ? column.positive : (values[1] ?? values[0] ?? '');

@@ -28,8 +28,11 @@ export interface NumericSummary {
   readonly median: number;
   /** Non-missing cells that did not read as numbers. */
   readonly invalidCount: number;
-  /** The first of them (at most 100): 0-based data row and raw text. */
-  readonly invalidExamples: readonly { readonly row: number; readonly text: string }[];
+  /**
+   * The first of them (at most 100): 0-based data row and raw text; `line` is the 1-based line of
+   * the file the row starts on, filled in by profileTable (a lone column does not know its lines).
+   */
+  readonly invalidExamples: readonly { readonly row: number; readonly text: string; readonly line?: number }[];
   /**
    * Equal-width histogram over [min, max]: HISTOGRAM_BINS bins (edges has one more entry), the
    * last bin closed on the right. When min = max there is a single bin holding every number.
@@ -140,7 +143,18 @@ export function profileColumn(
 }
 
 export function profileTable(table: Table, options: ProfileOptions = DEFAULT_PROFILE_OPTIONS): ColumnProfile[] {
-  return table.columns.map((column, index) => profileColumn(column, index, options));
+  return table.columns.map((column, index) => withInvalidLines(profileColumn(column, index, options), table.lineOfRow));
+}
+
+/** Invalid cells are told by the file line a person finds them on, not only by row index. */
+function withInvalidLines(profile: ColumnProfile, lineOfRow: Uint32Array): ColumnProfile {
+  const numeric = profile.numeric;
+  if (numeric === null || numeric.invalidExamples.length === 0) return profile;
+  const invalidExamples = numeric.invalidExamples.map((e) => {
+    const line = lineOfRow[e.row];
+    return line === undefined ? e : { ...e, line };
+  });
+  return { ...profile, numeric: { ...numeric, invalidExamples } };
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -3,6 +3,8 @@
  * messages a person understands: which field, what was expected, what was found.
  */
 import type { z } from 'zod';
+import { jsonErrorPosition } from './json-position.ts';
+import { MAX_CATEGORICAL_LEVELS } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
 import { Recipe, RECIPE_KIND, RECIPE_VERSION } from './recipe.ts';
 
@@ -13,14 +15,14 @@ export const MAX_RECIPE_BYTES = 64 * 1024 * 1024;
 const MAX_LISTED_ERRORS = 20;
 
 export function parseRecipe(text: string): RecipeParse {
-  if (text.length > MAX_RECIPE_BYTES) {
-    return { ok: false, errors: [`The recipe is ${Math.round(text.length / 1e6)} MB; recipes are at most ${MAX_RECIPE_BYTES / 1e6} MB. Is this the right file?`] };
-  }
+  if (text.length > MAX_RECIPE_BYTES) return { ok: false, errors: [recipeTooLargeMessage(text.length)] };
+  // A byte order mark some editors write is not part of the JSON.
+  const json = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   let data: unknown;
   try {
-    data = JSON.parse(text);
+    data = JSON.parse(json);
   } catch (error) {
-    return { ok: false, errors: [`The recipe is not valid JSON (${(error as Error).message}). Open it in a text editor, or make a new one in the workbench.`] };
+    return { ok: false, errors: [invalidJsonMessage(json, error)] };
   }
   const header = checkHeader(data);
   if (header) return { ok: false, errors: [header] };
@@ -34,14 +36,35 @@ export function parseRecipe(text: string): RecipeParse {
   return { ok: false, errors };
 }
 
+/** Whole megabytes of 2^20 bytes, as the limit is stated. */
+function megabytes(bytes: number): string {
+  return `${Math.ceil(bytes / 2 ** 20).toLocaleString('en-US')} MB`;
+}
+
+/** Also for callers that know a file's size before reading it (the page checks File.size). */
+export function recipeTooLargeMessage(bytes: number): string {
+  return `The recipe file is ${megabytes(bytes)}; a recipe is at most ${megabytes(MAX_RECIPE_BYTES)}. Is this the right file? A recipe is the .json file Levelwise saved.`;
+}
+
+/** What JSON.parse said, without its engine-specific position, and where the text stops being JSON. */
+function invalidJsonMessage(text: string, error: unknown): string {
+  if (text.trim() === '') return 'The recipe file is empty. Choose the .json file Levelwise saved, or make a new recipe in the workbench.';
+  const what = (error instanceof Error ? error.message : String(error)).replace(/,? (?:in JSON )?at position \d+.*$/s, '');
+  const position = jsonErrorPosition(text);
+  const where = position === null ? '' : ` at line ${position.line}, column ${position.column}`;
+  return `The recipe is not valid JSON${where}: ${what.replace(/\.$/, '')}. Open it in a text editor and fix it there, or make a new recipe in the workbench.`;
+}
+
 /** Says early, in one line, when the document is not a recipe at all or is of another version. */
 function checkHeader(data: unknown): string | null {
   if (typeof data !== 'object' || data === null || Array.isArray(data)) return 'A recipe is a JSON object; this file holds something else.';
   const kind = (data as Record<string, unknown>)['kind'];
   const version = (data as Record<string, unknown>)['version'];
   if (kind !== RECIPE_KIND) return `This is not a Levelwise recipe: "kind" should be "${RECIPE_KIND}", found ${JSON.stringify(kind) ?? 'nothing'}.`;
+  if (version === undefined) return `This recipe has no "version" field; this Levelwise reads version ${RECIPE_VERSION}. Make the recipe again with this version.`;
   if (version !== RECIPE_VERSION) {
-    return `This recipe has format version ${JSON.stringify(version)}; this Levelwise reads version ${RECIPE_VERSION}. Make the recipe again with this version.`;
+    const newer = typeof version === 'number' && version > RECIPE_VERSION ? ' It was made by a newer Levelwise: use that one, or' : '';
+    return `This recipe has format version ${JSON.stringify(version) ?? String(version)} ("version"); this Levelwise reads version ${RECIPE_VERSION}.${newer || ''}${newer ? ' make' : ' Make'} the recipe again with this version.`;
   }
   return null;
 }
@@ -57,6 +80,7 @@ function describeIssue(issue: z.core.$ZodIssue, data: unknown): string {
         ? `${where}: missing; expected ${issue.expected}.`
         : `${where}: expected ${issue.expected}, found ${describeValue(found)}.`;
     case 'invalid_value':
+      if (found === undefined) return `${where}: missing; expected one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}.`;
       return `${where}: expected one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}, found ${describeValue(found)}.`;
     case 'invalid_union':
       return `${where}: not a valid column entry (check "level" and the fields that belong to it).`;
@@ -94,10 +118,11 @@ function valueAt(data: unknown, path: readonly PropertyKey[]): unknown {
 }
 
 function describeValue(value: unknown): string {
+  if (value === undefined) return 'nothing';
   if (value === null) return 'null';
   if (Array.isArray(value)) return 'a list';
   if (typeof value === 'object') return 'an object';
-  const text = JSON.stringify(value);
+  const text = JSON.stringify(value) ?? String(value);
   return text.length > 60 ? `${text.slice(0, 57)}…` : text;
 }
 
@@ -111,6 +136,9 @@ export function stringifyRecipe(recipe: Recipe): string {
  * names, a reference or positive level that exists, one score per level.
  */
 export function consistencyProblems(recipe: Recipe): string[] {
+  // Naming lays out each column's code table, which a column over the level limit must not reach.
+  const overLimit = levelLimitProblems(recipe);
+  if (overLimit.length > 0) return overLimit;
   const problems: string[] = [];
   const expected = nameOutputs(recipe);
   const seen = new Set<string>();
@@ -139,4 +167,15 @@ export function consistencyProblems(recipe: Recipe): string[] {
     }
   });
   return problems;
+}
+
+function levelLimitProblems(recipe: Recipe): string[] {
+  return recipe.columns.flatMap((column, i) =>
+    'levels' in column && column.levels.length > MAX_CATEGORICAL_LEVELS
+      ? [
+          `columns[${i}] ("${column.name}").levels: ${column.levels.length.toLocaleString('en-US')} levels; a column can be encoded ` +
+            `with at most ${MAX_CATEGORICAL_LEVELS.toLocaleString('en-US')}. Group its rare levels (keep the most frequent) in the workbench, or with "levelwise draft --keep-top".`,
+        ]
+      : [],
+  );
 }

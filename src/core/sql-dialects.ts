@@ -1,7 +1,8 @@
 /**
  * What differs between the SQL engines a recipe is compiled for: how a text literal carries control
  * characters, how white space is trimmed, how a number is recognised and read, how an exact double
- * is written. Everything else in sql.ts is plain SQL that DuckDB, PostgreSQL and SQLite all accept.
+ * is written. Everything else in sql.ts is plain SQL that every dialect accepts (its GLOB checks run
+ * only for SQLite, the one engine here without regular expressions).
  *
  * Limits, stated once (docs/cli.md repeats them for users):
  * - Trimming: JavaScript's trim() removes 25 white-space characters (space, tab, LF, CR, VT, FF,
@@ -129,13 +130,14 @@ const duckdb: SqlDialect = {
   trim: (expr) => `trim(${expr}, ${quoteIdentifier(SETUP_CTE)}.${BLANK})`,
   lower: (expr) => `lower(${expr})`,
   number: castNumber('DOUBLE'),
-  regex: (expr, pattern) => `CASE WHEN regexp_full_match(${expr}, ${duckdbText(pattern.re2)}) THEN 1 ELSE 0 END`,
+  regex: (expr, pattern) => `CASE WHEN regexp_full_match(${expr}, ${plainText(pattern.re2)}) THEN 1 ELSE 0 END`,
   toDouble: (expr) => `TRY_CAST(${expr} AS DOUBLE)`,
   isFinite: (expr) => `CASE WHEN isfinite(${expr}) THEN 1 ELSE 0 END`,
   setup: [['lw_blank', chrList(JS_TRIM_CODE_POINTS)]],
 };
 
-function duckdbText(value: string): string {
+/** A literal written as is (regular expressions hold no control characters). */
+function plainText(value: string): string {
   return `'${value.replace(/'/g, "''")}'`;
 }
 
@@ -148,7 +150,7 @@ const postgres: SqlDialect = {
   trim: (expr) => `btrim(${expr}, ${quoteIdentifier(SETUP_CTE)}.${BLANK})`,
   lower: (expr) => `lower(${expr})`,
   number: castNumber('DOUBLE PRECISION'),
-  regex: (expr, pattern) => `CASE WHEN ${expr} ~ '${pattern.are.replace(/'/g, "''")}' THEN 1 ELSE 0 END`,
+  regex: (expr, pattern) => `CASE WHEN ${expr} ~ ${plainText(pattern.are)} THEN 1 ELSE 0 END`,
   // Short plain decimals are read directly. Anything that could overflow or underflow a double goes
   // through NUMERIC first: PostgreSQL raises an error (stopping the whole query) where JavaScript
   // gives Infinity (not a number for us) or 0.
@@ -186,7 +188,7 @@ const ansi: SqlDialect = {
   trim: (expr) => `TRIM(BOTH ' ' FROM ${expr})`,
   lower: (expr) => `LOWER(${expr})`,
   number: castNumber('DOUBLE PRECISION'),
-  regex: (expr, pattern) => `CASE WHEN ${expr} SIMILAR TO '${pattern.similar.replace(/'/g, "''")}' THEN 1 ELSE 0 END`,
+  regex: (expr, pattern) => `CASE WHEN ${expr} SIMILAR TO ${plainText(pattern.similar)} THEN 1 ELSE 0 END`,
   toDouble: (expr) => `CAST(${expr} AS DOUBLE PRECISION)`,
   isFinite: (expr) => `CASE WHEN ${expr} IS NOT NULL THEN 1 ELSE 0 END`,
   setup: [],

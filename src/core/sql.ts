@@ -114,9 +114,10 @@ export function compileSql(recipe: Recipe, options: SqlOptions): string {
 
 function checkTableName(parts: readonly string[]): void {
   if (parts.length === 0 || parts.some((p) => p === '')) throw new Error('Name the table to read, e.g. households or analytics.households.');
-  const last = parts[parts.length - 1] ?? '';
-  if (last.toLowerCase().startsWith('__levelwise_')) {
-    throw new Error(`The table name "${last}" clashes with the names the query uses for its steps (__levelwise_…); rename or qualify it.`);
+  // An unqualified name could be taken for one of the query's own steps; a qualified one cannot.
+  const [only] = parts;
+  if (parts.length === 1 && only !== undefined && only.toLowerCase().startsWith('__levelwise_')) {
+    throw new Error(`The table name "${only}" clashes with the names the query uses for its steps (__levelwise_…); rename it or give its schema.`);
   }
 }
 

@@ -54,6 +54,8 @@ export interface OpenRequest {
   readonly delimiter?: Recipe['reading']['delimiter'];
   /** Draft a recipe for the table (the work slot); the re-use slot gets its recipe from the person. */
   readonly draft: boolean;
+  /** Largest file to open, in bytes, instead of the page's limit (worker/page-limits.ts); for tests. */
+  readonly maxBytes?: number;
 }
 
 export interface OpenedTable {

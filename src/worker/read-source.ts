@@ -8,6 +8,7 @@ import readXlsxFile from 'read-excel-file/web-worker';
 import { readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
+import { pageLimit, tooLargeForPage } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
 
 export interface ReadProgress {
@@ -25,6 +26,8 @@ export interface ReadSourceOptions {
   readonly delimiter?: Delimiter | null;
   readonly signal: AbortSignal;
   readonly onProgress: ReadProgress;
+  /** Replaces the page's file size limit (page-limits.ts); tests lower it. */
+  readonly maxBytes?: number;
 }
 
 /** The start of every ZIP container, XLSX included ("PK\3\4"). */
@@ -36,7 +39,11 @@ export async function readSource(source: TableSource, options: ReadSourceOptions
     return { read: await readText(file, options), fileName: DEMO_FILE_NAME, file, sheet: null };
   }
   const { file } = source;
-  if (await isSpreadsheet(file)) return readSpreadsheet(file, source.sheet ?? null, options);
+  const spreadsheet = await isSpreadsheet(file);
+  // Refused on its size alone, before reading: a file too large for the tab would end it.
+  const limit = pageLimit(spreadsheet ? 'workbook' : 'text', options.maxBytes);
+  if (file.size > limit) throw tooLargeForPage(file.name, file.size, spreadsheet ? 'workbook' : 'text', limit);
+  if (spreadsheet) return readSpreadsheet(file, source.sheet ?? null, options);
   return { read: await readText(file, options), fileName: file.name, file, sheet: null };
 }
 

@@ -78,6 +78,7 @@ export function createSession(post: Post): Session {
       const version = nextVersion++;
       const read = await readSource(request.source, {
         delimiter: request.delimiter ?? null,
+        ...(request.maxBytes === undefined ? {} : { maxBytes: request.maxBytes }),
         signal: context.signal,
         onProgress: (done, total) => context.progress('reading', done, total),
       });

@@ -45,4 +45,10 @@ describe('benchmark report', () => {
       [' rows   MB/s', '-----  -----', '   10    1.5', '1,000  12.25'].join('\n'),
     );
   });
+
+  it('left-aligns the columns asked for, without trailing spaces', () => {
+    expect(renderTable(['ms', 'function'], [['1200', 'pushCode'], ['80', 'parse']], [1])).toBe(
+      ['  ms  function', '----  --------', '1200  pushCode', '  80  parse'].join('\n'),
+    );
+  });
 });

@@ -6,7 +6,7 @@
  * LEVELWISE_BATCH_ROWS so that batch boundaries fall inside every file; the bytes must not change.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, lstatSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Papa from 'papaparse';
@@ -103,7 +103,7 @@ describe('apply: the command line writes the bytes the page writes', () => {
   const cases = goldenCases();
   it('finds the golden cases', () => expect(cases.length).toBeGreaterThanOrEqual(12));
   for (const c of cases) {
-    for (const batchRows of [1, 2, 7]) {
+    for (const batchRows of [1, 3]) {
       it(`golden case ${c.name}, batches of ${batchRows} rows`, () => {
         const recipe = file(`${c.name}.recipe.json`, c.recipeText);
         const input = file(`${c.name}.csv`, c.input);
@@ -136,6 +136,18 @@ describe('apply: the command line writes the bytes the page writes', () => {
     expect(run.stdout.length).toBe(0);
     expect(text(readFileSync(out))).toBe(text(c.expected));
     expect(readdirSync(work).filter((n) => n.includes('.partial'))).toEqual([]);
+  });
+
+  it('writes through a symbolic link (or a device such as /dev/null) instead of replacing it', () => {
+    const c = cases.find((x) => x.name === 'ordinal-rank')!;
+    const target = join(work, 'link-target.csv');
+    const link = join(work, 'link.csv');
+    writeFileSync(target, 'old');
+    symlinkSync(target, link);
+    const run = levelwise(['apply', file('link.recipe.json', c.recipeText), file('link-input.csv', c.input), '-o', link]);
+    expect(run.status).toBe(0);
+    expect(lstatSync(link).isSymbolicLink()).toBe(true);
+    expect(text(readFileSync(target))).toBe(text(c.expected));
   });
 });
 
@@ -265,7 +277,8 @@ describe('check', () => {
     const missing = levelwise(['check', file('pe2.recipe.json', c.recipeText), file('pe-no-size.csv', withoutSize)]);
     expect(missing.status).toBe(1);
     expect(missing.stdout.toString()).toContain('Missing columns (their cells count as missing): size');
-    const bad = levelwise(['check', file('pe3.recipe.json', c.recipeText), file('pe3.csv', c.input), '--format', 'json']);
+    // In batches of one row, the report still numbers rows from the start of the file.
+    const bad = levelwise(['check', file('pe3.recipe.json', c.recipeText), file('pe3.csv', c.input), '--format', 'json'], { batchRows: 1 });
     expect(bad.status).toBe(1);
     const report = JSON.parse(bad.stdout.toString());
     const page = encodeToCsv(parsed(c.recipeText), readTable(c.input).table).report;
@@ -414,8 +427,8 @@ describe('published datasets through draft and apply', () => {
     expect([sums.get('Species=Adelie'), sums.get('Species=Chinstrap'), sums.get('Species=Gentoo')]).toEqual([152, 68, 124]);
   });
   it('Cars: 406 rows; Origin USA 254, Europe 73, Japan 79', () => {
-    // StatLib "auto-mpg" data (Quinlan 1993, UCI Machine Learning Repository) as shipped in
-    // vega-datasets data/cars.json, which keeps the 8 cars without a mileage (398 + 8 = 406).
+    // StatLib "auto-mpg" data (Quinlan 1993) as shipped in vega-datasets data/cars.json. It keeps
+    // the 8 cars without a mileage that the UCI copy drops (398 + 8 = 406; the UCI description, from memory).
     const csv = jsonToCsv('cars.csv', JSON.parse(readFileSync(join(VEGA, 'cars.json'), 'utf8')));
     const recipePath = join(work, 'cars.recipe.json');
     expect(levelwise(['draft', csv, '-o', recipePath, '--set', 'Origin=nominal:one-hot', '--set', 'Name=identifier']).status).toBe(0);
@@ -424,5 +437,6 @@ describe('published datasets through draft and apply', () => {
     const sums = columnSums(run.stdout.toString());
     expect(sums.get('(rows)')).toBe(406);
     expect([sums.get('Origin=USA'), sums.get('Origin=Europe'), sums.get('Origin=Japan')]).toEqual([254, 73, 79]);
+    expect(sums.get('Miles_per_Gallon (missing)')).toBe(8);
   });
 });

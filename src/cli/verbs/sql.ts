@@ -3,6 +3,7 @@
  *
  * The recipe as one SQL SELECT over the raw table (core's compileSql), ended with a semicolon.
  */
+import { isLevelwiseError } from '../../core/errors.ts';
 import { compileSql, SQL_DIALECTS, sqlNotes, type SqlDialectName } from '../../core/sql.ts';
 import { optionValue, parseArgs, positionals } from '../args.ts';
 import { note, OUTPUT_OPTION } from '../common.ts';
@@ -32,7 +33,9 @@ export async function sqlVerb(argv: readonly string[]): Promise<ExitCode> {
   try {
     sql = compileSql(recipe, options);
   } catch (error) {
-    throw new CliFailure(`${(error as Error).message.replace(/\.$/, '')}.`, 'Check the recipe and --table.');
+    // Core's own errors carry their hint; the compiler's plain ones are about the recipe or the table name.
+    if (isLevelwiseError(error) || !(error instanceof Error)) throw error;
+    throw new CliFailure(`${error.message.replace(/\.$/, '')}.`, 'Check the recipe and --table.');
   }
   for (const text of sqlNotes(recipe, options)) note(VERB, text);
   const output = openOutput(optionValue(args, 'output'));

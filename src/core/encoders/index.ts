@@ -1,4 +1,5 @@
 /** Maps each recipe column to the encoder that turns its values into numbers. */
+import { MAX_CATEGORICAL_LEVELS, tooManyLevelsError } from '../level-limit.ts';
 import type { CategoricalColumn, ContinuousColumn } from '../recipe.ts';
 import { binary } from './binary.ts';
 import { cumulative } from './cumulative.ts';
@@ -13,8 +14,12 @@ import { scores } from './scores.ts';
 export type { LevelCodes } from './level-codes.ts';
 export { codesOf } from './level-codes.ts';
 
-/** The level-by-output code table of a categorical column, as its recipe says. */
+/**
+ * The level-by-output code table of a categorical column, as its recipe says. A column over the
+ * level limit is refused before its table is laid out (one-hot holds levels² numbers).
+ */
 export function codesForColumn(column: CategoricalColumn): LevelCodes {
+  if (column.levels.length > MAX_CATEGORICAL_LEVELS) throw tooManyLevelsError(column.name, column.levels.length);
   const levels = column.levels.map((l) => l.value);
   switch (column.level) {
     case 'binary':

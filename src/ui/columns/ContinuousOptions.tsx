@@ -84,7 +84,7 @@ function invalidHint(profile: ColumnProfile): string {
   if (!numeric || numeric.invalidCount === 0) return 'Every filled cell of this file reads as a number.';
   const examples = numeric.invalidExamples
     .slice(0, 3)
-    .map((e) => `“${e.text}” (row ${formatCount(e.row + 1)})`)
+    .map((e) => `“${e.text}” (${e.line === undefined ? `row ${formatCount(e.row + 1)}` : `line ${formatCount(e.line)}`})`)
     .join(', ');
   const cells = numeric.invalidCount === 1 ? 'cell does' : 'cells do';
   return `${formatCount(numeric.invalidCount)} ${cells} not read as numbers here, e.g. ${examples}.`;

@@ -61,6 +61,12 @@ export function LevelCleaning({ column, onDecide }: LevelCleaningProps) {
   );
 }
 
+/**
+ * Rows of the level table drawn at once. Past this the table would slow the page while telling
+ * nothing a person can take in; the rest are counted below it, and every level stays in the recipe.
+ */
+export const LEVELS_LISTED = 200;
+
 /** Levels that stand for no written value cannot be merged: the missing level and the rare-level group. */
 function mergeable(column: CategoricalColumn, level: FittedLevel): boolean {
   if (level.value === MISSING_LEVEL) return false;
@@ -108,7 +114,7 @@ function MergeForm({ column, onDecide }: LevelCleaningProps) {
             </tr>
           </thead>
           <tbody>
-            {column.levels.map((level, i) => {
+            {column.levels.slice(0, LEVELS_LISTED).map((level, i) => {
               const share = total > 0 ? level.count / total : 0;
               const canPick = mergeable(column, level);
               return (
@@ -140,6 +146,17 @@ function MergeForm({ column, onDecide }: LevelCleaningProps) {
               );
             })}
           </tbody>
+          {column.levels.length > LEVELS_LISTED ? (
+            <tfoot>
+              <tr>
+                <td colSpan={4} className="lw-cleaning__more" data-testid="levels-more">
+                  … and {countOf(column.levels.length - LEVELS_LISTED, 'more level', 'more levels')} (
+                  {formatCount(column.levels.slice(LEVELS_LISTED).reduce((n, l) => n + l.count, 0))} rows), less frequent than those
+                  above. Group rare levels to fold them into one.
+                </td>
+              </tr>
+            </tfoot>
+          ) : null}
         </table>
       </div>
       <div className="lw-cleaning__merge-form">

@@ -6,13 +6,14 @@
 import { useCallback, useId, useRef, useState, type ReactNode } from 'react';
 import type { ApplyReport } from '../../core/apply-report.ts';
 import type { Recipe } from '../../core/recipe.ts';
-import { parseRecipe } from '../../core/recipe-io.ts';
+import { MAX_RECIPE_BYTES, parseRecipe, recipeTooLargeMessage } from '../../core/recipe-io.ts';
 import { Cancelled, type OpenedTable } from '../../worker/protocol.ts';
 import { DATA_FILE_ACCEPT, OpenFileButton } from '../files/OpenFileButton.tsx';
 import { TaskBar } from '../files/TaskBar.tsx';
 import { formatCount } from '../files/format.ts';
 import type { ExportTarget } from '../files/useTakeAway.ts';
 import { errorNotice, type Workbench } from '../state/useWorkbench.ts';
+import { otherFileProblem } from './report-model.ts';
 import { ReuseReport } from './ReuseReport.tsx';
 import { useModalDialog } from './useModalDialog.ts';
 
@@ -58,7 +59,8 @@ export function ReuseDialog({ open, onClose, workbench, current, exportCsv, chil
   const loadRecipeFile = async (file: File) => {
     setChecked(null);
     setProblem(null);
-    const parsed = parseRecipe(await file.text());
+    // Refused on its size before reading: a file that large is not a recipe, and reading it would stall the page.
+    const parsed = file.size > MAX_RECIPE_BYTES ? { ok: false as const, errors: [recipeTooLargeMessage(file.size)] } : parseRecipe(await file.text());
     if (parsed.ok) {
       setLoaded({ recipe: parsed.recipe, from: file.name });
       setRecipeErrors([]);
@@ -83,10 +85,16 @@ export function ReuseDialog({ open, onClose, workbench, current, exportCsv, chil
             draft: false,
             missingTokens: recipe.reading.missingTokens,
             delimiter: recipe.reading.delimiter,
+            ...(workbench.maxBytes === undefined ? {} : { maxBytes: workbench.maxBytes }),
           },
           { onProgress },
         ),
       );
+      const elsewhere = otherFileProblem(recipe, opened.names, opened.fileName);
+      if (elsewhere !== null) {
+        setProblem(`This recipe does not fit ${opened.fileName} — ${elsewhere}`);
+        return;
+      }
       const report = await run('Applying the recipe', (onProgress) => client.start('check', { slot: 'reuse', version: opened.version, recipe }, { onProgress }));
       setChecked({ opened, report, recipe });
     } catch (error) {

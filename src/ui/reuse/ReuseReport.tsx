@@ -53,6 +53,17 @@ export function ReuseReport({ report, reading, fileName }: ReuseReportProps) {
         </section>
       ) : null}
 
+      {view.renamed.length > 0 ? (
+        <section className="report-section">
+          <h4>Column names changed while reading</h4>
+          <ul>
+            {view.renamed.map((line) => (
+              <li key={line}>{line}</li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+
       {view.reading.length > 0 ? (
         <section className="report-section">
           <h4>Rows with the wrong number of fields</h4>

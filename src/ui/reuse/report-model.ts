@@ -5,11 +5,14 @@
  * the wording is tested without a browser.
  */
 import type { ApplyReport, ColumnReport, RejectedRow, ValueTally } from '../../core/apply-report.ts';
-import type { RowIssue } from '../../core/columns.ts';
+import type { HeaderIssue, RowIssue } from '../../core/columns.ts';
+import type { Recipe } from '../../core/recipe.ts';
 
 export interface ReadingFacts {
   readonly rowIssues: readonly RowIssue[];
   readonly rowIssueCount: number;
+  /** Header cells renamed while reading (blank or repeated names). */
+  readonly headerIssues?: readonly HeaderIssue[];
 }
 
 export interface TallyView {
@@ -36,6 +39,8 @@ export interface ReportView {
   readonly extraColumns: readonly string[];
   readonly reading: readonly string[];
   readonly readingMore: number;
+  /** Column names the file's header had to change, in words. */
+  readonly renamed: readonly string[];
   readonly columns: readonly ColumnView[];
   readonly rejected: readonly RejectedRow[];
   /** Rejected rows counted but not listed. */
@@ -72,6 +77,7 @@ export function reportView(report: ApplyReport, reading: ReadingFacts): ReportVi
     extraColumns: report.extraColumns,
     reading: reading.rowIssues.slice(0, READING_LISTED).map(describeRowIssue),
     readingMore: Math.max(0, reading.rowIssueCount - Math.min(READING_LISTED, reading.rowIssues.length)),
+    renamed: (reading.headerIssues ?? []).map(describeHeaderIssue),
     columns,
     rejected: report.rejected,
     rejectedMore: Math.max(0, report.rowsRejected - report.rejected.length),
@@ -105,9 +111,38 @@ export function describeRowIssue(issue: RowIssue): string {
   }
 }
 
+export function describeHeaderIssue(issue: HeaderIssue): string {
+  return issue.kind === 'blank'
+    ? `Column ${issue.column + 1} has no name on line 1; it is called “${issue.renamedTo}”.`
+    : `Column ${issue.column + 1} repeats the name “${issue.original}” on line 1; it is called “${issue.renamedTo}”.`;
+}
+
 /** "lines 3, 4, 9 …" for the first example lines of a value. */
 export function linesText(tally: ValueTally): string {
   const list = tally.lines.join(', ');
   const more = tally.count > tally.lines.length ? ' …' : '';
   return `${tally.lines.length === 1 ? 'line' : 'lines'} ${list}${more}`;
+}
+
+/** Names listed in a sentence; the rest are counted. */
+const NAMES_LISTED = 6;
+
+function nameList(names: readonly string[]): string {
+  const shown = names.slice(0, NAMES_LISTED).map((n) => `“${n}”`).join(', ');
+  return names.length > NAMES_LISTED ? `${shown} and ${names.length - NAMES_LISTED} more` : shown;
+}
+
+/**
+ * When a file has none of the columns a recipe reads, the recipe was made for another file:
+ * applying it would only give columns of missing values. Says so, with both sets of names; null
+ * when at least one column is shared (the re-use report covers the rest).
+ */
+export function otherFileProblem(recipe: Recipe, names: readonly string[], fileName: string): string | null {
+  const inFile = new Set(names);
+  if (recipe.columns.length === 0 || recipe.columns.some((c) => inFile.has(c.name))) return null;
+  const madeFor = recipe.source.file === null ? '' : ` It was made for “${recipe.source.file}”.`;
+  return (
+    `None of the recipe’s ${recipe.columns.length} columns (${nameList(recipe.columns.map((c) => c.name))}) is in “${fileName}”, ` +
+    `whose columns are ${nameList(names)}.${madeFor} Choose the file the recipe was made for, or open this file on the workbench and make a recipe for it.`
+  );
 }

@@ -7,6 +7,7 @@
  * (see persist.ts), because it replays on a freshly drafted recipe of the same file.
  */
 import { decide, type Decision } from '../../core/decisions.ts';
+import { isLevelwiseError } from '../../core/errors.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import type { Recipe } from '../../core/recipe.ts';
 import { describeDecision } from './describe-decision.ts';
@@ -99,7 +100,9 @@ function applyDecision(history: RecipeHistory, decision: Decision): RecipeHistor
   try {
     recipe = decide(present.recipe, decision, history.profiles);
   } catch (error) {
-    return { ...history, refused: error instanceof Error ? error.message : String(error) };
+    // A refusal the person can act on says what to do as well.
+    const refused = isLevelwiseError(error) ? `${error.message} ${error.hint}` : error instanceof Error ? error.message : String(error);
+    return { ...history, refused };
   }
   // A decision that changes nothing (choosing the coding already chosen) is not worth an undo step.
   if (recipe === present.recipe || sameRecipe(recipe, present.recipe)) return { ...history, refused: null };

@@ -9,6 +9,7 @@ import type { Recipe } from '../../core/recipe.ts';
 import { DEMO_ROW_COUNT } from '../../demo/household-energy.ts';
 import { startWorkbenchWorker, type WorkbenchClient } from '../../worker/client.ts';
 import { Cancelled, WorkerProblem, type OpenedTable, type Problem, type RecipeInUse, type TableSource } from '../../worker/protocol.ts';
+import { readingNotices } from '../files/reading-notices.ts';
 import { EMPTY_HISTORY, historyReducer } from './history.ts';
 import { browserStore, forgetDecisions, loadDecisions, saveDecisions } from './persist.ts';
 import { useTask } from './useTask.ts';
@@ -39,6 +40,17 @@ function pageClient(): WorkbenchClient {
   sharedClient ??= startWorkbenchWorker();
   return sharedClient;
 }
+
+/**
+ * The file size limit the page was told to use instead of its own (`?max-file-mb=5` in its
+ * address), in bytes; undefined normally. Tests use it to reach the limit with small files.
+ */
+export function fileLimitFromAddress(search: string = globalThis.location?.search ?? ''): number | undefined {
+  const megabytes = Number(new URLSearchParams(search).get('max-file-mb') ?? NaN);
+  return Number.isFinite(megabytes) && megabytes > 0 ? Math.round(megabytes * 1024 * 1024) : undefined;
+}
+
+const FILE_LIMIT_OVERRIDE = fileLimitFromAddress();
 
 export function problemNotice(problem: Problem, title = 'That did not work'): Omit<Notice, 'id'> {
   const where = [problem.line !== undefined ? `line ${problem.line}` : null, problem.column !== undefined ? `column ${problem.column}` : null]
@@ -81,7 +93,9 @@ export function useWorkbench() {
       const label = source.kind === 'demo' ? 'Preparing the invented demo survey' : `Reading ${source.file.name}`;
       let opened: OpenedTable;
       try {
-        opened = await run(label, (onProgress) => client.start('open', { slot: 'work', source, draft: true }, { onProgress }));
+        opened = await run(label, (onProgress) =>
+          client.start('open', { slot: 'work', source, draft: true, ...(FILE_LIMIT_OVERRIDE === undefined ? {} : { maxBytes: FILE_LIMIT_OVERRIDE }) }, { onProgress }),
+        );
       } catch (error) {
         if (!(error instanceof Cancelled)) notify(errorNotice(error, source.kind === 'file' ? `Could not open ${source.file.name}` : 'Could not prepare the demo'));
         return;
@@ -112,15 +126,7 @@ export function useWorkbench() {
           },
         });
       }
-      if (opened.rowIssueCount > 0) {
-        const first = opened.rowIssues[0];
-        notify({
-          tone: 'warning',
-          title: `${opened.rowIssueCount} ${opened.rowIssueCount === 1 ? 'row has' : 'rows have'} the wrong number of fields`,
-          detail: first ? `First at line ${first.line}: expected ${first.expected} fields, found ${first.found}. Short rows are padded with empty (missing) cells; extra cells are kept aside, not encoded.` : undefined,
-          hint: 'Check the file’s quoting around those lines if the columns look shifted.',
-        });
-      }
+      for (const notice of readingNotices(opened)) notify(notice);
     },
     [client, notify, run, store],
   );
@@ -179,6 +185,8 @@ export function useWorkbench() {
     task,
     run,
     lastFile,
+    /** The file size limit to pass with every open request, when the address set one. */
+    maxBytes: FILE_LIMIT_OVERRIDE,
     openFile,
     openDemo,
     decide: decideNow,
