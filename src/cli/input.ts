@@ -14,7 +14,7 @@ import { isLevelwiseError } from '../core/errors.ts';
 import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { parseRecipe } from '../core/recipe-io.ts';
 import type { Recipe } from '../core/recipe.ts';
-import { cellToText } from '../worker/read-source.ts';
+import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import { CliFailure, readingFailure } from './failure.ts';
 
 export interface InputSource {
@@ -246,7 +246,7 @@ async function readWorkbook(
       names.length > 0 ? `Choose one with --sheet: ${names.join(', ')}.` : 'Choose a workbook with at least one sheet.',
     );
   }
-  const { table } = tableFromRows(chosen.data.map((row) => row.map(cellToText)));
+  const { table } = tableFromRows(chosen.data.map((row) => row.map(spreadsheetCellText)));
   const step = batchRows ?? Math.max(1, table.rowCount);
   for (let start = 0; start < table.rowCount || start === 0; start += step) {
     handlers.onBatch(table, start, Math.min(table.rowCount, start + step), 0);

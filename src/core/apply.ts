@@ -102,7 +102,9 @@ function encodeNumbers(
   const values = new Float64Array(rows);
   const missing = new Uint8Array(rows);
   const { center, scale } = plan.transform;
-  if (source?.kind === 'number') {
+  // Number storage holds texts read with a decimal point; a column written with a decimal comma
+  // ("1.234" meaning 1234) must be read from its text in the column's own format instead.
+  if (source?.kind === 'number' && plan.column.format.decimal === '.') {
     // Plain numbers need no text at all; only the exceptions are resolved as text.
     for (let r = 0; r < rows; r++) {
       const v = source.values[start + r] ?? NaN;
@@ -118,7 +120,7 @@ function encodeNumbers(
       else numberCell(plan, source.values[code] ?? '', r, start, values, missing, rejected, table, report);
     }
   } else {
-    for (let r = 0; r < rows; r++) numberCell(plan, '', r, start, values, missing, rejected, table, report);
+    for (let r = 0; r < rows; r++) numberCell(plan, source === null ? '' : cellText(source, start + r), r, start, values, missing, rejected, table, report);
   }
   return { kind: 'numbers', values, missing };
 }

@@ -40,3 +40,5 @@ export { createCsvWriter, type CsvWriter } from './csv-write.ts';
 export { encodeTable, encodeToCsv } from './encode-csv.ts';
 export { neutraliseFormula, quoteCell, numberCell } from './csv-cell.ts';
 export { codebookMarkdown, codebookHtml, codebookEntries } from './codebook.ts';
+export { compileSql, sqlNotes, recipeCanReject, REJECTED_COLUMN, SQL_DIALECTS, type SqlOptions, type SqlDialectName } from './sql.ts';
+export { spreadsheetCellText } from './spreadsheet-cell.ts';

@@ -30,11 +30,13 @@ export function tooManyLevelsError(column: string, levels: number): LevelwiseErr
   );
 }
 
-/** The sentence a drafted column's reason gains when its rare levels were grouped to fit the limit. */
+/**
+ * The clause a drafted column's reason gains when its rare levels were grouped to fit the limit.
+ * Numbers are written plainly, as in the rest of the reason (infer.ts).
+ */
 export function wideDraftNote(levels: number): string {
   return (
-    `; ${levels.toLocaleString('en-US')} levels are more than one column can encode ` +
-    `(${MAX_CATEGORICAL_LEVELS.toLocaleString('en-US')}), so only the ${WIDE_DRAFT_KEEP_TOP} most frequent keep their own ` +
-    'column and the rest are grouped'
+    `; ${levels} levels are more than one column can encode (${MAX_CATEGORICAL_LEVELS}), ` +
+    `so only the ${WIDE_DRAFT_KEEP_TOP} most frequent keep their own column and the rest are grouped`
   );
 }

@@ -173,10 +173,11 @@ export function chooseLineBreak(sample: string): LineBreak {
 /**
  * The candidate under which the header has at least two fields and the most following records
  * have as many fields as the header; ties go to more fields, then to the order of DELIMITERS.
- * Comma when no candidate splits the header (a one-column file).
+ * When no candidate splits the header, the file has one column: comma, unless commas split its
+ * records (a column of decimal commas, "12,5"), then the first candidate that splits none.
  */
 export function chooseDelimiter(sample: string, lineBreak: LineBreak, final: boolean): Delimiter {
-  let best: Delimiter = ',';
+  let best: Delimiter | null = null;
   let bestScore = { share: -1, fields: 0 };
   for (const delimiter of DELIMITERS) {
     const score = scoreDelimiter(sample, delimiter, lineBreak, final);
@@ -186,7 +187,13 @@ export function chooseDelimiter(sample: string, lineBreak: LineBreak, final: boo
       bestScore = score;
     }
   }
-  return best;
+  return best ?? DELIMITERS.find((d) => splitsNoRecord(sample, d, lineBreak, final)) ?? ',';
+}
+
+function splitsNoRecord(sample: string, delimiter: Delimiter, lineBreak: LineBreak, final: boolean): boolean {
+  const config = { delimiter, newline: lineBreak, preview: SCORED_RECORDS };
+  const parsed = new Papa.Parser(config as unknown as Papa.ParseConfig).parse(sample, 0, !final) as { data: string[][] };
+  return parsed.data.every((record) => record.length <= 1);
 }
 
 const SCORED_RECORDS = 50;

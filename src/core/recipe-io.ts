@@ -6,7 +6,7 @@ import type { z } from 'zod';
 import { jsonErrorPosition } from './json-position.ts';
 import { MAX_CATEGORICAL_LEVELS } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
-import { Recipe, RECIPE_KIND, RECIPE_VERSION } from './recipe.ts';
+import { LEVELS, Recipe, RECIPE_KIND, RECIPE_VERSION, type MeasurementLevel } from './recipe.ts';
 
 export type RecipeParse = { readonly ok: true; readonly recipe: Recipe } | { readonly ok: false; readonly errors: readonly string[] };
 
@@ -83,6 +83,11 @@ function describeIssue(issue: z.core.$ZodIssue, data: unknown): string {
       if (found === undefined) return `${where}: missing; expected one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}.`;
       return `${where}: expected one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}, found ${describeValue(found)}.`;
     case 'invalid_union':
+      // A column whose "level" is none of the six: say which six, rather than that no entry shape fits.
+      if (issue.path.at(-1) === 'level' && !LEVELS.includes(found as MeasurementLevel)) {
+        const levels = LEVELS.map((l) => JSON.stringify(l)).join(', ');
+        return found === undefined ? `${where}: missing; expected one of ${levels}.` : `${where}: expected one of ${levels}, found ${describeValue(found)}.`;
+      }
       return `${where}: not a valid column entry (check "level" and the fields that belong to it).`;
     default:
       return `${where}: ${issue.message}.`;

@@ -4,6 +4,7 @@
  * go through read-excel-file (its worker-free build, since this already is a worker) and then core
  * `tableFromRows`.
  */
+import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import readXlsxFile from 'read-excel-file/web-worker';
 import { readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { LevelwiseError } from '../core/errors.ts';
@@ -94,25 +95,10 @@ async function readSpreadsheet(file: File, wanted: string | null, { signal, onPr
       hint: names.length > 0 ? `Choose one of: ${names.join(', ')}.` : 'Choose a workbook with at least one sheet.',
     });
   }
-  const rows = chosen.data.map((row) => row.map(cellToText));
+  const rows = chosen.data.map((row) => row.map(spreadsheetCellText));
   return { read: tableFromRows(rows), fileName: file.name, file, sheet: { name: chosen.sheet, names } };
 }
 
-/**
- * A spreadsheet cell as the text a CSV export would hold. Dates become ISO 8601 (a date alone when
- * the time is midnight); booleans TRUE/FALSE as spreadsheets print them.
- */
-export function cellToText(cell: unknown): string {
-  if (cell === null || cell === undefined) return '';
-  if (typeof cell === 'string') return cell;
-  if (typeof cell === 'number') return Number.isFinite(cell) ? String(cell) : '';
-  if (typeof cell === 'boolean') return cell ? 'TRUE' : 'FALSE';
-  if (cell instanceof Date) {
-    const iso = cell.toISOString();
-    return iso.endsWith('T00:00:00.000Z') ? iso.slice(0, 10) : iso.replace('.000Z', 'Z');
-  }
-  return String(cell);
-}
 
 function messageOf(error: unknown): string {
   return error instanceof Error ? error.message.replace(/\.$/, '') : String(error);

@@ -1,6 +1,7 @@
 /** Options of a continuous column: scaling, what fills a missing cell, what happens to text that is not a number. */
 import type { Decision } from '../../core/decisions.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
+import { formatNumber } from '../../core/numbers.ts';
 import type { ContinuousColumn } from '../../core/recipe.ts';
 import { ChoiceGroup, Panel, SelectField, ToggleField } from './fields.tsx';
 import { formatCount, formatValue } from './labels.ts';
@@ -29,6 +30,8 @@ export function ContinuousOptions({ profile, column, onDecide }: ContinuousOptio
         />
         <dl className="lw-stats" aria-label="Learned from this file">
           <Stat term="numbers read" value={formatCount(fitted.count)} />
+          {/* The number format detected decides what reads as a number ("1 234" or "12,5"), so it is shown. */}
+          <Stat term="written like" value={formatNumber(1234.5, column.format)} />
           <Stat term="mean" value={formatValue(fitted.mean)} />
           <Stat term="standard deviation" value={formatValue(fitted.sd)} />
           <Stat term="minimum" value={formatValue(fitted.min)} />

@@ -1,0 +1,115 @@
+// @vitest-environment jsdom
+/**
+ * Stray text in a column of numbers: "n/a", "12,5", "1 234", "$12", "45%", "1e309". Which rows hold
+ * them (by file line), and what was done with each — read, treated as missing and filled, or the
+ * row rejected — is said in the profile, in the page, in the re-use report and in the output.
+ * Expected values are worked out by hand in the comments.
+ */
+import { cleanup, render, screen } from '@testing-library/react';
+import { afterEach, describe, expect, it } from 'vitest';
+import { decide } from '../../src/core/decisions.ts';
+import { encodeToCsv } from '../../src/core/encode-csv.ts';
+import type { ContinuousColumn } from '../../src/core/recipe.ts';
+import { ContinuousOptions } from '../../src/ui/columns/ContinuousOptions.tsx';
+import { pipeline, utf8 } from './helpers.ts';
+
+afterEach(cleanup);
+
+/** Data row (0-based) → stray text. The file line of data row r is r + 2 (line 1 is the header). */
+const STRAYS = new Map<number, string>([
+  [10, 'n/a'],
+  [40, '12,5'],
+  [80, '1 234'],
+  [120, '$12'],
+  [160, '45%'],
+  [200, '1e309'],
+]);
+const ROWS = 206;
+const lines = ['meter,kwh'];
+// Cells are quoted where they hold the delimiter (RFC 4180 §2.6): "12,5" stays one cell.
+for (let r = 0; r < ROWS; r++) lines.push(`m${r},${quoted(STRAYS.get(r) ?? String(r + 0.5))}`);
+
+function quoted(cell: string): string {
+  return cell.includes(',') ? `"${cell}"` : cell;
+}
+const run = pipeline(utf8(`${lines.join('\n')}\n`), 'meters.csv');
+const kwh = run.recipe.columns[1] as ContinuousColumn;
+
+// The other 200 cells hold their row number plus a half: 0.5 + 1.5 + … + 205.5 = 21,218, less the six
+// stray rows (10.5 + 40.5 + 80.5 + 120.5 + 160.5 + 200.5 = 613) = 20,605. Their point decimals rule
+// out the comma-decimal formats. "1 234" reads as 1234: the format that reads the most cells is "."
+// decimals with space-grouped thousands (numbers.ts), and it reads every plain number too.
+// So 201 numbers, summing to 21,839.
+const MEAN = 21_839 / 201;
+
+describe('a column of numbers with stray text', () => {
+  it('is continuous; the format that reads the most cells is chosen and recorded in the recipe', () => {
+    expect(kwh.level).toBe('continuous');
+    expect(kwh.format).toEqual({ decimal: '.', group: ' ' });
+    expect(kwh.fitted.count).toBe(201);
+    expect(kwh.fitted.mean).toBe(MEAN);
+    expect(kwh.fitted.max).toBe(1234);
+    expect(kwh.reason).toBe('201 of 206 values read as numbers (97.6%), 201 distinct; 5 do not (e.g. "n/a")');
+  });
+
+  it('lists each cell that is not a number with its row and file line', () => {
+    const numeric = run.profiles[1]?.numeric;
+    expect(numeric?.invalidCount).toBe(5);
+    expect(numeric?.invalidExamples).toEqual([
+      { row: 10, text: 'n/a', line: 12 },
+      { row: 40, text: '12,5', line: 42 },
+      { row: 120, text: '$12', line: 122 },
+      { row: 160, text: '45%', line: 162 },
+      // 1e309 is beyond the largest double (about 1.8e308): it would be Infinity, so it is not read.
+      { row: 200, text: '1e309', line: 202 },
+    ]);
+  });
+
+  it('fills them with the fitted mean, says so in the report with their lines, and writes the mean', () => {
+    const report = run.report.columns.find((c) => c.name === 'kwh');
+    expect(report?.invalid).toEqual([
+      { value: 'n/a', count: 1, lines: [12] },
+      { value: '12,5', count: 1, lines: [42] },
+      { value: '$12', count: 1, lines: [122] },
+      { value: '45%', count: 1, lines: [162] },
+      { value: '1e309', count: 1, lines: [202] },
+    ]);
+    expect(report?.invalidAction).toBe(`treated as missing (filled with the fitted mean ${MEAN})`);
+    const out = run.csv.split('\r\n');
+    expect(out[0]).toBe('meter,kwh');
+    expect(out[1 + 10]).toBe(`m10,${MEAN}`);
+    expect(out[1 + 80]).toBe('m80,1234');
+    expect(out[1 + 81]).toBe('m81,81.5');
+    expect(run.report.rowsWritten).toBe(ROWS);
+  });
+
+  it('with “reject the row”, leaves those rows out and lists each with line, column and reason', () => {
+    const strict = decide(run.recipe, { type: 'set-invalid', column: 'kwh', invalid: 'error' }, run.profiles);
+    const { report } = encodeToCsv(strict, run.read.table);
+    expect(report.rowsWritten).toBe(ROWS - 5);
+    expect(report.rejected.map((r) => [r.line, r.column, r.reason])).toEqual([
+      [12, 'kwh', '"n/a" is not a number'],
+      [42, 'kwh', '"12,5" is not a number'],
+      [122, 'kwh', '"$12" is not a number'],
+      [162, 'kwh', '"45%" is not a number'],
+      [202, 'kwh', '"1e309" is not a number'],
+    ]);
+  });
+
+  it('the page shows the format, the count and the first lines, beside the choice of what to do', () => {
+    render(<ContinuousOptions profile={run.profiles[1]!} column={kwh} onDecide={() => undefined} />);
+    expect(screen.getByText('5 cells do not read as numbers here, e.g. “n/a” (line 12), “12,5” (line 42), “$12” (line 122).')).toBeTruthy();
+    expect(screen.getByText('written like').nextSibling?.textContent).toBe('1 234.5');
+    expect((screen.getByLabelText('Text that does not read as a number') as HTMLSelectElement).value).toBe('missing');
+  });
+});
+
+describe('a column written with decimal commas', () => {
+  it('reads "12,5" as twelve and a half when the column is written that way, even in a one-column file', () => {
+    const cells = ['12,5', '3,25', '7', '1,5', '0,75', '10', '2,5', '4', '8,125', '6,5', '9', '11,5'];
+    const comma = pipeline(utf8(`x\n${cells.join('\n')}\n`));
+    const column = comma.recipe.columns[0] as ContinuousColumn;
+    expect(column.format).toEqual({ decimal: ',', group: '' });
+    expect(comma.csv.split('\r\n').slice(1, 4)).toEqual(['12.5', '3.25', '7']);
+  });
+});
