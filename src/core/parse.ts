@@ -1,10 +1,22 @@
 /**
  * Delimited text → records, fed text chunk by chunk (the decoder's output), with the physical
- * line each record starts on. papaparse's core `Parser` does the field splitting and quote
- * handling; with `ignoreLastRow` it stops before an incomplete record, and we keep that tail for
- * the next chunk. Everything papaparse leaves to its callers or gets inconsistent is done here:
- * choosing the delimiter and line break, line numbers, CRLF mixed with LF, telling empty lines
- * apart, the trailing newline, unclosed quotes.
+ * line each record starts on. Our own scanner, shaped for big files:
+ *
+ * - Records with no quoted field (nearly all of a typical export) are read by one loop over the
+ *   characters that finds the delimiters and line breaks and hashes each field as it goes. Such a
+ *   record is handed on as positions in the text (`RecordSink.plainRecord`), so no string is
+ *   made per cell: the table keeps one string per distinct value (columns-builder.ts).
+ * - A record with a field that starts with a quote goes through a slower path that reads quoted
+ *   fields the way papaparse's parser does, down to its handling of malformed quoting: a quote
+ *   closes a field only when blanks and then a delimiter, a line break or the end of the text
+ *   follow it; `""` inside is one quote; any other quote is kept as text; a quote never closed
+ *   keeps the rest of the text, unchanged, in the field (reported as an unclosed quote).
+ *   test/core/parse.property.test.ts checks both paths against papaparse on random text.
+ * - A quote inside an unquoted field is text (`12"`), as in papaparse.
+ * - A record is handed on only once its line break is seen (or the text ends), so the records do
+ *   not depend on where the chunks were cut.
+ *
+ * papaparse still chooses the delimiter (`chooseDelimiter`), on the first records only.
  *
  * Line breaks: a file with any LF outside quotes is read by LF, and a CR right before an LF that
  * ends a record is dropped with it (CRLF files, and files mixing CRLF and LF); a file of lone CRs
@@ -24,12 +36,19 @@ export type LineBreak = '\n' | '\r';
 
 export interface RecordSink {
   /**
-   * One record. `fields` is papaparse's array, valid only during the call. `line` is the 1-based
-   * physical line the record starts on; `unclosedQuote` says a quoted field ran to the end of the file.
+   * One record. `fields` is valid only during the call. `line` is the 1-based physical line the
+   * record starts on; `unclosedQuote` says a quoted field ran to the end of the file.
    */
   record(fields: readonly string[], line: number, unclosedQuote: boolean): void;
   /** A line with nothing on it. Whether it is skipped or is an empty cell is the table's call. */
   emptyLine(line: number): void;
+  /**
+   * Optional fast path for a record without quoted fields, given as positions instead of strings:
+   * field k (k < count) is `text.slice(bounds[k], bounds[k + 1] - 1)` and `hashes[k]` is its
+   * `fieldHash`. The arrays are reused: valid only during the call. Without this method such
+   * records come through `record` like the others. Never called for an empty line.
+   */
+  plainRecord?(text: string, bounds: Int32Array, hashes: Int32Array, count: number, line: number): void;
 }
 
 export interface RecordParserOptions {
@@ -44,28 +63,49 @@ const QUOTE = 0x22;
 const CR = 0x0d;
 const LF = 0x0a;
 
-/** What papaparse's core Parser passes to `step`: the one row in `data`, its end in `meta.cursor`. */
-interface StepResult {
-  readonly data: string[][];
-  readonly errors: readonly { readonly code: string }[];
-  readonly meta: { readonly cursor: number };
+// ---------------------------------------------------------------------------------------------
+// Field hash: 32-bit FNV-1a over UTF-16 code units. The scanner computes it while looking for the
+// delimiters; the column builder computes the same for fields that arrive as strings.
+
+export const FIELD_HASH_SEED = 0x811c9dc5 | 0;
+const FNV_PRIME = 0x01000193;
+
+/** The hash of text[start, end), as the scanner computes it. */
+export function fieldHash(text: string, start = 0, end = text.length): number {
+  let hash = FIELD_HASH_SEED;
+  for (let i = start; i < end; i++) hash = Math.imul(hash ^ text.charCodeAt(i), FNV_PRIME);
+  return hash;
 }
+
+// What a character below 128 means to the scanner; every other character is ORDINARY.
+const ORDINARY = 0;
+const DELIMITER = 1;
+/** The character that ends a record (LF, or CR in a file of lone CRs). */
+const BREAK = 2;
+/** CR in LF mode: ends the record when an LF follows, else it is text. */
+const CARRIAGE_RETURN = 3;
+const QUOTE_MARK = 4;
+
+/** The scanner stopped before a record that is not complete yet (more text may follow). */
+const INCOMPLETE = -1;
 
 export class RecordParser {
   private readonly sink: RecordSink;
   private delimiterChoice: Delimiter | null;
   private lineBreak: LineBreak = '\n';
-  private parser: Papa.Parser | null = null;
-  /** Text not yet parsed: an incomplete record, then newer text. */
-  private pending = '';
+  private started = false;
+  /** What each character below 128 means (see ORDINARY…QUOTE_MARK). */
+  private readonly classes = new Uint8Array(128);
+  /** Text not yet parsed: an incomplete record, then newer text, in pieces. */
+  private pending: string[] = [];
+  private pendingLength = 0;
   /** Wait for this much pending text before parsing again (grows when one record spans chunks). */
   private parseAt = SNIFF_CHARS;
-  /** Line on which `pending` starts. */
+  /** Line on which the pending text starts. */
   private line = 1;
-  // State of the parse in progress, read by the step callback.
-  private input = '';
-  private recordStart = 0;
-  private nextQuote = -1;
+  // Scratch space for one plain record, reused (see RecordSink.plainRecord).
+  private bounds = new Int32Array(64);
+  private hashes = new Int32Array(64);
 
   constructor(sink: RecordSink, options: RecordParserOptions = {}) {
     this.sink = sink;
@@ -74,12 +114,14 @@ export class RecordParser {
 
   /** The delimiter in use; null until enough text was seen to choose. */
   get delimiter(): Delimiter | null {
-    return this.parser === null ? null : this.delimiterChoice;
+    return this.started ? this.delimiterChoice : null;
   }
 
   push(text: string): void {
-    this.pending += text;
-    if (this.pending.length < this.parseAt) return;
+    if (text === '') return;
+    this.pending.push(text);
+    this.pendingLength += text.length;
+    if (this.pendingLength < this.parseAt) return;
     this.parse(false);
   }
 
@@ -89,55 +131,165 @@ export class RecordParser {
   }
 
   private parse(final: boolean): void {
-    this.parser ??= this.createParser(this.pending, final);
-    const input = this.pending;
-    this.input = input;
-    this.recordStart = 0;
-    this.nextQuote = input.indexOf('"');
-    this.parser.parse(input, 0, !final);
-    this.pending = final ? '' : input.slice(this.recordStart);
-    this.input = '';
+    // One flat string: joining copies the pieces, where `+` would leave a tree of pieces that is
+    // slower to read character by character.
+    const input = this.pending.length === 1 ? (this.pending[0] ?? '') : this.pending.join('');
+    if (!this.started) this.start(input, final);
+    const consumed = this.scan(input, final);
+    const rest = final ? '' : input.slice(consumed);
+    this.pending = rest === '' ? [] : [rest];
+    this.pendingLength = rest.length;
     // A record longer than a chunk would otherwise be re-parsed from its start on every push.
-    this.parseAt = Math.max(SNIFF_CHARS, 2 * this.pending.length);
+    this.parseAt = Math.max(SNIFF_CHARS, 2 * rest.length);
   }
 
-  private createParser(sample: string, final: boolean): Papa.Parser {
+  private start(sample: string, final: boolean): void {
     this.lineBreak = chooseLineBreak(sample);
     this.delimiterChoice ??= chooseDelimiter(sample, this.lineBreak, final);
-    const config = { delimiter: this.delimiterChoice, newline: this.lineBreak, step: this.step };
-    // The typings describe the high-level parse config; the core Parser takes the same fields.
-    return new Papa.Parser(config as unknown as Papa.ParseConfig);
+    const classes = this.classes;
+    classes[this.delimiterChoice.charCodeAt(0)] = DELIMITER;
+    classes[QUOTE] = QUOTE_MARK;
+    if (this.lineBreak === '\n') {
+      classes[LF] = BREAK;
+      classes[CR] = CARRIAGE_RETURN;
+    } else {
+      classes[CR] = BREAK;
+    }
+    this.started = true;
   }
 
-  private readonly step = (result: StepResult): void => {
-    const fields = result.data[0];
-    const start = this.recordStart;
-    const end = result.meta.cursor;
-    const line = this.line;
-    const quoted = this.hasQuoteWithin(start, end);
-    this.recordStart = end;
-    this.line += this.lineBreaksIn(start, end, quoted);
-    if (fields === undefined || start === end) return; // nothing after the final line break
-    if (this.lineBreak === '\n') dropCarriageReturn(fields, this.input, start, end, this.delimiterChoice ?? ',', quoted);
-    if (this.isEmptyLine(fields, start)) this.sink.emptyLine(line);
-    else this.sink.record(fields, line, result.errors.length > 0 && hasUnclosedQuote(result.errors));
-  };
-
-  /** Whether input[start, end) holds a quote; one forward-moving search over the whole input. */
-  private hasQuoteWithin(start: number, end: number): boolean {
-    if (this.nextQuote !== -1 && this.nextQuote < start) this.nextQuote = this.input.indexOf('"', start);
-    return this.nextQuote !== -1 && this.nextQuote < end;
+  /** Reads the complete records of `input`; returns where the unread rest starts. */
+  private scan(input: string, final: boolean): number {
+    let at = 0;
+    while (at < input.length) {
+      const plainEnd = this.scanPlainRecords(input, at, final);
+      if (plainEnd === INCOMPLETE) return at;
+      at = plainEnd;
+      if (at === input.length || this.stoppedAt !== at) continue;
+      // The record at `at` has a field that starts with a quote.
+      const quotedEnd = this.scanQuotedRecord(input, at, final);
+      if (quotedEnd === INCOMPLETE) return at;
+      at = quotedEnd;
+    }
+    return at;
   }
 
-  /** Only a record holding a quote can hold a line break before its end. */
-  private lineBreaksIn(start: number, end: number, quoted: boolean): number {
-    if (quoted) return countOccurrences(this.input, this.lineBreak, start, end);
-    return end > start && this.input.charCodeAt(end - 1) === this.lineBreak.charCodeAt(0) ? 1 : 0;
+  /** Where scanPlainRecords met a record holding a quoted field; -1 when it did not. */
+  private stoppedAt = -1;
+
+  /**
+   * Reads records without quoted fields from `at` on, for as long as they come. Returns where it
+   * stopped: the end of the text, the start of a record with a quoted field (then `stoppedAt` is
+   * that position too), or the start of a record the text does not complete yet (when `final` is
+   * false; then, if that is `at` itself, INCOMPLETE).
+   */
+  private scanPlainRecords(input: string, at: number, final: boolean): number {
+    const n = input.length;
+    const classes = this.classes;
+    const sink = this.sink;
+    let bounds = this.bounds;
+    let hashes = this.hashes;
+    let line = this.line;
+    let start = at;
+    this.stoppedAt = -1;
+    records: while (start < n) {
+      let count = 0;
+      let fieldStart = start;
+      let hash = FIELD_HASH_SEED;
+      let i = start;
+      let fieldEnd: number;
+      let next: number;
+      for (;;) {
+        if (i === n) {
+          if (!final) break records;
+          fieldEnd = n;
+          next = n;
+          break;
+        }
+        const ch = input.charCodeAt(i);
+        const kind = ch < 128 ? (classes[ch] ?? ORDINARY) : ORDINARY;
+        if (kind === ORDINARY) {
+          hash = Math.imul(hash ^ ch, FNV_PRIME);
+          i++;
+        } else if (kind === DELIMITER) {
+          if (count + 2 >= bounds.length) {
+            bounds = this.bounds = growInt32(bounds);
+            hashes = this.hashes = growInt32(hashes);
+          }
+          bounds[count] = fieldStart;
+          hashes[count] = hash;
+          count++;
+          fieldStart = ++i;
+          hash = FIELD_HASH_SEED;
+        } else if (kind === BREAK) {
+          fieldEnd = i;
+          next = i + 1;
+          break;
+        } else if (kind === CARRIAGE_RETURN) {
+          if (i + 1 === n && !final) break records; // an LF may follow in the next chunk
+          if (i + 1 < n && input.charCodeAt(i + 1) === LF) {
+            fieldEnd = i;
+            next = i + 2;
+            break;
+          }
+          hash = Math.imul(hash ^ ch, FNV_PRIME);
+          i++;
+        } else if (i === fieldStart) {
+          this.stoppedAt = start; // a quoted field: the slow path reads this record
+          break records;
+        } else {
+          hash = Math.imul(hash ^ ch, FNV_PRIME); // a quote inside an unquoted field is text
+          i++;
+        }
+      }
+      if (count === 0 && fieldEnd === fieldStart) {
+        sink.emptyLine(line);
+      } else {
+        bounds[count] = fieldStart;
+        hashes[count] = hash;
+        bounds[count + 1] = fieldEnd + 1;
+        this.emitPlain(input, count + 1, line);
+      }
+      if (next > fieldEnd) line++;
+      start = next;
+    }
+    this.line = line;
+    return start === at && this.stoppedAt === -1 && start < n ? INCOMPLETE : start;
   }
 
-  /** A line with nothing on it; `""` is not empty: it is one empty field, written on purpose. */
-  private isEmptyLine(fields: readonly string[], start: number): boolean {
-    return fields.length === 1 && fields[0] === '' && this.input.charCodeAt(start) !== QUOTE;
+  private emitPlain(input: string, count: number, line: number): void {
+    if (this.sink.plainRecord !== undefined) {
+      this.sink.plainRecord(input, this.bounds, this.hashes, count, line);
+      return;
+    }
+    const fields: string[] = [];
+    for (let k = 0; k < count; k++) fields.push(input.slice(this.bounds[k] ?? 0, (this.bounds[k + 1] ?? 0) - 1));
+    this.sink.record(fields, line, false);
+  }
+
+  /**
+   * Reads the record at `start`, which has a quoted field; returns where the next record starts,
+   * or INCOMPLETE when the text does not complete it yet.
+   */
+  private scanQuotedRecord(input: string, start: number, final: boolean): number {
+    const delimiter = this.delimiterChoice ?? ',';
+    const lineBreak = this.lineBreak;
+    const fields: string[] = [];
+    let cursor = start;
+    for (;;) {
+      const field = input.charCodeAt(cursor) === QUOTE && cursor < input.length
+        ? readQuotedField(input, cursor, delimiter, lineBreak, final)
+        : readUnquotedField(input, cursor, delimiter, lineBreak, final);
+      if (field === null) return INCOMPLETE;
+      fields.push(field.value);
+      cursor = field.next;
+      if (!field.endsRecord) continue;
+      if (field.endsWithBreak && !field.quoted && lineBreak === '\n') dropCarriageReturn(fields, input, field.next);
+      const line = this.line;
+      this.line += countOccurrences(input, lineBreak, start, cursor);
+      this.sink.record(fields, line, field.unclosed);
+      return cursor;
+    }
   }
 }
 
@@ -209,29 +361,91 @@ function scoreDelimiter(sample: string, delimiter: Delimiter, lineBreak: LineBre
   return { share: rest.length === 0 ? 1 : matching / rest.length, fields: header.length };
 }
 
+interface FieldRead {
+  readonly value: string;
+  /** Where the next field or record starts. */
+  readonly next: number;
+  readonly endsRecord: boolean;
+  /** The record ended at a line break (not at the end of the text). */
+  readonly endsWithBreak: boolean;
+  readonly quoted: boolean;
+  readonly unclosed: boolean;
+}
+
+/** An unquoted field ends at the next delimiter or line break; null when the text may go on. */
+function readUnquotedField(input: string, at: number, delimiter: string, lineBreak: string, final: boolean): FieldRead | null {
+  const nextDelimiter = input.indexOf(delimiter, at);
+  const nextBreak = input.indexOf(lineBreak, at);
+  if (nextDelimiter !== -1 && (nextBreak === -1 || nextDelimiter < nextBreak)) {
+    return { value: input.slice(at, nextDelimiter), next: nextDelimiter + 1, endsRecord: false, endsWithBreak: false, quoted: false, unclosed: false };
+  }
+  if (nextBreak !== -1) {
+    return { value: input.slice(at, nextBreak), next: nextBreak + 1, endsRecord: true, endsWithBreak: true, quoted: false, unclosed: false };
+  }
+  if (!final) return null;
+  return { value: input.slice(at), next: input.length, endsRecord: true, endsWithBreak: false, quoted: false, unclosed: false };
+}
+
 /**
- * In LF mode a CRLF ends the record, and papaparse leaves its CR on an unquoted last field. A
- * quoted last field keeps a CR written inside its quotes. In a record holding quotes, the last
- * field was unquoted when the raw text before the line break is that field, not starting with a
- * quote and right after a delimiter (or at the record's start).
+ * A field starting with a quote at `open`. A later quote closes it when only blanks (what
+ * `trim` removes) stand between it and the next delimiter or line break; `""` is an escaped
+ * quote; a quote at the very end of the text closes the field. Any other quote is text, and
+ * the search goes on. With no closing quote the field is the rest of the text, as written.
+ * null when the text may go on.
  */
-function dropCarriageReturn(fields: string[], input: string, start: number, end: number, delimiter: string, quoted: boolean): void {
-  if (input.charCodeAt(end - 1) !== LF || input.charCodeAt(end - 2) !== CR) return;
+function readQuotedField(input: string, open: number, delimiter: string, lineBreak: string, final: boolean): FieldRead | null {
+  const n = input.length;
+  for (let quote = input.indexOf('"', open + 1); ; quote = input.indexOf('"', quote + 2)) {
+    if (quote === -1) {
+      if (!final) return null;
+      return { value: input.slice(open + 1), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: true };
+    }
+    if (quote === n - 1) {
+      if (!final) return null;
+      return { value: unescapeQuotes(input.slice(open + 1, quote)), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: false };
+    }
+    if (input.charCodeAt(quote + 1) === QUOTE) continue; // "" is an escaped quote: search on after the pair
+    const after = firstOf(input, delimiter, lineBreak, quote + 1);
+    if (after !== -1 && isBlank(input, quote + 1, after)) {
+      const value = unescapeQuotes(input.slice(open + 1, quote));
+      const endsRecord = input[after] !== delimiter;
+      return { value, next: after + 1, endsRecord, endsWithBreak: endsRecord, quoted: true, unclosed: false };
+    }
+    // Not a closing quote (text follows it): it is part of the field; search on after it.
+  }
+}
+
+/** The first delimiter or line break at or after `from`; -1 when there is none. */
+function firstOf(input: string, delimiter: string, lineBreak: string, from: number): number {
+  const d = input.indexOf(delimiter, from);
+  const b = input.indexOf(lineBreak, from);
+  return d === -1 ? b : b === -1 ? d : Math.min(d, b);
+}
+
+function isBlank(input: string, start: number, end: number): boolean {
+  return start === end || input.slice(start, end).trim() === '';
+}
+
+function unescapeQuotes(text: string): string {
+  return text.includes('"') ? text.replace(/""/g, '"') : text;
+}
+
+/**
+ * In LF mode a CRLF ends the record; the CR belongs to the break, not to an unquoted last field.
+ * A quoted last field keeps a CR written inside its quotes.
+ */
+function dropCarriageReturn(fields: string[], input: string, next: number): void {
   const last = fields.length - 1;
   const field = fields[last];
-  if (field === undefined || field.charCodeAt(field.length - 1) !== CR) return;
-  if (quoted && !isRawLastField(field, input, start, end - 1, delimiter, last === 0)) return;
-  fields[last] = field.slice(0, -1);
+  if (field !== undefined && input.charCodeAt(next - 2) === CR && field.charCodeAt(field.length - 1) === CR) {
+    fields[last] = field.slice(0, -1);
+  }
 }
 
-function isRawLastField(field: string, input: string, recordStart: number, fieldEnd: number, delimiter: string, only: boolean): boolean {
-  const fieldStart = fieldEnd - field.length;
-  const afterDelimiter = only ? fieldStart === recordStart : input[fieldStart - 1] === delimiter;
-  return afterDelimiter && input.charCodeAt(fieldStart) !== QUOTE && input.slice(fieldStart, fieldEnd) === field;
-}
-
-function hasUnclosedQuote(errors: StepResult['errors']): boolean {
-  return errors.some((e) => e.code === 'MissingQuotes');
+function growInt32(array: Int32Array<ArrayBuffer>): Int32Array<ArrayBuffer> {
+  const bigger = new Int32Array(array.length * 2);
+  bigger.set(array);
+  return bigger;
 }
 
 function countOccurrences(text: string, needle: string, start: number, end: number): number {

@@ -132,6 +132,10 @@ export const PROFILE_THRESHOLDS = {
   freeTextSpaceShare: 0.5,
   /** …and at least this many non-missing cells. */
   freeTextMinValues: 5,
+  /** Sentences are free text even when repeated (canned comments): mean length at least this… */
+  sentenceMeanLength: 25,
+  /** …with inner spaces in at least this share of cells. */
+  sentenceSpaceShare: 0.9,
 } as const;
 
 export function profileColumn(
@@ -623,11 +627,9 @@ function looksLikeFreeText(
   text: TextShape,
 ): boolean {
   const t = PROFILE_THRESHOLDS;
-  return (
-    nonMissing >= t.freeTextMinValues &&
-    (numeric === null || numeric.share < 0.5) &&
-    distinct >= t.freeTextDistinctShare * nonMissing &&
-    text.meanLength >= t.freeTextMeanLength &&
-    text.withSpaces >= t.freeTextSpaceShare * nonMissing
-  );
+  if (nonMissing < t.freeTextMinValues || (numeric !== null && numeric.share >= 0.5)) return false;
+  const mostlyDistinctProse =
+    distinct >= t.freeTextDistinctShare * nonMissing && text.meanLength >= t.freeTextMeanLength && text.withSpaces >= t.freeTextSpaceShare * nonMissing;
+  const sentences = text.meanLength >= t.sentenceMeanLength && text.withSpaces >= t.sentenceSpaceShare * nonMissing;
+  return mostlyDistinctProse || sentences;
 }

@@ -30,8 +30,8 @@ export function tooLargeForPage(name: string, size: number, kind: FileKind, limi
     `“${name}” is ${sizeText(size)}; the page opens ${what} up to ${sizeText(limit)}, because it holds the whole table in this tab's memory. Nothing was read.`,
     {
       hint:
-        'Use the command line, which streams files of any size: "levelwise draft FILE -o recipe.json" proposes a recipe, ' +
-        '"levelwise apply recipe.json FILE -o encoded.csv" encodes the file.' +
+        `Use the command line, which streams files of any size: levelwise draft "${name}" -o recipe.json proposes a recipe, ` +
+        `and levelwise apply recipe.json "${name}" -o encoded.csv encodes the file.` +
         (kind === 'workbook' ? ' Or save the sheet as CSV and open that here.' : ''),
     },
   );

@@ -48,8 +48,10 @@ export async function readSource(source: TableSource, options: ReadSourceOptions
   return { read: await readText(file, options), fileName: file.name, file, sheet: null };
 }
 
+const WORKBOOK_NAME = /\.(xlsx|xlsm)$/i;
+
 async function isSpreadsheet(file: File): Promise<boolean> {
-  if (/\.(xlsx|xlsm)$/i.test(file.name)) return true;
+  if (WORKBOOK_NAME.test(file.name)) return true;
   const head = new Uint8Array(await file.slice(0, 4).arrayBuffer());
   return ZIP_MAGIC.every((b, i) => head[i] === b);
 }
@@ -82,6 +84,12 @@ async function readSpreadsheet(file: File, wanted: string | null, { signal, onPr
   try {
     sheets = await readXlsxFile(file, { trim: false });
   } catch (error) {
+    // Named like a workbook, it is a damaged one; named otherwise (an archive called .csv), it is no workbook at all.
+    if (!WORKBOOK_NAME.test(file.name)) {
+      throw new LevelwiseError('not-text', `“${file.name}” is not a text table: its first bytes say it is a ZIP archive, and it is not an XLSX workbook either (${messageOf(error)}).`, {
+        hint: 'If it holds CSV files, unpack it and open one of them; if it is a workbook, save it again as .xlsx.',
+      });
+    }
     throw new LevelwiseError('bad-spreadsheet', `“${file.name}” could not be read as an XLSX workbook: ${messageOf(error)}.`, {
       hint: 'Open it in a spreadsheet program and save it again as .xlsx, or export the sheet as CSV.',
     });

@@ -306,3 +306,13 @@ describe('numbers with a stray word', () => {
     expect(inferLevel(asMissing)).toMatchObject({ level: 'ordinal', order: ['1', '2', '3', '4', '5'] });
   });
 });
+
+describe('canned comments', () => {
+  it('a comment column of repeated sentences is free text, left out, not a nominal column of sentences', () => {
+    const sentences = ['Heat pump is noisy at night.', 'Wants a cheaper night rate please.', 'Prefers paper bills to the app.'];
+    const cells = Array.from({ length: 60 }, (_, i) => (i % 4 === 0 ? sentences[i % 3]! : ''));
+    const profile = profileColumn(columnTable('comment', cells).columns[0]!, 0);
+    expect(profile.flags.freeText).toBe(true);
+    expect(inferLevel(profile).level).toBe('excluded');
+  });
+});

@@ -562,11 +562,13 @@ describe('constants and quoting', () => {
     expect(() => compileSql(none, { table: 't', dialect: 'duckdb' })).toThrow(/no output columns/);
   });
   it('warns that PostgreSQL cuts output names longer than 63 bytes', () => {
-    const notes = sqlNotes(demoDraft, { dialect: 'postgres' });
+    // The demo's comments, one-hot coded, make output names of whole sentences.
+    const longNames = decide(demoDraft, { type: 'set-level', column: 'comment', level: 'nominal' }, demoProfiles);
+    const notes = sqlNotes(longNames, { dialect: 'postgres' });
     expect(notes).toHaveLength(1);
     expect(notes[0]).toMatch(/^PostgreSQL cuts names to 63 bytes, and \d+ output name\(s\) are longer/);
-    expect(compileSql(demoDraft, { table: 't', dialect: 'postgres' })).toContain(`-- Note: ${notes[0]}`);
-    expect(sqlNotes(demoDraft, { dialect: 'duckdb' })).toEqual([]);
+    expect(compileSql(longNames, { table: 't', dialect: 'postgres' })).toContain(`-- Note: ${notes[0]}`);
+    expect(sqlNotes(longNames, { dialect: 'duckdb' })).toEqual([]);
   });
   it('keeps a file name with a line break inside its comment line', () => {
     const recipe: Recipe = { ...demoDraft, source: { ...demoDraft.source, file: 'x\nDROP TABLE t; --' } };
