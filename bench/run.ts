@@ -6,6 +6,9 @@
  *   npm run bench -- --sizes 1000000    only the 1M-row file (it is always measured)
  *   npm run bench -- --cpu-prof         where the time goes: CPU profiles at 1M rows, no table
  *
+ * With /usr/bin/chromium installed, the page side (bench/page.ts, also `npm run bench:page`) runs
+ * after the Node measurements; its figures join the notes and bench/results.json ("page").
+ *
  * Prints one table and writes bench/results.json. Missed targets are reported, never an exit code:
  * this is a report, not a test. See bench/README.md for what each column means.
  */
@@ -37,6 +40,7 @@ import {
   type TableMemory,
 } from './lib/report.ts';
 import { median, megabytesPerSecond, TARGETS } from './lib/stats.ts';
+import { pageMeasurementsForBench } from './page.ts';
 import type { ProfileSummary } from './lib/summarise-cpu-profile.ts';
 
 const BENCH_DIR = dirname(fileURLToPath(import.meta.url));
@@ -292,9 +296,13 @@ async function main(): Promise<void> {
     const sizes = await measureAll(args, applyPath, recipeFile);
     const notes: string[] = [];
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
+    const loadAtEnd = loadavg()[0] ?? NaN;
+    // The page side (bench/page.ts) after the Node measurements, when /usr/bin/chromium exists.
+    const { page, notes: pageLines } = await pageMeasurementsForBench();
+    notes.push(...pageLines);
     const results: BenchResults = {
       machine: describeMachine(),
-      loadAverage: { start: loadAtStart, end: loadavg()[0] ?? NaN },
+      loadAverage: { start: loadAtStart, end: loadAtEnd },
       reps: args.reps,
       applyPath,
       recipe: describeRecipe(recipe),
@@ -305,7 +313,7 @@ async function main(): Promise<void> {
     };
     printResults(results);
     if (args.write) {
-      writeFileSync(RESULTS_FILE, `${JSON.stringify(results, null, 2)}\n`);
+      writeFileSync(RESULTS_FILE, `${JSON.stringify(page === null ? results : { ...results, page }, null, 2)}\n`);
       progress(`wrote ${shown(RESULTS_FILE)}`);
     }
   } finally {

@@ -12,12 +12,15 @@ export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
 export class CliFailure extends Error {
   readonly exitCode: ExitCode;
   readonly hint: string;
+  /** Further lines, one per problem, when there is more than one to tell (a recipe's problems). */
+  readonly details: readonly string[];
 
-  constructor(message: string, hint: string, exitCode: ExitCode = EXIT.usage) {
+  constructor(message: string, hint: string, exitCode: ExitCode = EXIT.usage, details: readonly string[] = []) {
     super(message);
     this.name = 'CliFailure';
     this.hint = hint;
     this.exitCode = exitCode;
+    this.details = details;
   }
 }
 
@@ -39,14 +42,23 @@ function withPlace(message: string, error: LevelwiseError): string {
   return where === '' ? message : `${message.replace(/\.$/, '')} (${where}).`;
 }
 
-/** The one line printed for any error, and the exit code that goes with it. */
-export function describeFailure(error: unknown, verb: string | null): { line: string; exitCode: ExitCode } {
+/**
+ * The lines printed for any error, and the exit code that goes with it: one line saying what,
+ * where and what to do; or, when a failure lists several problems, the headline, one line per
+ * problem, and what to do last. Every line starts with "levelwise VERB:".
+ */
+export function describeFailure(error: unknown, verb: string | null): { lines: string[]; exitCode: ExitCode } {
   const prefix = `levelwise${verb === null ? '' : ` ${verb}`}:`;
-  if (error instanceof CliFailure) return { line: oneLine(`${prefix} ${error.message} ${error.hint}`), exitCode: error.exitCode };
-  if (isLevelwiseError(error)) return { line: oneLine(`${prefix} ${withPlace(error.message, error)} ${error.hint}`), exitCode: EXIT.usage };
+  if (error instanceof CliFailure) {
+    if (error.details.length === 0) return { lines: [oneLine(`${prefix} ${error.message} ${error.hint}`)], exitCode: error.exitCode };
+    const lines = [oneLine(`${prefix} ${error.message}`), ...error.details.map((d) => `${prefix} ${d.replace(/\s*[\r\n]+\s*/g, ' ')}`)];
+    if (error.hint !== '') lines.push(oneLine(`${prefix} ${error.hint}`));
+    return { lines, exitCode: error.exitCode };
+  }
+  if (isLevelwiseError(error)) return { lines: [oneLine(`${prefix} ${withPlace(error.message, error)} ${error.hint}`)], exitCode: EXIT.usage };
   const message = error instanceof Error ? error.message : String(error);
   return {
-    line: oneLine(`${prefix} unexpected problem: ${message.replace(/\.$/, '')}. This is a fault in Levelwise; please report it with the command you ran.`),
+    lines: [oneLine(`${prefix} unexpected problem: ${message.replace(/\.$/, '')}. This is a fault in Levelwise; please report it with the command you ran.`)],
     exitCode: EXIT.usage,
   };
 }

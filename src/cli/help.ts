@@ -57,23 +57,29 @@ ${EXIT_CODES}
   apply: `Usage: levelwise apply RECIPE FILE [-o OUT] [--rejects FILE]
 
 Encodes FILE with RECIPE into a CSV of numbers (RFC 4180), streaming: memory does not grow with
-the file. The output is the same, byte for byte, as the workbench's download.
+the file. The output is the same, byte for byte, as the workbench's download (but for rows with
+more fields than the header or a quote never closed, which are rejected here).
 
   -o, --output OUT   write to OUT (default: standard output); OUT appears only when complete
-  --rejects FILE     write rows a policy "error" rejects to FILE: their line, column, reason
-                     and cells. Rejected rows are never in the output.
+  --rejects FILE     write rejected rows to FILE: their line, column, reason and every cell.
+                     Rejected rows are never in the output: rows a policy "error" rejects, and
+                     rows whose fields do not line up with the header (too many fields, a quote
+                     never closed). A row with too few fields is kept, its missing cells empty.
 
-Exit 1 when any row was rejected or a column of the recipe is missing from FILE; notes on what
-did not fit (unseen levels, values that are not numbers) go to standard error.
+Exit 1 when any row was rejected or had too few fields, or a column of the recipe is missing
+from FILE; notes on what did not fit (with line numbers) go to standard error. Nothing is
+written, with exit 1, when FILE lacks most of the recipe's columns (a recipe for another
+file); with exit 2 when the recipe makes no output columns.
 
 ${READING}
 ${EXIT_CODES}
 `,
   check: `Usage: levelwise check RECIPE FILE [--format text|json]
 
-Reads FILE against RECIPE without writing anything, and reports whether it fits: missing
-columns, levels the recipe never saw (with counts and lines), values that are not numbers, rows
-a policy "error" would reject. Exit 0 when it fits, 1 when it does not.
+Reads FILE against RECIPE without writing anything, and reports whether it fits: rows whose
+fields do not line up with the header, missing columns, levels the recipe never saw (with counts
+and lines), values that are not numbers, rows "levelwise apply" would reject, a header with no
+data rows. Exit 0 when it fits, 1 when it does not.
 
   --format text|json   text for people (default), JSON for programs
 

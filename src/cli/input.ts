@@ -9,13 +9,15 @@ import { stat } from 'node:fs/promises';
 import { basename } from 'node:path';
 import readXlsxFile from 'read-excel-file/node';
 import type { Table } from '../core/columns.ts';
-import type { EncodingName } from '../core/decode.ts';
+import { decodeBytes, type EncodingName } from '../core/decode.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { parseRecipe } from '../core/recipe-io.ts';
 import type { Recipe } from '../core/recipe.ts';
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import { CliFailure, readingFailure } from './failure.ts';
+import { createFindingsLog, type ReadingFindings } from './reading-findings.ts';
+import { recipeFailure } from './recipe-problems.ts';
 
 export interface InputSource {
   /** The path as given, or "standard input". */
@@ -30,6 +32,11 @@ export interface InputSource {
 }
 
 const STDIN_LABEL = 'standard input';
+
+/** How messages name an input given as `path` ("-": standard input). */
+export function inputLabel(path: string): string {
+  return path === '-' ? STDIN_LABEL : path;
+}
 
 /** A file path or "-"; fails at once (exit 2) when the file cannot be read. */
 export async function inputSource(path: string): Promise<InputSource> {
@@ -88,16 +95,12 @@ async function readAllText(source: InputSource): Promise<string> {
   return Buffer.concat(parts).toString('utf8');
 }
 
-/** A recipe file, validated; its problems are one line each, the first shown, with a count of the rest. */
+/** A recipe file, validated; every problem is listed (see recipe-problems.ts). */
 export async function readRecipe(path: string): Promise<Recipe> {
   const source = await inputSource(path);
   const parsed = parseRecipe(await readAllText(source));
   if (parsed.ok) return parsed.recipe;
-  const [first = 'it is not a recipe', ...rest] = parsed.errors;
-  const more = rest.length > 0 ? ` (and ${rest.length} more problem${rest.length > 1 ? 's' : ''})` : '';
-  // Some of core's messages already say what to do; the others get our hint.
-  const hint = /make (it|a new one)|remove|choose/i.test(first) ? '' : 'Fix the recipe, or make a new one with "levelwise draft".';
-  throw new CliFailure(`the recipe "${source.label}" cannot be used: ${first.replace(/\.$/, '')}${more}.`, hint);
+  throw recipeFailure(source.label, parsed.errors);
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -117,6 +120,8 @@ export interface ReadSummary {
   readonly encoding: EncodingName | 'xlsx';
   readonly delimiter: Delimiter | null;
   readonly sheet: string | null;
+  /** Renamed columns, rows with the wrong number of fields, a quote never closed. */
+  readonly findings: ReadingFindings;
 }
 
 /** The start of every ZIP container, XLSX included ("PK\3\4"). */
@@ -198,6 +203,7 @@ async function readText(
   handlers: BatchHandlers,
 ): Promise<ReadSummary> {
   let rows = 0;
+  const log = createFindingsLog();
   const reader = createTableReader({
     delimiter,
     encoding,
@@ -206,6 +212,7 @@ async function readText(
       : {
           batchRows,
           onBatch: (batch: Table, firstRow: number) => {
+            log.add(batch.rowIssues, batch.headerIssues);
             handlers.onBatch(batch, 0, batch.rowCount, firstRow);
             rows += batch.rowCount;
           },
@@ -216,8 +223,18 @@ async function readText(
     await handlers.afterChunk(reader.bytesRead, rows);
   }
   const result: ReadResult = reader.finish();
-  if (batchRows === null) handlers.onBatch(result.table, 0, result.table.rowCount, 0);
-  return { names: result.table.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null };
+  if (batchRows === null) {
+    log.add(result.table.rowIssues, result.table.headerIssues);
+    handlers.onBatch(result.table, 0, result.table.rowCount, 0);
+  }
+  return {
+    names: result.table.names,
+    rows: result.totalRows,
+    encoding: result.encoding,
+    delimiter: result.delimiter,
+    sheet: null,
+    findings: log.findings(),
+  };
 }
 
 async function readWorkbook(
@@ -229,14 +246,12 @@ async function readWorkbook(
 ): Promise<ReadSummary> {
   const parts: Uint8Array[] = [];
   for await (const chunk of chunks) parts.push(chunk);
+  const bytes = Buffer.concat(parts);
   let sheets: Awaited<ReturnType<typeof readXlsxFile>>;
   try {
-    sheets = await readXlsxFile(Buffer.concat(parts), { trim: false });
+    sheets = await readXlsxFile(bytes, { trim: false });
   } catch (error) {
-    throw new CliFailure(
-      `"${source.label}" could not be read as an XLSX workbook (${error instanceof Error ? error.message.replace(/\.$/, '') : String(error)}).`,
-      'Open it in a spreadsheet program and save it again as .xlsx, or export the sheet as CSV.',
-    );
+    throw notAWorkbook(source.label, bytes, error);
   }
   const names = sheets.map((s) => s.sheet);
   const chosen = settings.sheet === null ? sheets[0] : sheets.find((s) => s.sheet === settings.sheet);
@@ -247,13 +262,34 @@ async function readWorkbook(
     );
   }
   const { table } = tableFromRows(chosen.data.map((row) => row.map(spreadsheetCellText)));
+  const log = createFindingsLog();
+  log.add(table.rowIssues, table.headerIssues);
   const step = batchRows ?? Math.max(1, table.rowCount);
   for (let start = 0; start < table.rowCount || start === 0; start += step) {
     handlers.onBatch(table, start, Math.min(table.rowCount, start + step), 0);
     await handlers.afterChunk(0, Math.min(table.rowCount, start + step));
     if (table.rowCount === 0) break;
   }
-  return { names: table.names, rows: table.rowCount, encoding: 'xlsx', delimiter: null, sheet: chosen.sheet };
+  return { names: table.names, rows: table.rowCount, encoding: 'xlsx', delimiter: null, sheet: chosen.sheet, findings: log.findings() };
+}
+
+/**
+ * A ZIP container that is no workbook the reader can open: said as core says it of any file that
+ * is not text ("it looks like a ZIP archive"), with why it is not a workbook either.
+ */
+function notAWorkbook(label: string, bytes: Uint8Array, error: unknown): CliFailure {
+  const why = error instanceof Error ? error.message.replace(/\.$/, '') : String(error);
+  let what = 'This is not a text table: it looks like a ZIP archive.';
+  try {
+    decodeBytes(bytes.subarray(0, 64));
+  } catch (notText) {
+    if (isLevelwiseError(notText, 'not-text')) what = notText.message;
+  }
+  const message = what.charAt(0).toLowerCase() + what.slice(1).replace(/\.$/, '');
+  return new CliFailure(
+    `cannot read "${label}": ${message}, and not a workbook that can be opened (${why}).`,
+    'If it is an archive, unpack it and give the CSV inside; if it is a workbook, open it in its spreadsheet program and save it again as .xlsx.',
+  );
 }
 
 /** An async iterable that can show its first chunk before being iterated (to spot a workbook). */

@@ -42,8 +42,8 @@ export async function main(argv: readonly string[]): Promise<ExitCode> {
   } catch (error) {
     if (error instanceof OutputClosed) return EXIT.ok;
     if (process.env['LEVELWISE_DEBUG'] === '1') console.error(error);
-    const { line, exitCode } = describeFailure(error, run === undefined ? null : verb);
-    process.stderr.write(`${line}\n`);
+    const { lines, exitCode } = describeFailure(error, run === undefined ? null : verb);
+    process.stderr.write(`${lines.join('\n')}\n`);
     return exitCode;
   }
 }

@@ -1,7 +1,10 @@
 /**
  * A recipe over a file, batch by batch: the loop `apply` and `check` share. The plan is made when
- * the header is read; each batch is encoded with core's encodeBatch and handed on with the rows a
- * policy rejected (line, column, reason) in row order.
+ * the header is read; each batch is encoded with core's encodeBatch and handed on with the rows it
+ * rejects (line, column, reason) in row order: the rows a policy "error" rejects, and the rows whose
+ * fields do not line up with the header (too many fields, a quote never closed). Such a row cannot
+ * be encoded without guessing which cell belongs to which column, so it is rejected whole, its
+ * cells kept for the rejects file; a row with too few fields is kept, its missing cells empty.
  */
 import { createApplyReport, type ApplyReport, type ApplyReportBuilder } from '../core/apply-report.ts';
 import { encodeBatch, type EncodedBatch } from '../core/apply.ts';
@@ -11,18 +14,22 @@ import type { Recipe } from '../core/recipe.ts';
 import { batchRows } from './common.ts';
 import { readBatches, type InputSource, type ReadSettings, type ReadSummary } from './input.ts';
 import { createProgress } from './progress.ts';
+import { hasRowProblems } from './reading-findings.ts';
 
-/** One rejected row of a batch: its row in the batch's table, file line, the first column at fault and why. */
+/** One rejected row of a batch: its row in the batch's table, file line, the column at fault and why. */
 export interface Rejection {
   /** Row of the batch's table (for its cells). */
   readonly row: number;
   readonly line: number;
+  /** The first column at fault; empty when the row as a whole is (too many fields). */
   readonly column: string;
   readonly reason: string;
+  /** Cells after the header's last column (a row with too many fields), kept for the rejects file. */
+  readonly extra: readonly string[];
 }
 
 export interface RecipeRunHooks {
-  /** The header is known (again, after a restart). */
+  /** The header is known (again, after a restart); may throw to stop before anything is written. */
   start(plan: Plan): void;
   batch(plan: Plan, encoded: EncodedBatch, table: Table, rejections: readonly Rejection[]): void;
   /** After each chunk of input (e.g. wait for the output to drain). */
@@ -31,13 +38,17 @@ export interface RecipeRunHooks {
   restart(): Promise<boolean>;
 }
 
-export async function runRecipe(
-  recipe: Recipe,
-  source: InputSource,
-  settings: ReadSettings,
-  verb: string,
-  hooks: RecipeRunHooks,
-): Promise<{ report: ApplyReport; summary: ReadSummary }> {
+export interface RecipeRun {
+  /**
+   * Core's re-use report, with the rows rejected for their shape counted in (`rowsRejected`,
+   * `rowsWritten`, `rejected`, after the policies' rejections) and `fits` false when any row did
+   * not line up with the header or the file has no data rows.
+   */
+  readonly report: ApplyReport;
+  readonly summary: ReadSummary;
+}
+
+export async function runRecipe(recipe: Recipe, source: InputSource, settings: ReadSettings, verb: string, hooks: RecipeRunHooks): Promise<RecipeRun> {
   let plan: Plan | null = null;
   let report: ReturnType<typeof rejectionTee> | null = null;
   const progress = createProgress(`levelwise ${verb}`, source.size);
@@ -50,6 +61,7 @@ export async function runRecipe(
           hooks.start(plan);
         }
         report.startBatch(firstRow);
+        // Core rejects rows a policy refuses and rows whose fields do not line up with the header.
         const encoded = encodeBatch(plan, table, start, end, report);
         hooks.batch(plan, encoded, table, report.take());
       },
@@ -64,7 +76,11 @@ export async function runRecipe(
       },
     });
     if (report === null) throw new Error('the reader handed over no batch');
-    return { report: (report as ReturnType<typeof rejectionTee>).finish(), summary };
+    const core = (report as ReturnType<typeof rejectionTee>).finish();
+    return {
+      report: { ...core, fits: core.fits && !hasRowProblems(summary.findings) && core.rows > 0 },
+      summary,
+    };
   } finally {
     progress.done();
   }
@@ -84,7 +100,12 @@ function rejectionTee(inner: ApplyReportBuilder): ApplyReportBuilder & { startBa
     },
     cell(columnPlan, row, line, text, outcome) {
       inner.cell(columnPlan, firstRowOfBatch + row, line, text, outcome);
-      if (outcome.reject !== null && !pending.has(row)) pending.set(row, { row, line, column: columnPlan.recipe.name, reason: outcome.reject });
+      if (outcome.reject !== null && !pending.has(row)) pending.set(row, { row, line, column: columnPlan.recipe.name, reason: outcome.reject, extra: [] });
+    },
+    misshapen(row) {
+      inner.misshapen({ ...row, row: firstRowOfBatch + row.row });
+      const earlier = pending.get(row.row);
+      pending.set(row.row, earlier ? { ...earlier, extra: row.extra } : { ...row });
     },
     rowsDone(rows, rejected) {
       inner.rowsDone(rows, rejected);

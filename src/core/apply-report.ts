@@ -5,6 +5,7 @@
  */
 import type { ColumnPlan, LevelResolution, NumberResolution, Plan } from './plan.ts';
 import { MISSING_LEVEL } from './fit.ts';
+import type { MisshapenRow } from './row-shape.ts';
 
 /** A value met in the file, how often, and the first lines it was on. */
 export interface ValueTally {
@@ -58,6 +59,8 @@ interface Tally {
 
 export interface ApplyReportBuilder {
   cell(plan: ColumnPlan, row: number, line: number, text: string, outcome: LevelResolution | NumberResolution): void;
+  /** A row rejected for its shape; called even when a policy rejected it already. */
+  misshapen(row: MisshapenRow): void;
   rowsDone(rows: number, rejected: number): void;
   finish(): ApplyReport;
 }
@@ -90,6 +93,11 @@ export function createApplyReport(plan: Plan): ApplyReportBuilder {
         rejectedRows.add(row);
         if (rejected.length < MAX_REJECTED_LISTED) rejected.push({ row, line, column: name, reason: outcome.reject });
       }
+    },
+    misshapen({ row, line, column, reason }) {
+      if (rejectedRows.has(row)) return;
+      rejectedRows.add(row);
+      if (rejected.length < MAX_REJECTED_LISTED) rejected.push({ row, line, column, reason });
     },
     rowsDone(count, rejectedCount) {
       rows += count;

@@ -4,6 +4,7 @@
  *   compilePlan (plan.ts)     recipe + header → per-column plans, code tables, cached resolvers
  *   resolve                   each distinct cell text → level / number / missing / unseen / reject
  *   encode                    per row: a level index or a scaled number, plus missing flags
+ *   reject (row-shape.ts)     rows whose fields do not line up with the header
  *   report (apply-report.ts)  counts of what each policy did, unseen levels, rejected rows
  *   write (csv-write.ts)      encoded rows → RFC 4180 bytes; or encodeWindow → numbers for a preview
  *
@@ -12,12 +13,22 @@
  */
 import { cellText, type Column, type Table } from './columns.ts';
 import type { ApplyReportBuilder } from './apply-report.ts';
+import { misshapenRows } from './row-shape.ts';
 import { ALL_ZEROS, type CategoricalPlan, type ContinuousPlan, type LevelResolution, type Plan } from './plan.ts';
 
 /** One encoded column of a batch; arrays are indexed by row − start. */
 export type EncodedColumn =
   | { readonly kind: 'levels'; readonly level: Int32Array; readonly missing: Uint8Array }
-  | { readonly kind: 'numbers'; readonly values: Float64Array; readonly missing: Uint8Array }
+  | {
+      readonly kind: 'numbers';
+      readonly values: Float64Array;
+      readonly missing: Uint8Array;
+      /**
+       * For a dictionary-stored source: the code of each row (indexed by row − start). Rows of one
+       * code hold the same value and missing flag, so a writer may format each code once.
+       */
+      readonly codes?: Uint32Array;
+    }
   | { readonly kind: 'text'; readonly source: Column | null }
   | { readonly kind: 'none' };
 
@@ -50,6 +61,10 @@ export function encodeBatch(plan: Plan, table: Table, start = 0, end = table.row
         return { kind: 'none' };
     }
   });
+  for (const misshapen of misshapenRows(table, start, start + rows)) {
+    rejected[misshapen.row - start] = 1;
+    report?.misshapen(misshapen);
+  }
   let rejectedCount = 0;
   for (let r = 0; r < rows; r++) rejectedCount += rejected[r] ?? 0;
   report?.rowsDone(rows, rejectedCount);
@@ -119,6 +134,7 @@ function encodeNumbers(
       if (!outcome.missing && !outcome.invalid) values[r] = (outcome.value - center) / scale;
       else numberCell(plan, source.values[code] ?? '', r, start, values, missing, rejected, table, report);
     }
+    return { kind: 'numbers', values, missing, codes: source.codes.subarray(start, start + rows) };
   } else {
     for (let r = 0; r < rows; r++) numberCell(plan, source === null ? '' : cellText(source, start + r), r, start, values, missing, rejected, table, report);
   }

@@ -22,7 +22,9 @@ export { cleaner } from './cleaning.ts';
 
 // The recipe: decisions and what was learned
 export { Recipe, ColumnRecipe, RECIPE_KIND, RECIPE_VERSION, DEFAULT_MISSING_TOKENS, LEVELS, type MeasurementLevel } from './recipe.ts';
-export { parseRecipe, stringifyRecipe, consistencyProblems, type RecipeParse } from './recipe-io.ts';
+export { parseRecipe, stringifyRecipe, consistencyProblems, recipeTooLargeMessage, MAX_RECIPE_BYTES, type RecipeParse } from './recipe-io.ts';
+export { jsonErrorPosition, type TextPosition } from './json-position.ts';
+export { MAX_CATEGORICAL_LEVELS, WIDE_DRAFT_KEEP_TOP } from './level-limit.ts';
 export { recipeJsonSchema, recipeJsonSchemaText } from './recipe-schema.ts';
 export { draftRecipe, draftColumn, refitColumn, MISSING_LEVEL, OTHER_LEVEL } from './fit.ts';
 export { decide, type Decision } from './decisions.ts';

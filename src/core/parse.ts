@@ -2,10 +2,11 @@
  * Delimited text → records, fed text chunk by chunk (the decoder's output), with the physical
  * line each record starts on. Our own scanner, shaped for big files:
  *
- * - Records with no quoted field (nearly all of a typical export) are read by one loop over the
- *   characters that finds the delimiters and line breaks and hashes each field as it goes. Such a
- *   record is handed on as positions in the text (`RecordSink.plainRecord`), so no string is
- *   made per cell: the table keeps one string per distinct value (columns-builder.ts).
+ * - Records with no quoted field (nearly all of a typical export) are split with `indexOf`, which
+ *   engines run natively, never looking at the characters one by one in JavaScript. Such records
+ *   are handed on in blocks, as positions in the text (`RecordSink.plainRecords`), so no string is
+ *   made per cell (the table keeps one string per distinct value, columns-builder.ts) and the
+ *   table can take a block column by column, one column's dictionary at a time.
  * - A record with a field that starts with a quote goes through a slower path that reads quoted
  *   fields the way papaparse's parser does, down to its handling of malformed quoting: a quote
  *   closes a field only when blanks and then a delimiter, a line break or the end of the text
@@ -43,12 +44,24 @@ export interface RecordSink {
   /** A line with nothing on it. Whether it is skipped or is an empty cell is the table's call. */
   emptyLine(line: number): void;
   /**
-   * Optional fast path for a record without quoted fields, given as positions instead of strings:
-   * field k (k < count) is `text.slice(bounds[k], bounds[k + 1] - 1)` and `hashes[k]` is its
-   * `fieldHash`. The arrays are reused: valid only during the call. Without this method such
-   * records come through `record` like the others. Never called for an empty line.
+   * Optional fast path: consecutive records without quoted fields, as positions in the text (see
+   * PlainRecords), so that no string need be made per cell. Without this method such records come
+   * through `record` one by one like the others. Empty lines never come this way.
    */
-  plainRecord?(text: string, bounds: Int32Array, hashes: Int32Array, count: number, line: number): void;
+  plainRecords?(records: PlainRecords): void;
+}
+
+/**
+ * Consecutive records without quoted fields, all with `width` fields. Field f of record r is
+ * `text.slice(bounds[r * (width + 1) + f], bounds[r * (width + 1) + f + 1] - 1)`, and the record
+ * starts on line `lines[r]`. Valid only during the call: the arrays are reused.
+ */
+export interface PlainRecords {
+  readonly text: string;
+  readonly count: number;
+  readonly width: number;
+  readonly bounds: Int32Array;
+  readonly lines: Int32Array;
 }
 
 export interface RecordParserOptions {
@@ -61,41 +74,18 @@ const SNIFF_CHARS = 64 * 1024;
 
 const QUOTE = 0x22;
 const CR = 0x0d;
-const LF = 0x0a;
-
-// ---------------------------------------------------------------------------------------------
-// Field hash: 32-bit FNV-1a over UTF-16 code units. The scanner computes it while looking for the
-// delimiters; the column builder computes the same for fields that arrive as strings.
-
-export const FIELD_HASH_SEED = 0x811c9dc5 | 0;
-const FNV_PRIME = 0x01000193;
-
-/** The hash of text[start, end), as the scanner computes it. */
-export function fieldHash(text: string, start = 0, end = text.length): number {
-  let hash = FIELD_HASH_SEED;
-  for (let i = start; i < end; i++) hash = Math.imul(hash ^ text.charCodeAt(i), FNV_PRIME);
-  return hash;
-}
-
-// What a character below 128 means to the scanner; every other character is ORDINARY.
-const ORDINARY = 0;
-const DELIMITER = 1;
-/** The character that ends a record (LF, or CR in a file of lone CRs). */
-const BREAK = 2;
-/** CR in LF mode: ends the record when an LF follows, else it is text. */
-const CARRIAGE_RETURN = 3;
-const QUOTE_MARK = 4;
 
 /** The scanner stopped before a record that is not complete yet (more text may follow). */
 const INCOMPLETE = -1;
+
+/** A block of plain records is handed on once its bounds fill this many entries (1 MB). */
+const BLOCK_BOUNDS = 1 << 18;
 
 export class RecordParser {
   private readonly sink: RecordSink;
   private delimiterChoice: Delimiter | null;
   private lineBreak: LineBreak = '\n';
   private started = false;
-  /** What each character below 128 means (see ORDINARY…QUOTE_MARK). */
-  private readonly classes = new Uint8Array(128);
   /** Text not yet parsed: an incomplete record, then newer text, in pieces. */
   private pending: string[] = [];
   private pendingLength = 0;
@@ -103,9 +93,8 @@ export class RecordParser {
   private parseAt = SNIFF_CHARS;
   /** Line on which the pending text starts. */
   private line = 1;
-  // Scratch space for one plain record, reused (see RecordSink.plainRecord).
-  private bounds = new Int32Array(64);
-  private hashes = new Int32Array(64);
+  /** Plain records collected for the sink (see PlainRecords); the arrays grow as needed. */
+  private readonly block = { text: '', count: 0, width: 0, bounds: new Int32Array(1 << 12), lines: new Int32Array(1 << 8) };
 
   constructor(sink: RecordSink, options: RecordParserOptions = {}) {
     this.sink = sink;
@@ -146,15 +135,6 @@ export class RecordParser {
   private start(sample: string, final: boolean): void {
     this.lineBreak = chooseLineBreak(sample);
     this.delimiterChoice ??= chooseDelimiter(sample, this.lineBreak, final);
-    const classes = this.classes;
-    classes[this.delimiterChoice.charCodeAt(0)] = DELIMITER;
-    classes[QUOTE] = QUOTE_MARK;
-    if (this.lineBreak === '\n') {
-      classes[LF] = BREAK;
-      classes[CR] = CARRIAGE_RETURN;
-    } else {
-      classes[CR] = BREAK;
-    }
     this.started = true;
   }
 
@@ -178,93 +158,95 @@ export class RecordParser {
   private stoppedAt = -1;
 
   /**
-   * Reads records without quoted fields from `at` on, for as long as they come. Returns where it
-   * stopped: the end of the text, the start of a record with a quoted field (then `stoppedAt` is
-   * that position too), or the start of a record the text does not complete yet (when `final` is
-   * false; then, if that is `at` itself, INCOMPLETE).
+   * Reads records without quoted fields from `at` on, for as long as they come, into the block of
+   * plain records. Returns where it stopped: the end of the text, the start of a record with a
+   * quoted field (then `stoppedAt` is that position too), or the start of a record the text does
+   * not complete yet (when `final` is false; then, if that is `at` itself, INCOMPLETE). Hands the
+   * block to the sink before returning and before anything that is not a plain record.
    */
   private scanPlainRecords(input: string, at: number, final: boolean): number {
     const n = input.length;
-    const classes = this.classes;
-    const sink = this.sink;
-    let bounds = this.bounds;
-    let hashes = this.hashes;
+    const block = this.block;
+    block.text = input;
+    let bounds = block.bounds;
+    const delimiter = this.delimiterChoice ?? ',';
+    const lineBreak = this.lineBreak;
+    const lfMode = lineBreak === '\n';
+    // Where the next record's bounds go.
+    let b = 0;
     let line = this.line;
     let start = at;
     this.stoppedAt = -1;
-    records: while (start < n) {
+    // The next delimiter and quote at or after the current position (-1: none in the text).
+    let nextDelimiter = input.indexOf(delimiter, start);
+    let nextQuote = input.indexOf('"', start);
+    while (start < n) {
+      let end = input.indexOf(lineBreak, start);
+      let next: number;
+      if (end === -1) {
+        if (!final) break; // the record's line break is in a later chunk
+        end = n;
+        next = n;
+      } else {
+        next = end + 1;
+      }
+      // In LF mode a CR right before the LF belongs to the line break.
+      const fieldsEnd = lfMode && end < n && end > start && input.charCodeAt(end - 1) === CR ? end - 1 : end;
+      if (nextQuote !== -1 && nextQuote < start) nextQuote = input.indexOf('"', start);
+      // A quote in the record is text unless a field starts with it (then the slow path reads it).
+      const quotes = nextQuote !== -1 && nextQuote < end;
+      if (fieldsEnd === start) {
+        this.flushBlock();
+        b = 0;
+        this.sink.emptyLine(line);
+        line++;
+        start = next;
+        continue;
+      }
       let count = 0;
       let fieldStart = start;
-      let hash = FIELD_HASH_SEED;
-      let i = start;
-      let fieldEnd: number;
-      let next: number;
       for (;;) {
-        if (i === n) {
-          if (!final) break records;
-          fieldEnd = n;
-          next = n;
+        if (quotes && input.charCodeAt(fieldStart) === QUOTE) {
+          this.stoppedAt = start;
           break;
         }
-        const ch = input.charCodeAt(i);
-        const kind = ch < 128 ? (classes[ch] ?? ORDINARY) : ORDINARY;
-        if (kind === ORDINARY) {
-          hash = Math.imul(hash ^ ch, FNV_PRIME);
-          i++;
-        } else if (kind === DELIMITER) {
-          if (count + 2 >= bounds.length) {
-            bounds = this.bounds = growInt32(bounds);
-            hashes = this.hashes = growInt32(hashes);
-          }
-          bounds[count] = fieldStart;
-          hashes[count] = hash;
-          count++;
-          fieldStart = ++i;
-          hash = FIELD_HASH_SEED;
-        } else if (kind === BREAK) {
-          fieldEnd = i;
-          next = i + 1;
-          break;
-        } else if (kind === CARRIAGE_RETURN) {
-          if (i + 1 === n && !final) break records; // an LF may follow in the next chunk
-          if (i + 1 < n && input.charCodeAt(i + 1) === LF) {
-            fieldEnd = i;
-            next = i + 2;
-            break;
-          }
-          hash = Math.imul(hash ^ ch, FNV_PRIME);
-          i++;
-        } else if (i === fieldStart) {
-          this.stoppedAt = start; // a quoted field: the slow path reads this record
-          break records;
-        } else {
-          hash = Math.imul(hash ^ ch, FNV_PRIME); // a quote inside an unquoted field is text
-          i++;
-        }
+        if (b + count + 2 >= bounds.length) bounds = block.bounds = growInt32(bounds);
+        bounds[b + count++] = fieldStart;
+        if (nextDelimiter !== -1 && nextDelimiter < fieldStart) nextDelimiter = input.indexOf(delimiter, fieldStart);
+        if (nextDelimiter === -1 || nextDelimiter >= fieldsEnd) break;
+        fieldStart = nextDelimiter + 1;
       }
-      if (count === 0 && fieldEnd === fieldStart) {
-        sink.emptyLine(line);
-      } else {
-        bounds[count] = fieldStart;
-        hashes[count] = hash;
-        bounds[count + 1] = fieldEnd + 1;
-        this.emitPlain(input, count + 1, line);
+      if (this.stoppedAt === start) break;
+      bounds[b + count] = fieldsEnd + 1;
+      if (block.count > 0 && count !== block.width) {
+        // A record of another width starts a new block: hand over the others, keep this one.
+        this.flushBlock();
+        bounds.copyWithin(0, b, b + count + 1);
+        b = 0;
       }
-      if (next > fieldEnd) line++;
+      block.width = count;
+      if (block.count === block.lines.length) block.lines = growInt32(block.lines);
+      block.lines[block.count++] = line;
+      b += count + 1;
+      if (b >= BLOCK_BOUNDS) {
+        this.flushBlock();
+        b = 0;
+      }
+      if (next > end) line++;
       start = next;
     }
     this.line = line;
+    this.flushBlock();
     return start === at && this.stoppedAt === -1 && start < n ? INCOMPLETE : start;
   }
 
-  private emitPlain(input: string, count: number, line: number): void {
-    if (this.sink.plainRecord !== undefined) {
-      this.sink.plainRecord(input, this.bounds, this.hashes, count, line);
-      return;
-    }
-    const fields: string[] = [];
-    for (let k = 0; k < count; k++) fields.push(input.slice(this.bounds[k] ?? 0, (this.bounds[k + 1] ?? 0) - 1));
-    this.sink.record(fields, line, false);
+  /** Hands the collected plain records to the sink. */
+  private flushBlock(): void {
+    const block = this.block;
+    if (block.count === 0) return;
+    if (this.sink.plainRecords !== undefined) this.sink.plainRecords(block);
+    else for (let r = 0; r < block.count; r++) this.sink.record(plainFields(block, r), block.lines[r] ?? 0, false);
+    block.count = 0;
   }
 
   /**
@@ -291,6 +273,16 @@ export class RecordParser {
       return cursor;
     }
   }
+}
+
+/** Record r of a block of plain records, as strings. */
+export function plainFields(records: PlainRecords, r: number): string[] {
+  const fields: string[] = [];
+  const first = r * (records.width + 1);
+  for (let f = 0; f < records.width; f++) {
+    fields.push(records.text.slice(records.bounds[first + f] ?? 0, (records.bounds[first + f + 1] ?? 0) - 1));
+  }
+  return fields;
 }
 
 /** Parses a whole text at once; returns the records with their lines. For tests and small inputs. */

@@ -164,23 +164,23 @@ function withInvalidLines(profile: ColumnProfile, lineOfRow: Uint32Array): Colum
 // ---------------------------------------------------------------------------------------------
 // Text columns: everything from the dictionary; cells are visited only to find invalid rows.
 
-interface DictionaryEntry extends LevelCount {
-  readonly code: number;
-}
-
 function profileTextColumn(column: TextColumn, index: number, options: ProfileOptions): ColumnProfile {
   const isMissing = missingTest(options.missingTokens);
-  const levels: DictionaryEntry[] = [];
-  const missingSpellings: DictionaryEntry[] = [];
-  column.values.forEach((value, code) => {
-    const count = column.counts[code] ?? 0;
-    if (count > 0) (isMissing(value) ? missingSpellings : levels).push({ value, count, code });
-  });
-  // Dictionary order is first-appearance order and sort is stable: ties stay first seen first.
-  sortByCountDescending(levels);
-  sortByCountDescending(missingSpellings);
+  const { values, counts } = column;
+  // Codes of the levels and of the missing spellings, in dictionary (first appearance) order.
+  const levelCodes = new Int32Array(values.length);
+  const missingCodes: number[] = [];
+  let levelCount = 0;
+  for (let code = 0; code < values.length; code++) {
+    if (!((counts[code] ?? 0) > 0)) continue;
+    if (isMissing(values[code] ?? '')) missingCodes.push(code);
+    else levelCodes[levelCount++] = code;
+  }
+  const byCount = sortCodesByCount(levelCodes.subarray(0, levelCount), counts);
+  const levels = levelCountsOf(byCount, values, counts);
+  const missingSpellings = levelCountsOf(sortCodesByCount(Int32Array.from(missingCodes), counts), values, counts);
   const nonMissing = sumCounts(levels);
-  const numeric = summarizeTextNumbers(column, levels, nonMissing, options.format);
+  const numeric = summarizeTextNumbers(column, byCount, levels, nonMissing, options.format);
   const text = textShape(levels, nonMissing);
   const distinct = levels.length;
   const freeText = looksLikeFreeText(nonMissing, distinct, numeric, text);
@@ -189,9 +189,9 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     index,
     count: column.length,
     missing: column.length - nonMissing,
-    missingSpellings: missingSpellings.map(plainLevel),
+    missingSpellings,
     distinct,
-    levels: levels.map(plainLevel),
+    levels,
     numeric,
     flags: {
       identifier: looksLikeIdentifier(nonMissing, distinct, numeric, freeText),
@@ -201,6 +201,28 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     },
     text,
   };
+}
+
+/**
+ * Most frequent first; ties in dictionary order, which is first-appearance order. Left as it is
+ * when already in order (an identifier column: every count 1).
+ */
+function sortCodesByCount(codes: Int32Array, counts: readonly number[]): Int32Array {
+  for (let i = 1; i < codes.length; i++) {
+    if ((counts[codes[i] ?? 0] ?? 0) > (counts[codes[i - 1] ?? 0] ?? 0)) {
+      return codes.sort((a, b) => (counts[b] ?? 0) - (counts[a] ?? 0) || a - b);
+    }
+  }
+  return codes;
+}
+
+function levelCountsOf(codes: Int32Array, values: readonly string[], counts: readonly number[]): LevelCount[] {
+  const levels: LevelCount[] = new Array<LevelCount>(codes.length);
+  for (let i = 0; i < codes.length; i++) {
+    const code = codes[i] ?? 0;
+    levels[i] = { value: values[code] ?? '', count: counts[code] ?? 0 };
+  }
+  return levels;
 }
 
 /** Stable sort, most frequent first; skipped when already in order (identifier columns: all 1). */
@@ -213,53 +235,64 @@ function sortByCountDescending<T extends LevelCount>(entries: T[]): void {
   }
 }
 
-function plainLevel(entry: LevelCount): LevelCount {
-  return { value: entry.value, count: entry.count };
-}
-
 function sumCounts(entries: readonly LevelCount[]): number {
   let total = 0;
   for (const e of entries) total += e.count;
   return total;
 }
 
+/**
+ * Every text a number format reads starts, once trimmed, with a sign, a digit or a decimal
+ * separator (numbers.ts); a text starting with any other printable ASCII character reads as no
+ * number in any format, and is set aside without running the readers (an identifier column holds
+ * a million such texts).
+ */
+function mayBeNumber(text: string): boolean {
+  const c = text.charCodeAt(0);
+  if (c <= 0x20 || c >= 0x7f) return true; // blanks (trimmed first by the readers) and non-ASCII: ask the reader
+  return (c >= 0x30 && c <= 0x39) || c === 0x2b || c === 0x2d || c === 0x2e || c === 0x2c;
+}
+
+/** `levels[i]` is the level of code `codes[i]`. */
 function summarizeTextNumbers(
   column: TextColumn,
-  levels: readonly DictionaryEntry[],
+  codes: Int32Array,
+  levels: readonly LevelCount[],
   nonMissing: number,
   fixedFormat: NumberFormat | undefined,
 ): NumericSummary | null {
-  const format = fixedFormat ?? detectNumberFormat(levels);
+  const format = fixedFormat ?? detectNumberFormat(levels.filter((level) => mayBeNumber(level.value)));
   const read = numberReader(format);
-  const numbers: { value: number; count: number }[] = [];
-  const invalidCodes = new Set<number>();
+  const numbers = new Float64Array(levels.length);
+  const weights = new Float64Array(levels.length);
+  const invalid = new Uint8Array(column.values.length);
+  let found = 0;
   let invalidCount = 0;
   let leadingZeros = 0;
-  for (const level of levels) {
-    const value = read(level.value);
+  for (let i = 0; i < levels.length; i++) {
+    const { value: text, count } = levels[i]!;
+    const value = mayBeNumber(text) ? read(text) : NaN;
     if (Number.isNaN(value)) {
-      invalidCodes.add(level.code);
-      invalidCount += level.count;
+      invalid[codes[i] ?? 0] = 1;
+      invalidCount += count;
     } else {
-      numbers.push({ value, count: level.count });
-      if (hasLeadingZero(level.value)) leadingZeros += level.count;
+      numbers[found] = value;
+      weights[found++] = count;
+      if (hasLeadingZero(text)) leadingZeros += count;
     }
   }
-  if (numbers.length === 0) return null;
-  const runs = runsFromPairs(numbers);
-  return summarize(runs, {
+  if (found === 0) return null;
+  return summarize(runsFromPairs(numbers.subarray(0, found), weights.subarray(0, found)), {
     format,
     nonMissing,
     invalidCount,
-    invalidExamples: invalidCount > 0 ? firstInvalidRows(column, invalidCodes) : [],
+    invalidExamples: invalidCount > 0 ? firstInvalidRows(column, invalid) : [],
     leadingZeros,
   });
 }
 
 /** The first invalid cells in row order: one scan over the codes, stopping at the cap. */
-function firstInvalidRows(column: TextColumn, invalidCodes: ReadonlySet<number>): { row: number; text: string }[] {
-  const isInvalid = new Uint8Array(column.values.length);
-  for (const code of invalidCodes) isInvalid[code] = 1;
+function firstInvalidRows(column: TextColumn, isInvalid: Uint8Array): { row: number; text: string }[] {
   const examples: { row: number; text: string }[] = [];
   for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
     const code = column.codes[row] ?? 0;
@@ -449,41 +482,33 @@ interface Runs {
 }
 
 /**
- * Runs from unsorted (number, count) pairs. Few pairs: sort the pairs. Many (a column of mostly
- * distinct numbers): lay the cells out in a Float64Array and use its native numeric sort, which
- * is far faster than sorting objects with a comparator.
+ * Runs from unsorted (number, count) pairs, one pair per distinct text: the pairs are put in
+ * numeric order (an index sort, -0 before 0 as a Float64Array sorts them), and equal numbers
+ * written differently ("1.5", "1.50") join one run. Work grows with the distinct texts, not cells.
  */
-function runsFromPairs(pairs: { value: number; count: number }[]): Runs {
-  if (pairs.length <= PAIR_SORT_LIMIT) {
-    pairs.sort((a, b) => a.value - b.value);
-    return runsFromSortedPairs(pairs);
-  }
-  let cells = 0;
-  for (const p of pairs) cells += p.count;
-  const all = new Float64Array(cells);
-  let at = 0;
-  for (const { value, count } of pairs) {
-    all.fill(value, at, at + count);
-    at += count;
-  }
-  return runsFromSorted(all.sort());
-}
-
-const PAIR_SORT_LIMIT = 1000;
-
-function runsFromSortedPairs(pairs: readonly { value: number; count: number }[]): Runs {
-  const values = new Float64Array(pairs.length);
-  const counts = new Float64Array(pairs.length);
+function runsFromPairs(numbers: Float64Array, weights: Float64Array): Runs {
+  const order = new Uint32Array(numbers.length);
+  for (let i = 0; i < order.length; i++) order[i] = i;
+  order.sort((a, b) => compareNumbers(numbers[a] ?? 0, numbers[b] ?? 0));
+  const values = new Float64Array(numbers.length);
+  const counts = new Float64Array(numbers.length);
   let n = 0;
-  for (const { value, count } of pairs) {
-    if (n > 0 && values[n - 1] === value) counts[n - 1] = (counts[n - 1] ?? 0) + count;
+  for (let k = 0; k < order.length; k++) {
+    const i = order[k] ?? 0;
+    const value = numbers[i] ?? 0;
+    if (n > 0 && values[n - 1] === value) counts[n - 1] = (counts[n - 1] ?? 0) + (weights[i] ?? 0);
     else {
       values[n] = value;
-      counts[n] = count;
+      counts[n] = weights[i] ?? 0;
       n++;
     }
   }
   return { values, counts, length: n };
+}
+
+function compareNumbers(a: number, b: number): number {
+  if (a !== b) return a < b ? -1 : 1;
+  return a === 0 ? (Object.is(a, -0) ? 0 : 1) - (Object.is(b, -0) ? 0 : 1) : 0;
 }
 
 function runsFromSorted(sorted: Float64Array): Runs {

@@ -12,7 +12,7 @@ import type { HeaderIssue, Table } from './columns.ts';
 import { TableBuilder } from './columns-builder.ts';
 import { ChunkDecoder, retryAsWindows1252, type EncodingName } from './decode.ts';
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
-import { RecordParser, uniqueColumnNames, type Delimiter, type RecordSink } from './parse.ts';
+import { plainFields, RecordParser, uniqueColumnNames, type Delimiter, type PlainRecords, type RecordSink } from './parse.ts';
 
 export type { Delimiter } from './parse.ts';
 export type { EncodingName } from './decode.ts';
@@ -172,9 +172,22 @@ class RowCollector implements RecordSink {
       this.startTable(fields);
       return;
     }
-    for (const blankLine of this.blankLines) this.addRow(EMPTY_CELL, blankLine, false);
-    this.blankLines = [];
+    if (this.blankLines.length > 0) this.addBlankLines();
     this.addRow(fields, line, unclosedQuote);
+  }
+
+  /** The fast path for records without quoted fields: blocks of cells as positions in the text. */
+  plainRecords(records: PlainRecords): void {
+    let r = 0;
+    if (this.builder === null) this.startTable(plainFields(records, r++));
+    while (r < records.count) {
+      if (this.blankLines.length > 0) this.addBlankLines();
+      const builder = this.builder!; // after the blank lines, which may have started a new batch
+      const to = Math.min(records.count, r + (this.batchRows - builder.rowCount));
+      builder.addPlainRecords(records, r, to);
+      r = to;
+      if (builder.rowCount >= this.batchRows) this.handOver();
+    }
   }
 
   emptyLine(line: number): void {
@@ -191,6 +204,13 @@ class RowCollector implements RecordSink {
     if (this.batchRows === Infinity) return this.builder.build();
     if (this.builder.rowCount > 0 || this.batchStart === 0) this.handOver();
     return new TableBuilder(this.names ?? [], { firstRowIndex: this.batchStart, headerIssues: this.headerIssues }).build();
+  }
+
+  /** Empty lines of a one-column table followed by a record: empty cells after all. */
+  private addBlankLines(): void {
+    const lines = this.blankLines;
+    this.blankLines = [];
+    for (const blankLine of lines) this.addRow(EMPTY_CELL, blankLine, false);
   }
 
   private addRow(fields: readonly string[], line: number, unclosedQuote: boolean): void {
@@ -215,10 +235,13 @@ class RowCollector implements RecordSink {
 
   /** Header issues go with the first table only. */
   private newBuilder(): TableBuilder {
+    const previous = this.builder;
     return new TableBuilder(this.names ?? [], {
       dictionaryCap: this.options.dictionaryCap,
       firstRowIndex: this.batchStart,
-      headerIssues: this.batchStart === 0 && this.builder === null ? this.headerIssues : [],
+      headerIssues: this.batchStart === 0 && previous === null ? this.headerIssues : [],
+      // A batch is sized like the one before it (its dictionaries, its rows).
+      ...(previous === null || this.batchRows === Infinity ? {} : { expected: { rows: this.batchRows, distinct: previous.distinct } }),
     });
   }
 }

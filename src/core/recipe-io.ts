@@ -48,11 +48,11 @@ export function recipeTooLargeMessage(bytes: number): string {
 
 /** What JSON.parse said, without its engine-specific position, and where the text stops being JSON. */
 function invalidJsonMessage(text: string, error: unknown): string {
-  if (text.trim() === '') return 'The recipe file is empty. Choose the .json file Levelwise saved, or make a new recipe in the workbench.';
+  if (text.trim() === '') return 'The recipe file is empty. Choose the .json file Levelwise saved, or make the recipe again.';
   const what = (error instanceof Error ? error.message : String(error)).replace(/,? (?:in JSON )?at position \d+.*$/s, '');
   const position = jsonErrorPosition(text);
   const where = position === null ? '' : ` at line ${position.line}, column ${position.column}`;
-  return `The recipe is not valid JSON${where}: ${what.replace(/\.$/, '')}. Open it in a text editor and fix it there, or make a new recipe in the workbench.`;
+  return `The recipe is not valid JSON${where}: ${what.replace(/\.$/, '')}. Open it in a text editor and fix it there, or make the recipe again.`;
 }
 
 /** Says early, in one line, when the document is not a recipe at all or is of another version. */

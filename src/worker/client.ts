@@ -2,11 +2,13 @@
  * The page's side of the worker protocol: each request becomes a `Job` — a promise of its result,
  * progress and chunk callbacks, and `cancel()`. Nothing here knows about React.
  */
+import { withPackedLevels, type PackedLevels } from './packed-levels.ts';
 import {
   Cancelled,
   WorkerProblem,
   type CallKind,
   type FromWorker,
+  type OpenedTable,
   type Phase,
   type RequestOf,
   type ResultOf,
@@ -31,6 +33,8 @@ export interface JobHandlers {
   onProgress?(progress: Progress): void;
   /** Export parts, in order. */
   onChunk?(bytes: Uint8Array): void;
+  /** Export parts as Blobs, in order, when the export asked for `parts: 'blobs'`. */
+  onBlob?(blob: Blob): void;
 }
 
 export interface Job<T> {
@@ -44,6 +48,8 @@ interface Pending {
   resolve(result: unknown): void;
   reject(error: unknown): void;
   handlers: JobHandlers;
+  /** Packed runs of profile levels that came ahead of an `open` answer, by column. */
+  levelRuns?: Map<number, PackedLevels[]>;
 }
 
 type Payload<K extends CallKind> = Omit<RequestOf<K>, 'type'>;
@@ -94,9 +100,19 @@ export class WorkbenchClient {
       case 'chunk':
         pending.handlers.onChunk?.(message.bytes);
         return;
+      case 'blob':
+        pending.handlers.onBlob?.(message.blob);
+        return;
+      case 'levels': {
+        pending.levelRuns ??= new Map();
+        const runs = pending.levelRuns.get(message.column) ?? [];
+        runs.push(message.levels);
+        pending.levelRuns.set(message.column, runs);
+        return;
+      }
       case 'done':
         this.pending.delete(message.id);
-        pending.resolve(message.result);
+        pending.resolve(pending.levelRuns ? withLevelRuns(message.result as OpenedTable, pending.levelRuns) : message.result);
         return;
       case 'failed':
         this.pending.delete(message.id);
@@ -115,6 +131,15 @@ export class WorkbenchClient {
       pending.reject(new WorkerProblem({ code: 'worker-stopped', message, hint: 'Reload the page and open the file again.' }));
     }
   }
+}
+
+/** An `open` answer with the level runs that came ahead of it given back to their profiles. */
+function withLevelRuns(table: OpenedTable, runs: ReadonlyMap<number, PackedLevels[]>): OpenedTable {
+  const profiles = table.profiles.map((profile, column) => {
+    const packed = runs.get(column);
+    return packed === undefined ? profile : withPackedLevels(profile, packed);
+  });
+  return { ...table, profiles };
 }
 
 /** A client over the real worker. */

@@ -15,6 +15,7 @@ import type { HeaderIssue, RowIssue } from '../core/columns.ts';
 import type { ColumnProfile } from '../core/profile.ts';
 import type { Recipe } from '../core/recipe.ts';
 import type { ApplyReport } from '../core/apply-report.ts';
+import type { PackedLevels } from './packed-levels.ts';
 
 /**
  * Two tables can be open at once: the one being decided about, and a second file a finished
@@ -91,6 +92,11 @@ export interface RecipeInUse {
   readonly outputs: readonly string[];
   readonly missingColumns: readonly string[];
   readonly extraColumns: readonly string[];
+  /**
+   * The rows the page last asked to see, already encoded with this recipe, so a decision reaches
+   * the preview in one round trip instead of two; absent before the page has asked for any.
+   */
+  readonly window?: PreviewWindow;
 }
 
 export interface WindowRequest {
@@ -125,6 +131,11 @@ export interface ExportRequest {
   readonly slot: Slot;
   readonly version: number;
   readonly recipe: Recipe;
+  /**
+   * How the parts travel: 'bytes' (the default) as transferred byte arrays; 'blobs' as Blobs made in
+   * the worker, so the page's main thread never copies or holds the file's bytes (the page's choice).
+   */
+  readonly parts?: 'bytes' | 'blobs';
 }
 
 export interface ExportSummary {
@@ -178,6 +189,14 @@ export type FromWorker =
     }
   /** A part of an export, in order; the page writes it out or keeps it for one Blob. */
   | { readonly type: 'chunk'; readonly id: number; readonly bytes: Uint8Array }
+  /** The same, as a Blob made in the worker, for an export that asked for `parts: 'blobs'`. */
+  | { readonly type: 'blob'; readonly id: number; readonly blob: Blob }
+  /**
+   * A packed run of one column's profile levels, sent ahead of an `open` answer's `done` when the
+   * column has very many (packed-levels.ts). That column's `levels` in `done` is empty; the client
+   * gives the profile its runs back, unpacked when first read.
+   */
+  | { readonly type: 'levels'; readonly id: number; readonly column: number; readonly levels: PackedLevels }
   | { readonly type: 'done'; readonly id: number; readonly result: ResultOf<CallKind> }
   | { readonly type: 'failed'; readonly id: number; readonly problem: Problem }
   | { readonly type: 'cancelled'; readonly id: number };

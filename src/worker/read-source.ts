@@ -60,12 +60,24 @@ function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptio
   return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null });
 }
 
+/**
+ * Longest stretch of reading, in ms, without a look at the worker's message queue. Reads of a
+ * File's stream often resolve as microtasks, so without a pause a `cancel` (or a preview request)
+ * would wait until the whole file was read.
+ */
+export const READ_PAUSE_EVERY_MS = 50;
+
 /** The file's bytes as they stream in; reports progress and stops when the request is cancelled. */
 async function* chunksOf(file: Blob, signal: AbortSignal, onProgress: ReadProgress): AsyncGenerator<Uint8Array> {
   const reader = file.stream().getReader();
   let done = 0;
+  let pausedAt = performance.now();
   try {
     for (;;) {
+      if (performance.now() - pausedAt >= READ_PAUSE_EVERY_MS) {
+        await new Promise<void>((resolve) => setTimeout(resolve, 0));
+        pausedAt = performance.now();
+      }
       if (signal.aborted) throw new Cancelled();
       const next = await reader.read();
       if (next.done) return;

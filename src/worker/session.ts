@@ -12,9 +12,10 @@ import { createCsvWriter } from '../core/csv-write.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { draftRecipe } from '../core/fit.ts';
 import { compilePlan, type Plan } from '../core/plan.ts';
-import { profileTable } from '../core/profile.ts';
+import { profileTable, type ColumnProfile } from '../core/profile.ts';
 import { DEFAULT_MISSING_TOKENS, type Recipe } from '../core/recipe.ts';
 import { fingerprintFile } from './fingerprint.ts';
+import { PACK_ABOVE_LEVELS, packLevels, type PackedLevels } from './packed-levels.ts';
 import {
   Cancelled,
   type CallKind,
@@ -31,6 +32,7 @@ import {
   type ToWorker,
 } from './protocol.ts';
 import { readSource } from './read-source.ts';
+import { windowTable } from './window-table.ts';
 
 /** Rows encoded between two looks at the message queue during exports and checks. */
 export const BATCH_ROWS = 16_384;
@@ -47,6 +49,8 @@ interface SlotState {
   readonly fileName: string;
   plan: Plan | null;
   revision: number;
+  /** Rows [start, end) of the last preview window asked for: encoded again with each new recipe. */
+  shownRows: { readonly start: number; readonly end: number } | null;
 }
 
 interface Context {
@@ -54,6 +58,8 @@ interface Context {
   readonly signal: AbortSignal;
   progress(phase: Phase, done: number, total: number | null): void;
   chunk(bytes: Uint8Array): void;
+  blob(part: Blob): void;
+  levels(column: number, levels: PackedLevels): void;
 }
 
 type Handler<K extends CallKind> = (request: RequestOf<K>, context: Context) => Promise<{ result: ResultOf<K>; transfer?: Transferable[] }>;
@@ -96,7 +102,7 @@ export function createSession(post: Post): Session {
         draft = draftRecipe(profiles, { file: read.fileName, rows: table.rowCount }, { missingTokens, delimiter: null });
       }
       if (context.signal.aborted) throw new Cancelled();
-      slots.set(request.slot, { version, table, fileName: read.fileName, plan: null, revision: -1 });
+      slots.set(request.slot, { version, table, fileName: read.fileName, plan: null, revision: -1, shownRows: null });
       const result: OpenedTable = {
         slot: request.slot,
         version,
@@ -112,7 +118,7 @@ export function createSession(post: Post): Session {
         rowIssues: table.rowIssues.slice(0, ROW_ISSUES_LISTED),
         rowIssueCount: table.rowIssues.length,
         headerIssues: table.headerIssues,
-        profiles,
+        profiles: sendLongLevelsAhead(profiles, context),
         draft,
       };
       return { result };
@@ -123,30 +129,34 @@ export function createSession(post: Post): Session {
       const plan = compilePlan(request.recipe, state.table.names);
       state.plan = plan;
       state.revision = request.revision;
+      const rows = state.shownRows;
+      const window = rows === null ? null : previewWindow(plan, state.table, rows.start, rows.end, request.version, request.revision);
       const result: RecipeInUse = {
         revision: request.revision,
         outputs: plan.outputs,
         missingColumns: plan.missingColumns,
         extraColumns: plan.extraColumns,
+        ...(window === null ? {} : { window }),
       };
-      return { result };
+      return { result, ...(window === null ? {} : { transfer: windowBuffers(window) }) };
     },
 
     async window(request) {
       const state = slotFor(request.slot, request.version);
+      state.shownRows = { start: request.start, end: request.end };
       if (state.plan === null || state.revision !== request.revision) throw new Cancelled(); // a newer recipe is on its way
       const result = previewWindow(state.plan, state.table, request.start, request.end, request.version, request.revision);
-      return { result, transfer: [result.values.buffer, result.lines.buffer, result.rejected.buffer] };
+      return { result, transfer: windowBuffers(result) };
     },
 
     async export(request, context) {
       const state = slotFor(request.slot, request.version);
       const plan = compilePlan(request.recipe, state.table.names);
-      const writer = createCsvWriter(plan, (part) => {
-        // The writer reuses its buffer: the copy is what travels (and is transferred, not cloned).
-        const copy = part.slice();
-        context.chunk(copy);
-      });
+      // The writer reuses its buffer: a copy is what travels — a byte array (transferred, not
+      // cloned), or a Blob, whose bytes go to the browser's blob store and never reach the page.
+      const writer = createCsvWriter(plan, (part) =>
+        request.parts === 'blobs' ? context.blob(new Blob([part as Uint8Array<ArrayBuffer>])) : context.chunk(part.slice()),
+      );
       writer.writeHeader();
       const report = await encodeAll(plan, state.table, context, 'writing', (batch) => writer.writeBatch(batch));
       writer.finish();
@@ -175,6 +185,8 @@ export function createSession(post: Post): Session {
       signal: controller.signal,
       progress: throttledProgress((phase, done, total) => post({ type: 'progress', id: message.id, phase, done, total })),
       chunk: (bytes) => post({ type: 'chunk', id: message.id, bytes }, [bytes.buffer]),
+      blob: (blob) => post({ type: 'blob', id: message.id, blob }),
+      levels: (column, levels) => post({ type: 'levels', id: message.id, column, levels }, [levels.lengths.buffer, levels.counts.buffer]),
     };
     try {
       // The handler table is keyed by message type; TypeScript cannot narrow the pair, hence the cast.
@@ -201,11 +213,28 @@ export function createSession(post: Post): Session {
   };
 }
 
+/**
+ * Posts each level list longer than PACK_ABOVE_LEVELS ahead, packed (the `levels` message), and
+ * returns the profiles with those lists left empty for the `done` answer.
+ */
+function sendLongLevelsAhead(profiles: readonly ColumnProfile[], context: Context): ColumnProfile[] {
+  return profiles.map((profile, column) => {
+    const { levels } = profile;
+    if (levels === null || levels.length <= PACK_ABOVE_LEVELS) return profile;
+    for (const run of packLevels(levels)) context.levels(column, run);
+    return { ...profile, levels: [] };
+  });
+}
+
+function windowBuffers(window: PreviewWindow): Transferable[] {
+  return [window.values.buffer, window.lines.buffer, window.rejected.buffer];
+}
+
 /** Rows [start, end) encoded for the preview, with their lines, rejections and original texts. */
 export function previewWindow(plan: Plan, table: Table, start: number, end: number, version: number, revision: number): PreviewWindow {
   const from = Math.max(0, Math.min(start, table.rowCount));
   const to = Math.max(from, Math.min(end, table.rowCount, from + MAX_WINDOW_ROWS));
-  const { values, batch } = encodeWindow(plan, table, from, to);
+  const { values, batch } = encodeWindow(plan, windowTable(table, from, to), 0, to - from);
   const cells: string[] = [];
   for (let row = from; row < to; row++) for (const column of table.columns) cells.push(cellText(column, row));
   return {

@@ -11,7 +11,7 @@
 import fc from 'fast-check';
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { fieldHash, parseRecords, RecordParser, type Delimiter, type RecordParserOptions, type RecordSink } from '../../src/core/parse.ts';
+import { parseRecords, RecordParser, type Delimiter, type RecordParserOptions, type RecordSink } from '../../src/core/parse.ts';
 import { PapaparseRecordParser } from './helpers/papaparse-record-parser.ts';
 
 interface Parsed {
@@ -22,7 +22,7 @@ interface Parsed {
   delimiter: Delimiter | null;
 }
 
-/** Collects records; with `plain`, takes quote-free records through the fast path and checks their hashes. */
+/** Collects records; with `plain`, takes quote-free records through the fast path. */
 function collector(plain: boolean): { sink: RecordSink; parsed: Parsed } {
   const parsed: Parsed = { records: [], lines: [], unclosed: [], empty: [], delimiter: null };
   const sink: RecordSink = {
@@ -34,16 +34,13 @@ function collector(plain: boolean): { sink: RecordSink; parsed: Parsed } {
     emptyLine: (line) => parsed.empty.push(line),
   };
   if (plain) {
-    sink.plainRecord = (text, bounds, hashes, count, line) => {
-      const fields: string[] = [];
-      for (let k = 0; k < count; k++) {
-        const start = bounds[k]!;
-        const end = bounds[k + 1]! - 1;
-        expect(hashes[k]).toBe(fieldHash(text, start, end));
-        fields.push(text.slice(start, end));
+    sink.plainRecords = ({ text, count, width, bounds, lines }) => {
+      for (let r = 0; r < count; r++) {
+        const fields: string[] = [];
+        for (let f = 0; f < width; f++) fields.push(text.slice(bounds[r * (width + 1) + f]!, bounds[r * (width + 1) + f + 1]! - 1));
+        parsed.records.push(fields);
+        parsed.lines.push(lines[r]!);
       }
-      parsed.records.push(fields);
-      parsed.lines.push(line);
     };
   }
   return { sink, parsed };
@@ -146,25 +143,25 @@ describe('any text: the same as the papaparse-based reader', () => {
 
   it('with a chunk boundary anywhere in the text after the first 64K characters', () => {
     // Plain records fill the text up to the point where both readers parse their first chunk, so
-    // the random text is cut at a random place by a real parse.
-    const filler = (lineBreak: string, length: number) => `h1,h2${lineBreak}${`x,y${lineBreak}`.repeat(Math.ceil(length / 4))}`.slice(0, length);
+    // the random text is cut at a random place by a real parse. (The line break is chosen from
+    // that first chunk, so the whole text is not read in one piece here: its LFs could change it.)
+    const record = (lineBreak: string) => `${'x'.repeat(500)},y${lineBreak}`;
+    const filler = (lineBreak: string, length: number) => `h1,h2${lineBreak}${record(lineBreak).repeat(Math.ceil(length / 500))}`.slice(0, length);
     fc.assert(
       fc.property(
         messy,
         fc.constantFrom('\n', '\r\n', '\r'),
-        fc.integer({ min: 0, max: 90 }),
-        fc.integer({ min: 0, max: 80 }),
-        (text, lineBreak, short, cut) => {
-          const head = filler(lineBreak, 64 * 1024 - short);
-          const at = Math.min(cut, text.length);
+        fc.nat(),
+        (text, lineBreak, cut) => {
+          const head = filler(lineBreak, 64 * 1024);
+          const at = cut % (text.length + 1);
           const chunks = [head + text.slice(0, at), text.slice(at)];
           const reference = readPieces(PapaparseRecordParser, chunks, { delimiter: ',' });
           expect(readPieces(RecordParser, chunks, { delimiter: ',' })).toEqual(reference);
           expect(readPieces(RecordParser, chunks, { delimiter: ',' }, true)).toEqual(reference);
-          expect(readPieces(RecordParser, [head + text], { delimiter: ',' }, true)).toEqual(reference);
         },
       ),
-      { numRuns: 400 },
+      { numRuns: 500 },
     );
   });
 });

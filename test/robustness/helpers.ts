@@ -9,10 +9,10 @@ import { readTable, type ReadResult } from '../../src/core/read-table.ts';
 import { DEFAULT_MISSING_TOKENS, type Recipe } from '../../src/core/recipe.ts';
 import type { ApplyReport } from '../../src/core/apply-report.ts';
 
-export const utf8 = (text: string): Uint8Array => new TextEncoder().encode(text);
+export const utf8 = (text: string): Uint8Array<ArrayBuffer> => new TextEncoder().encode(text);
 
 /** UTF-16 little endian, with its byte order mark FF FE unless `mark` is false (Unicode §23.8). */
-export function utf16le(text: string, mark = true): Uint8Array {
+export function utf16le(text: string, mark = true): Uint8Array<ArrayBuffer> {
   const body = new Uint8Array(text.length * 2);
   for (let i = 0; i < text.length; i++) {
     body[2 * i] = text.charCodeAt(i) & 0xff;
@@ -22,7 +22,7 @@ export function utf16le(text: string, mark = true): Uint8Array {
 }
 
 /** UTF-16 big endian with its byte order mark FE FF. */
-export function utf16be(text: string): Uint8Array {
+export function utf16be(text: string): Uint8Array<ArrayBuffer> {
   const body = new Uint8Array(text.length * 2);
   for (let i = 0; i < text.length; i++) {
     body[2 * i] = text.charCodeAt(i) >> 8;
@@ -35,7 +35,7 @@ export function utf16be(text: string): Uint8Array {
  * Windows-1252 bytes of text written in Latin-1 letters plus the few 0x80–0x9F characters used
  * here (WHATWG Encoding Standard, index-windows-1252: 0x80 €, 0x96 –, 0x92 ’).
  */
-export function windows1252(text: string): Uint8Array {
+export function windows1252(text: string): Uint8Array<ArrayBuffer> {
   const special: Record<string, number> = { '€': 0x80, '–': 0x96, '’': 0x92 };
   return Uint8Array.from(text, (ch) => {
     const byte = special[ch] ?? ch.charCodeAt(0);
@@ -44,7 +44,7 @@ export function windows1252(text: string): Uint8Array {
   });
 }
 
-export function concat(...parts: Uint8Array[]): Uint8Array {
+export function concat(...parts: Uint8Array[]): Uint8Array<ArrayBuffer> {
   const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
   let at = 0;
   for (const part of parts) {

@@ -43,11 +43,11 @@ describe('text that is not JSON', () => {
     { label: 'single quotes', text: "{'kind': 1}", line: 1, column: 2 },
   ])('$label: says it is not JSON, and where (line $line, column $column)', ({ text, line, column }) => {
     const [message] = errorsOf(text);
-    expect(message).toMatch(new RegExp(`^The recipe is not valid JSON at line ${line}, column ${column}: .+\\. Open it in a text editor and fix it there, or make a new recipe in the workbench\\.$`));
+    expect(message).toMatch(new RegExp(`^The recipe is not valid JSON at line ${line}, column ${column}: .+\\. Open it in a text editor and fix it there, or make the recipe again\\.$`));
   });
 
   it('an empty file says it is empty', () => {
-    expect(errorsOf('')).toEqual(['The recipe file is empty. Choose the .json file Levelwise saved, or make a new recipe in the workbench.']);
+    expect(errorsOf('')).toEqual(['The recipe file is empty. Choose the .json file Levelwise saved, or make the recipe again.']);
   });
 
   it('a byte order mark before the JSON (as some editors save it) is no obstacle', () => {

@@ -4,7 +4,8 @@
  *
  * Profiles FILE, proposes a recipe (core's draftRecipe) and applies the person's choices as core
  * decisions (decide), the same decisions the page makes. The options are applied in a fixed order:
- * --set, --keep-top, --order, --reference, --positive, --naming.
+ * --set, --keep-top, --order, --reference, --positive, --naming. A file with a header but no data
+ * rows is refused: there is nothing to learn from.
  */
 import type { Decision } from '../../core/decisions.ts';
 import { decide } from '../../core/decisions.ts';
@@ -15,11 +16,14 @@ import { stringifyRecipe } from '../../core/recipe-io.ts';
 import { DEFAULT_MISSING_TOKENS, LEVELS, type ColumnRecipe, type MeasurementLevel, type Recipe } from '../../core/recipe.ts';
 import { optionValue, parseArgs, positionals, type ParsedArgs } from '../args.ts';
 import { note, OUTPUT_OPTION, plural, READ_OPTIONS, readSettings } from '../common.ts';
-import { EXIT, usageFailure, type ExitCode } from '../failure.ts';
+import { CliFailure, EXIT, usageFailure, type ExitCode } from '../failure.ts';
 import { inputSource, readWholeTable } from '../input.ts';
 import { openOutput } from '../output.ts';
+import { findingsLines } from '../reading-findings.ts';
 
 const VERB = 'draft';
+/** Rows with the wrong number of fields shown on standard error. */
+const SHOWN_ROWS = 5;
 
 /** The codings --set accepts after the level, per level (continuous: its scaling). */
 export const CODINGS: Partial<Record<MeasurementLevel, readonly string[]>> = {
@@ -42,7 +46,14 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
   const [filePath = ''] = positionals(VERB, args, ['FILE']);
   const source = await inputSource(filePath);
   const settings = readSettings(args);
-  const { table } = await readWholeTable(source, settings);
+  const { table, summary } = await readWholeTable(source, settings);
+  if (summary.rows === 0) {
+    throw new CliFailure(
+      `cannot draft a recipe from "${source.label}": it has a header but no data rows, so there is nothing to learn levels or numbers from. Nothing was written.`,
+      'Check that the export included the rows, or choose a file with data rows.',
+    );
+  }
+  for (const line of findingsLines(source.label, summary.names, summary.findings, VERB, SHOWN_ROWS)) note(VERB, line);
   const profiles = profileTable(table, { missingTokens: DEFAULT_MISSING_TOKENS });
   const drafted = draftRecipe(profiles, { file: source.fileName, rows: table.rowCount }, { delimiter: settings.delimiter });
   const recipe = applyChoices(drafted, args, profiles);
@@ -50,6 +61,13 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
   for (const column of recipe.columns) {
     const caution = column.level === 'excluded' ? null : sensitiveAttributeCaution(column.name);
     if (caution !== null) note(VERB, `caution: ${caution}.`);
+  }
+  if (recipe.columns.every((c) => c.outputs.length === 0)) {
+    note(
+      VERB,
+      'the recipe makes no output columns: every column is excluded ("levelwise profile" says why, column by column). ' +
+        '"levelwise apply" refuses such a recipe; give columns a level with --set COLUMN=LEVEL.',
+    );
   }
   const output = openOutput(optionValue(args, 'output'));
   output.write(stringifyRecipe(recipe));

@@ -3,7 +3,8 @@
  * many output columns it makes and a small chart. A single-select listbox: Tab reaches it once,
  * the arrow keys, Home and End move through the columns and selection follows focus.
  */
-import { useId, useRef, type KeyboardEvent } from 'react';
+import { useVirtualizer } from '@tanstack/react-virtual';
+import { useEffect, useId, useRef, type KeyboardEvent } from 'react';
 import type { ColumnProfile } from '../../core/profile.ts';
 import type { ColumnRecipe, Recipe } from '../../core/recipe.ts';
 import { chartFor } from './chart-data.ts';
@@ -21,17 +22,55 @@ export interface ColumnListProps {
   label?: string;
 }
 
+/**
+ * Above this many columns the list draws only the rows in view (and a few around them): a file of
+ * thousands of columns would otherwise put hundreds of thousands of elements in the page and make
+ * every click wait seconds for layout. Shorter lists are drawn whole.
+ */
+export const WINDOWED_ABOVE = 200;
+/** A row's height before it is measured; rows grow with their reason's length. */
+const ESTIMATED_ROW_HEIGHT = 112;
+const ROW_GAP = 4;
+
 export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Columns' }: ColumnListProps) {
   const baseId = useId();
+  const listRef = useRef<HTMLUListElement>(null);
   const optionRefs = useRef(new Map<string, HTMLLIElement>());
+  /** A column to focus once its row is drawn (keyboard moves into rows scrolled out of view). */
+  const pendingFocus = useRef<string | null>(null);
   const byName = new Map(recipe.columns.map((c) => [c.name, c]));
   const selectedIndex = profiles.findIndex((p) => p.name === selected);
   const tabbableIndex = selectedIndex >= 0 ? selectedIndex : 0;
+  const windowed = profiles.length > WINDOWED_ABOVE;
+  const virtualizer = useVirtualizer({
+    count: windowed ? profiles.length : 0,
+    // The list scrolls inside the pane around it.
+    getScrollElement: () => listRef.current?.parentElement ?? null,
+    estimateSize: () => ESTIMATED_ROW_HEIGHT,
+    gap: ROW_GAP,
+    paddingStart: ROW_GAP,
+    paddingEnd: ROW_GAP,
+    overscan: 6,
+  });
+
+  useEffect(() => {
+    const name = pendingFocus.current;
+    const node = name === null ? undefined : optionRefs.current.get(name);
+    if (node === undefined) return;
+    node.focus();
+    pendingFocus.current = null;
+  });
 
   const moveTo = (index: number) => {
-    const target = profiles[Math.max(0, Math.min(profiles.length - 1, index))];
+    const at = Math.max(0, Math.min(profiles.length - 1, index));
+    const target = profiles[at];
     if (!target) return;
-    optionRefs.current.get(target.name)?.focus();
+    const node = optionRefs.current.get(target.name);
+    if (node) node.focus();
+    else {
+      pendingFocus.current = target.name;
+      virtualizer.scrollToIndex(at, { align: 'auto' });
+    }
     if (target.name !== selected) onSelect(target.name);
   };
 
@@ -47,29 +86,57 @@ export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Colu
     event.preventDefault();
   };
 
+  const row = (index: number, placed?: { readonly start: number }) => {
+    const profile = profiles[index];
+    if (profile === undefined) return null;
+    return (
+      <ColumnRow
+        key={profile.name}
+        id={`${baseId}-${index}`}
+        profile={profile}
+        column={byName.get(profile.name) ?? null}
+        selected={profile.name === selected}
+        // In a windowed list the row drawn first holds the tab stop when the selected one is not drawn.
+        tabbable={index === tabbableIndex}
+        onSelect={onSelect}
+        {...(placed === undefined ? {} : { index, setSize: profiles.length, top: placed.start })}
+        register={(node) => {
+          if (node) {
+            optionRefs.current.set(profile.name, node);
+            if (placed !== undefined) virtualizer.measureElement(node);
+          } else optionRefs.current.delete(profile.name);
+        }}
+      />
+    );
+  };
+
+  if (!windowed) {
+    return (
+      <ul ref={listRef} className="lw-collist" role="listbox" aria-label={label} onKeyDown={onKeyDown}>
+        {profiles.map((_, index) => row(index))}
+      </ul>
+    );
+  }
   return (
-    <ul className="lw-collist" role="listbox" aria-label={label} onKeyDown={onKeyDown}>
-      {profiles.map((profile, index) => (
-        <ColumnRow
-          key={profile.name}
-          id={`${baseId}-${index}`}
-          profile={profile}
-          column={byName.get(profile.name) ?? null}
-          selected={profile.name === selected}
-          tabbable={index === tabbableIndex}
-          onSelect={onSelect}
-          register={(node) => {
-            if (node) optionRefs.current.set(profile.name, node);
-            else optionRefs.current.delete(profile.name);
-          }}
-        />
-      ))}
+    <ul
+      ref={listRef}
+      className="lw-collist lw-collist--windowed"
+      role="listbox"
+      aria-label={label}
+      onKeyDown={onKeyDown}
+      style={{ height: virtualizer.getTotalSize() }}
+    >
+      {virtualizer.getVirtualItems().map((item) => row(item.index, item))}
     </ul>
   );
 }
 
 interface ColumnRowProps {
   readonly id: string;
+  /** In a windowed list: the row's place, the list's length, and where the row is drawn. */
+  readonly index?: number;
+  readonly setSize?: number;
+  readonly top?: number;
   readonly profile: ColumnProfile;
   readonly column: ColumnRecipe | null;
   readonly selected: boolean;
@@ -78,7 +145,7 @@ interface ColumnRowProps {
   readonly register: (node: HTMLLIElement | null) => void;
 }
 
-function ColumnRow({ id, profile, column, selected, tabbable, onSelect, register }: ColumnRowProps) {
+function ColumnRow({ id, profile, column, selected, tabbable, onSelect, register, index, setSize, top }: ColumnRowProps) {
   const chart = column ? chartFor(profile, column) : null;
   const outputs = column?.outputs.length ?? 0;
   return (
@@ -92,6 +159,9 @@ function ColumnRow({ id, profile, column, selected, tabbable, onSelect, register
       tabIndex={tabbable ? 0 : -1}
       className="lw-collist__row"
       data-column={profile.name}
+      {...(index === undefined
+        ? {}
+        : { 'data-index': index, 'aria-posinset': index + 1, 'aria-setsize': setSize, style: { transform: `translateY(${top ?? 0}px)` } })}
       onClick={() => onSelect(profile.name)}
     >
       <div className="lw-collist__top">

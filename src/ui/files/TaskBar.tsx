@@ -1,11 +1,14 @@
 /** The long job running: what it is, how far it got, and a way to stop it. */
-import type { TaskView } from '../state/useTask.ts';
+import { useTaskProgress, type TaskView } from '../state/useTask.ts';
 
 const PHASE_WORDS = { reading: 'reading', profiling: 'looking at the columns', encoding: 'encoding', writing: 'writing', checking: 'checking' } as const;
 
 export function TaskBar({ task }: { readonly task: TaskView | null }) {
-  if (task === null) return null;
-  const { progress } = task;
+  return task === null ? null : <RunningTask task={task} />;
+}
+
+function RunningTask({ task }: { readonly task: TaskView }) {
+  const progress = useTaskProgress(task);
   const fraction = progress && progress.total ? Math.min(1, progress.done / progress.total) : null;
   const percent = fraction === null ? null : Math.round(fraction * 100);
   return (

@@ -33,8 +33,10 @@ export function readingNotices(facts: ReadingFacts): ReadingNotice[] {
   if (facts.headerIssues.length > 0) notices.push(renamedColumns(facts.headerIssues));
   const unclosed = facts.rowIssues.find((issue) => issue.kind === 'unclosed-quote');
   if (unclosed !== undefined) notices.push(unclosedQuote(unclosed, facts.names));
-  const shapeIssues = facts.rowIssues.filter((issue) => issue.kind !== 'unclosed-quote');
-  const shapeCount = facts.rowIssueCount - (unclosed === undefined ? 0 : 1);
+  // The row a quote never closed also comes up short of fields: its own notice says why, once.
+  const ownRow = (issue: RowIssue) => unclosed !== undefined && issue.row === unclosed.row;
+  const shapeIssues = facts.rowIssues.filter((issue) => issue.kind !== 'unclosed-quote' && !ownRow(issue));
+  const shapeCount = facts.rowIssueCount - facts.rowIssues.filter((issue) => issue.kind === 'unclosed-quote' || ownRow(issue)).length;
   if (shapeCount > 0) notices.push(wrongFieldCounts(shapeIssues, shapeCount, facts.names));
   return notices;
 }

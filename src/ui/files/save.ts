@@ -29,7 +29,7 @@ export function saveText(text: string, fileName: string, type: string): void {
 export interface PartSink {
   /** 'disk' when streaming to a picked file, 'download' when collecting for a Blob. */
   readonly kind: 'disk' | 'download';
-  write(bytes: Uint8Array): void;
+  write(part: Uint8Array | Blob): void;
   finish(): Promise<void>;
   abort(): Promise<void>;
 }
@@ -39,7 +39,7 @@ interface SavePickerWindow {
   showSaveFilePicker?(options: {
     suggestedName: string;
     types: { description: string; accept: Record<string, string[]> }[];
-  }): Promise<{ createWritable(): Promise<{ write(data: Uint8Array): Promise<void>; close(): Promise<void>; abort(): Promise<void> }> }>;
+  }): Promise<{ createWritable(): Promise<{ write(data: Uint8Array | Blob): Promise<void>; close(): Promise<void>; abort(): Promise<void> }> }>;
 }
 
 /**
@@ -55,8 +55,8 @@ export async function openPartSink(fileName: string, type: string, estimatedByte
       let pending = Promise.resolve();
       return {
         kind: 'disk',
-        write: (bytes) => {
-          pending = pending.then(() => writable.write(bytes));
+        write: (part) => {
+          pending = pending.then(() => writable.write(part));
         },
         finish: async () => {
           await pending;
@@ -72,10 +72,13 @@ export async function openPartSink(fileName: string, type: string, estimatedByte
       // Picker refused (e.g. not allowed here): fall back to a download.
     }
   }
-  const parts: Uint8Array<ArrayBuffer>[] = [];
+  // Parts are kept as Blobs (byte parts become one as they arrive): the bytes sit in the browser's
+  // blob store, not in the page's heap, and the final Blob only joins parts (one Blob made from the
+  // whole file's bytes at the end would copy them all in one long task).
+  const parts: Blob[] = [];
   return {
     kind: 'download',
-    write: (bytes) => parts.push(bytes as Uint8Array<ArrayBuffer>),
+    write: (part) => parts.push(part instanceof Blob ? part : new Blob([part as Uint8Array<ArrayBuffer>])),
     finish: async () => saveBlob(new Blob(parts, { type }), fileName),
     abort: async () => {
       parts.length = 0;

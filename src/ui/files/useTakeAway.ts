@@ -47,7 +47,12 @@ export function useTakeAway({ client, run, notify, showReport }: Deps) {
       if (sink === null) return;
       try {
         const summary = await run('Writing the encoded CSV', (onProgress) =>
-          client.start('export', { slot: target.slot, version: target.version, recipe: target.recipe }, { onProgress, onChunk: (bytes) => sink.write(bytes) }),
+          client.start(
+            'export',
+            // Blob parts: the file's bytes go from the worker to the browser's blob store (or the disk), never through this thread.
+            { slot: target.slot, version: target.version, recipe: target.recipe, parts: 'blobs' },
+            { onProgress, onBlob: (part) => sink.write(part) },
+          ),
         );
         await sink.finish();
         const { report } = summary;

@@ -17,6 +17,7 @@ import {
 import { useVirtualizer } from '@tanstack/react-virtual';
 import type { PreviewWindow } from '../../worker/protocol.ts';
 import { cellDisplay, leafWidth, type PreviewGroup, type PreviewLeaf } from './preview-model.ts';
+import { useFixedRows } from './useFixedRows.ts';
 
 interface RowRef {
   /** 0-based row of the table. */
@@ -84,15 +85,14 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
   const table = useTable({ features, columns, data });
 
   const leafHeaders = table.getLeafHeaders().filter((h) => h.column.columnDef.meta?.leaf);
-  const groupHeaders = (table.getHeaderGroups()[0]?.headers ?? []).filter((h) => h.column.columnDef.meta?.group);
+  const topHeaders = table.getHeaderGroups()[0]?.headers ?? [];
+  computeStartsInOrder(topHeaders);
+  const groupHeaders = topHeaders.filter((h) => h.column.columnDef.meta?.group);
   const rows = table.getRowModel().rows;
 
-  const rowVirtualizer = useVirtualizer({
-    count: rowCount,
-    getScrollElement: () => scrollRef.current,
-    estimateSize: () => ROW_HEIGHT,
-    overscan: 8,
-  });
+  // Rows have one height, so the rows on screen are found by arithmetic (useFixedRows), at a cost
+  // that does not grow with the file; columns vary in width and keep the general virtualiser.
+  const { rows: virtualRows, totalSize: rowsHeight } = useFixedRows(scrollRef, rowCount, ROW_HEIGHT, 8);
   const columnVirtualizer = useVirtualizer({
     horizontal: true,
     count: leafHeaders.length,
@@ -103,7 +103,6 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
   // Sizes change when the recipe adds or removes outputs; the column virtualiser must forget old ones.
   useEffect(() => columnVirtualizer.measure(), [columns, columnVirtualizer]);
 
-  const virtualRows = rowVirtualizer.getVirtualItems();
   const virtualColumns = columnVirtualizer.getVirtualItems();
   const firstRow = virtualRows[0]?.index ?? 0;
   const lastRow = virtualRows.at(-1)?.index ?? 0;
@@ -128,7 +127,7 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
       aria-rowcount={rowCount + 2}
       aria-colcount={leafHeaders.length + 1}
     >
-      <div className="grid-canvas" style={{ width: totalWidth, height: headerHeight + rowVirtualizer.getTotalSize() }}>
+      <div className="grid-canvas" style={{ width: totalWidth, height: headerHeight + rowsHeight }}>
         <div className="grid-head" style={{ height: headerHeight, width: totalWidth }} role="rowgroup">
           <div role="row" aria-rowindex={1} className="grid-head-row" style={{ height: HEADER_ROW_HEIGHT }}>
             <div className="grid-corner" role="columnheader" aria-colindex={1} style={{ width: GUTTER_WIDTH, height: HEADER_ROW_HEIGHT }}>
@@ -185,7 +184,7 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
             const line = inWindow ? window.lines[vr.index - window.start] : undefined;
             return (
               <div
-                key={vr.key}
+                key={vr.index}
                 role="row"
                 aria-rowindex={vr.index + 3}
                 className={`grid-row${vr.index % 2 === 1 ? ' is-odd' : ''}${rejected ? ' is-rejected' : ''}`}
@@ -222,6 +221,15 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
 }
 
 type AnyHeader = Header<Features, RowRef, unknown>;
+
+/**
+ * A header's getStart() adds up the headers before it, recursively, remembering each answer. Asked
+ * first about a header thousands of places in (a file of 10,000 columns), it overflows the call
+ * stack; asked in order, every call finds its neighbour's answer remembered and stays one deep.
+ */
+function computeStartsInOrder(headers: readonly AnyHeader[]): void {
+  for (const header of headers) header.getStart();
+}
 
 function overlaps(group: AnyHeader, leafIndex: ReadonlyMap<string, number>, first: number, last: number): boolean {
   const leaves = group.column.getLeafColumns();

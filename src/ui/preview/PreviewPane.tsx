@@ -22,7 +22,7 @@ export function PreviewPane({ workbench, actions }: PreviewPaneProps) {
     () => (table && shown ? { slot: 'work', version: table.version, revision: shown.revision, rowCount: table.rowCount } : null),
     [table, shown],
   );
-  const { window, problem, onVisibleRows } = useWindow(client, target);
+  const { window, problem, onVisibleRows } = useWindow(client, target, shown?.window ?? null);
   const groups = useMemo(() => (shown && table ? previewGroups(shown.recipe, table.names, showOriginals) : []), [shown, table, showOriginals]);
 
   return (

@@ -3,7 +3,7 @@
  * only the rows asked for (a screenful plus a screenful either side); a newer need cancels an older
  * request, and an answer for another data version or recipe revision is never shown.
  */
-import { useCallback, useEffect, useRef, useState } from 'react';
+import { useCallback, useEffect, useLayoutEffect, useRef, useState } from 'react';
 import type { Job, WorkbenchClient } from '../../worker/client.ts';
 import { Cancelled, type PreviewWindow, type Slot } from '../../worker/protocol.ts';
 
@@ -32,13 +32,21 @@ export function windowToFetch(visible: VisibleRows, rowCount: number): { start: 
   return { start: Math.max(0, visible.first - span), end: Math.min(rowCount, visible.last + 1 + span) };
 }
 
-export function useWindow(client: WorkbenchClient | null, target: WindowTarget | null) {
+/**
+ * `seed` is the window that came with the recipe now in use (RecipeInUse.window): when it covers
+ * the rows on screen, a decision needs no request of its own.
+ */
+export function useWindow(client: WorkbenchClient | null, target: WindowTarget | null, seed: PreviewWindow | null = null) {
   const [window, setWindow] = useState<PreviewWindow | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
   const visibleRef = useRef<VisibleRows>({ first: 0, last: 40 });
   const inFlight = useRef<{ job: Job<PreviewWindow>; key: string } | null>(null);
+  // Numbers from another revision would sit under the wrong headers (outputs move), so they are not
+  // shown. A window fetched for this revision is newer than the seed, so it wins.
+  const fits = (w: PreviewWindow | null): w is PreviewWindow => w !== null && target !== null && w.version === target.version && w.revision === target.revision;
+  const current = fits(window) ? window : fits(seed) ? seed : null;
   const windowRef = useRef<PreviewWindow | null>(null);
-  windowRef.current = window;
+  windowRef.current = current;
 
   const fetchIfNeeded = useCallback(() => {
     if (client === null || target === null || target.rowCount === 0) return;
@@ -63,8 +71,9 @@ export function useWindow(client: WorkbenchClient | null, target: WindowTarget |
     );
   }, [client, target]);
 
-  // A new version or revision: fetch the rows on screen again at once.
-  useEffect(() => {
+  // A new version or revision: fetch the rows on screen again at once — before the browser paints,
+  // so the worker encodes while the page draws (an effect would wait for the paint first).
+  useLayoutEffect(() => {
     fetchIfNeeded();
   }, [fetchIfNeeded]);
 
@@ -78,7 +87,5 @@ export function useWindow(client: WorkbenchClient | null, target: WindowTarget |
     [fetchIfNeeded],
   );
 
-  // Numbers from another revision would sit under the wrong headers (outputs move), so they are not shown.
-  const current = window !== null && target !== null && window.version === target.version && window.revision === target.revision ? window : null;
   return { window: current, problem, onVisibleRows };
 }

@@ -18,10 +18,21 @@ export interface WidthMeterProps {
   keepTop?: number;
 }
 
+/**
+ * Rows of the table, and wide-column warnings, drawn at most. A file of thousands of columns would
+ * otherwise fill the page with rows nobody reads and make it slow; past this the widest columns are
+ * shown and the rest are counted, so every output column is still accounted for.
+ */
+export const ROWS_LISTED = 200;
+export const WARNINGS_LISTED = 50;
+
 export function WidthMeter({ forecast, threshold = 30, onDecide, keepTop = 20 }: WidthMeterProps) {
   const headingId = useId();
   const wide = forecast.perColumn.filter((c) => c.after > threshold);
-  const widest = Math.max(threshold, ...forecast.perColumn.map((c) => c.after));
+  const widest = forecast.perColumn.reduce((most, c) => Math.max(most, c.after), threshold);
+  const rows = listedRows(forecast.perColumn);
+  const unlisted = forecast.perColumn.length - rows.length;
+  const unlistedOutputs = forecast.total.after - rows.reduce((n, c) => n + c.after, 0);
   return (
     <section className="lw-width" aria-labelledby={headingId}>
       <h2 className="lw-width__title" id={headingId}>
@@ -42,15 +53,22 @@ export function WidthMeter({ forecast, threshold = 30, onDecide, keepTop = 20 }:
       ) : null}
       {wide.length > 0 ? (
         <div className="lw-width__warnings" role="region" aria-label="Wide columns">
-          {wide.map((c) => (
+          {wide.slice(0, WARNINGS_LISTED).map((c) => (
             <WideColumnWarning key={c.name} column={c} threshold={threshold} keepTop={keepTop} onDecide={onDecide} />
           ))}
+          {wide.length > WARNINGS_LISTED ? (
+            <p className="lw-width__warning-text">
+              … and {countOf(wide.length - WARNINGS_LISTED, 'more wide column', 'more wide columns')}; deal with these first.
+            </p>
+          ) : null}
         </div>
       ) : (
         <p className="lw-width__ok">No column makes more than {formatCount(threshold)} output columns.</p>
       )}
       <table className="lw-width__table">
-        <caption className="lw-width__caption">Output columns per source column</caption>
+        <caption className="lw-width__caption">
+          {unlisted > 0 ? `Output columns per source column: the ${formatCount(rows.length)} widest` : 'Output columns per source column'}
+        </caption>
         <thead>
           <tr>
             <th scope="col">Column</th>
@@ -69,7 +87,7 @@ export function WidthMeter({ forecast, threshold = 30, onDecide, keepTop = 20 }:
           </tr>
         </thead>
         <tbody>
-          {forecast.perColumn.map((c) => (
+          {rows.map((c) => (
             <tr key={c.name} data-column={c.name} data-wide={c.after > threshold}>
               <th scope="row" className="lw-width__name">
                 {c.name}
@@ -85,9 +103,29 @@ export function WidthMeter({ forecast, threshold = 30, onDecide, keepTop = 20 }:
             </tr>
           ))}
         </tbody>
+        {unlisted > 0 ? (
+          <tfoot>
+            <tr>
+              <td colSpan={5} className="lw-width__more" data-testid="width-more">
+                … and {countOf(unlisted, 'more source column', 'more source columns')}, making{' '}
+                {countOf(unlistedOutputs, 'output column', 'output columns')} in all.
+              </td>
+            </tr>
+          </tfoot>
+        ) : null}
       </table>
     </section>
   );
+}
+
+/** Every column when there are few; otherwise the widest, in file order among equals. */
+function listedRows(columns: readonly ColumnWidth[]): readonly ColumnWidth[] {
+  if (columns.length <= ROWS_LISTED) return columns;
+  const widest = columns
+    .map((column, index) => ({ column, index }))
+    .sort((a, b) => b.column.after - a.column.after || a.index - b.index)
+    .slice(0, ROWS_LISTED);
+  return widest.map((entry) => entry.column);
 }
 
 function WidthBar({ after, widest, threshold }: { readonly after: number; readonly widest: number; readonly threshold: number }) {

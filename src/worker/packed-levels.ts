@@ -1,0 +1,65 @@
+/**
+ * Long level lists of a profile, packed for the trip from the worker to the page.
+ *
+ * A column with a value per row (an identifier) has a million levels in a million-row file. Sent
+ * as a million `{ value, count }` objects, unpacking them took the page's main thread about a
+ * second in one task, and holding them made every later garbage collection in the page slow
+ * (bench/README.md, "In the page"). Packed, a run of levels is one string and two typed arrays:
+ * a few milliseconds to receive, almost nothing to collect. The page needs the objects only when a
+ * decision refits that column (core `decide` reads `profile.levels`), so they are built then, once.
+ */
+import type { ColumnProfile, LevelCount } from '../core/profile.ts';
+
+/** Profiles with more levels than this travel packed; shorter lists stay plain objects. */
+export const PACK_ABOVE_LEVELS = 10_000;
+/** A run ends after this many levels… */
+export const RUN_LEVELS = 1 << 16;
+/** …or once its text passes this many UTF-16 code units, so no run's string grows huge. */
+export const RUN_TEXT_UNITS = 1 << 24;
+
+/** Levels end to end: level i is `lengths[i]` code units of `text`, counted `counts[i]` times. */
+export interface PackedLevels {
+  readonly text: string;
+  readonly lengths: Uint32Array;
+  readonly counts: Float64Array;
+}
+
+/** Splits `levels` into packed runs, in order. */
+export function packLevels(levels: readonly LevelCount[]): PackedLevels[] {
+  const runs: PackedLevels[] = [];
+  let start = 0;
+  while (start < levels.length) {
+    let end = start;
+    let units = 0;
+    while (end < levels.length && end - start < RUN_LEVELS && (units < RUN_TEXT_UNITS || end === start)) units += levels[end++]!.value.length;
+    const run = levels.slice(start, end);
+    runs.push({
+      text: run.map((l) => l.value).join(''),
+      lengths: Uint32Array.from(run, (l) => l.value.length),
+      counts: Float64Array.from(run, (l) => l.count),
+    });
+    start = end;
+  }
+  return runs;
+}
+
+export function unpackLevels(runs: readonly PackedLevels[]): LevelCount[] {
+  const levels: LevelCount[] = [];
+  for (const { text, lengths, counts } of runs) {
+    let at = 0;
+    for (let i = 0; i < lengths.length; i++) {
+      const end = at + lengths[i]!;
+      levels.push({ value: text.slice(at, end), count: counts[i]! });
+      at = end;
+    }
+  }
+  return levels;
+}
+
+/** `profile` whose `levels` are unpacked from `runs` the first time they are read. */
+export function withPackedLevels(profile: ColumnProfile, runs: readonly PackedLevels[]): ColumnProfile {
+  let levels: LevelCount[] | null = null;
+  const lazy = { ...profile };
+  Object.defineProperty(lazy, 'levels', { enumerable: true, configurable: false, get: () => (levels ??= unpackLevels(runs)) });
+  return lazy;
+}

@@ -1,0 +1,89 @@
+/**
+ * Long level lists travel from the worker to the page packed (src/worker/packed-levels.ts): the
+ * page must get back exactly the levels core's profile made, in order, with their counts.
+ */
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import type { LevelCount } from '../../src/core/profile.ts';
+import { profileTable } from '../../src/core/profile.ts';
+import { readTable } from '../../src/core/read-table.ts';
+import { WorkbenchClient } from '../../src/worker/client.ts';
+import { createInPagePort } from '../../src/worker/in-page-port.ts';
+import { PACK_ABOVE_LEVELS, packLevels, RUN_LEVELS, RUN_TEXT_UNITS, unpackLevels, withPackedLevels } from '../../src/worker/packed-levels.ts';
+import type { FromWorker } from '../../src/worker/protocol.ts';
+import { createSession } from '../../src/worker/session.ts';
+
+/** Any text a cell may hold, surrogate pairs, empty and line breaks included. */
+const level = fc.record({ value: fc.string({ unit: 'binary', maxLength: 12 }), count: fc.integer({ min: 1, max: 1_000_000 }) });
+
+describe('packing level lists', () => {
+  it('property: unpacking the packed runs gives the same levels in the same order (fast-check)', () => {
+    fc.assert(
+      fc.property(fc.array(level, { maxLength: 300 }), (levels) => {
+        expect(unpackLevels(packLevels(levels))).toEqual(levels);
+      }),
+    );
+  });
+
+  it('ends a run after RUN_LEVELS levels', () => {
+    const levels: LevelCount[] = Array.from({ length: RUN_LEVELS + 3 }, (_, i) => ({ value: `v${i}`, count: i + 1 }));
+    const runs = packLevels(levels);
+    expect(runs.map((r) => r.lengths.length)).toEqual([RUN_LEVELS, 3]);
+    // The second run starts at level 65,536: "v65536" is 6 code units long and counted 65,537 times.
+    expect(runs[1]?.text.startsWith('v65536')).toBe(true);
+    expect(runs[1]?.lengths[0]).toBe(6);
+    expect(runs[1]?.counts[0]).toBe(65_537);
+  });
+
+  it('ends a run once its text passes RUN_TEXT_UNITS code units, with at least one level per run', () => {
+    const long = 'x'.repeat(RUN_TEXT_UNITS);
+    const runs = packLevels([
+      { value: long, count: 1 },
+      { value: 'a', count: 2 },
+      { value: long, count: 3 },
+    ]);
+    // The first level alone reaches the limit; "a" starts the next run and the long one joins it.
+    expect(runs.map((r) => [...r.lengths])).toEqual([[RUN_TEXT_UNITS], [1, RUN_TEXT_UNITS]]);
+    expect(runs.map((r) => [...r.counts])).toEqual([[1], [2, 3]]);
+  });
+
+  it('unpacks a profile’s levels the first time they are read, once', () => {
+    const profile = { ...profileTable(readTable(new TextEncoder().encode('id\nb\na\nb\n')).table)[0]!, levels: [] };
+    const lazy = withPackedLevels(profile, packLevels([{ value: 'b', count: 2 }, { value: 'a', count: 1 }]));
+    expect(lazy.levels).toEqual([{ value: 'b', count: 2 }, { value: 'a', count: 1 }]);
+    expect(lazy.levels).toBe(lazy.levels);
+    expect(lazy.distinct).toBe(2);
+  });
+});
+
+describe('opening a file with a column of many distinct values', () => {
+  const rows = PACK_ABOVE_LEVELS + 2_000;
+  // An invented list: ids all different (12,000 levels, each once), colours red/blue alternating.
+  const csv = `id,colour\n${Array.from({ length: rows }, (_, i) => `k${String(i).padStart(5, '0')},${i % 2 === 0 ? 'red' : 'blue'}`).join('\n')}\n`;
+
+  it('sends the long list ahead, packed, and the page gets back exactly the profile core made', async () => {
+    const messages: FromWorker['type'][] = [];
+    const port = createInPagePort();
+    port.addEventListener('message', (event: MessageEvent<FromWorker>) => messages.push(event.data.type));
+    const client = new WorkbenchClient(port);
+    const opened = await client.call('open', { slot: 'work', source: { kind: 'file', file: new File([csv], 'ids.csv') }, draft: true });
+    const expected = profileTable(readTable(new TextEncoder().encode(csv)).table);
+    // 12,000 levels make one packed run (under RUN_LEVELS); colour's 2 levels stay in the answer.
+    expect(messages.filter((m) => m === 'levels')).toHaveLength(1);
+    expect(opened.profiles[0]?.levels).toHaveLength(rows);
+    expect(opened.profiles[0]?.levels?.[0]).toEqual({ value: 'k00000', count: 1 });
+    expect(opened.profiles[0]?.levels?.at(-1)).toEqual({ value: `k${rows - 1}`, count: 1 });
+    expect(opened.profiles[1]?.levels).toEqual([{ value: 'red', count: 6_000 }, { value: 'blue', count: 6_000 }]);
+    expect(opened.profiles).toEqual(expected);
+  });
+
+  it('posts the levels with their typed arrays transferred', async () => {
+    const transfers: number[] = [];
+    const session = createSession((message, transfer) => {
+      if (message.type === 'levels') transfers.push(transfer?.length ?? 0);
+    });
+    session.receive({ type: 'open', id: 1, slot: 'work', source: { kind: 'file', file: new File([csv], 'ids.csv') }, draft: true });
+    await expect.poll(() => transfers.length, { timeout: 20_000 }).toBe(1);
+    expect(transfers).toEqual([2]);
+  });
+});
