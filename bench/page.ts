@@ -21,13 +21,12 @@
  * Missed targets are printed as FAIL and recorded; the exit code stays 0 (a report, not a test).
  */
 import { createReadStream, existsSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { loadavg, tmpdir } from 'node:os';
 import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chromium, type Browser, type CDPSession, type Page } from 'playwright-core';
-import { build, preview, type PreviewServer } from 'vite';
 import { CHROMIUM, CHROMIUM_ARGS } from '../test/e2e/helpers/browser.ts';
+import { buildAndServe, type ServedApp } from '../test/e2e/helpers/server.ts';
 import { describeMachine, machineLine, type Machine } from './lib/machine.ts';
 import { renderTable } from './lib/report.ts';
 import { atMost, BYTES_PER_MB, median, type Verdict } from './lib/stats.ts';
@@ -146,36 +145,6 @@ export interface PageResults {
 
 // ---------------------------------------------------------------------------------------------
 // Serving the production build
-
-interface Served {
-  readonly url: string;
-  close(): Promise<void>;
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolvePort, reject) => {
-    const server = createServer();
-    server.unref();
-    server.on('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      const port = typeof address === 'object' && address !== null ? address.port : 0;
-      server.close(() => resolvePort(port));
-    });
-  });
-}
-
-async function buildAndServe(outDir: string): Promise<Served> {
-  await build({ root: PROJECT_ROOT, logLevel: 'warn', build: { outDir, emptyOutDir: true } });
-  const port = await freePort();
-  const server: PreviewServer = await preview({
-    root: PROJECT_ROOT,
-    logLevel: 'warn',
-    build: { outDir },
-    preview: { host: '127.0.0.1', port, strictPort: true, open: false },
-  });
-  return { url: `http://127.0.0.1:${port}/`, close: () => server.close() };
-}
 
 // ---------------------------------------------------------------------------------------------
 // What runs in the page before its own scripts: the long-task observer, and no save picker.
@@ -589,7 +558,7 @@ export async function measurePage({ file, rows }: PageOptions): Promise<PageResu
   const bytes = statSync(file).size;
   const loadAtStart = loadavg()[0] ?? NaN;
   const outDir = mkdtempSync(join(tmpdir(), 'levelwise-bench-page-'));
-  let served: Served | null = null;
+  let served: ServedApp | null = null;
   let browser: Browser | null = null;
   try {
     progress('page: building the app and serving it with vite preview…');

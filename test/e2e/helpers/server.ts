@@ -3,7 +3,7 @@
  * so the e2e tests see the production bundle with the production headers (CSP).
  */
 import { createServer } from 'node:net';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
 import { build, preview, type PreviewServer } from 'vite';
 
 export const ROOT = join(import.meta.dirname, '../../..');
@@ -27,9 +27,9 @@ export function freePort(): Promise<number> {
   });
 }
 
-/** `outDirName` keeps parallel builds of different test files apart. */
+/** `outDirName` (under test-results/, or an absolute path) keeps parallel builds apart. */
 export async function buildAndServe(outDirName: string): Promise<ServedApp> {
-  const outDir = join(RESULTS, outDirName);
+  const outDir = resolve(RESULTS, outDirName);
   await build({ root: ROOT, logLevel: 'warn', build: { outDir, emptyOutDir: true } });
   const port = await freePort();
   const server: PreviewServer = await preview({
