@@ -1,5 +1,6 @@
 /**
- * Builds column storage (columns.ts) one row at a time, without an object per row or per cell.
+ * Builds column storage (columns.ts) row by row, or a block of rows column by column, without an
+ * object per row or per cell.
  *
  * Each column starts dictionary-encoded. When its distinct values outgrow the cap and all of them
  * so far are empty or decimal number text ('12', '-0.5', '1.50', '007', '1e3'), it moves to number

@@ -95,6 +95,8 @@ export class RecordParser {
   private line = 1;
   /** Plain records collected for the sink (see PlainRecords); the arrays grow as needed. */
   private readonly block = { text: '', count: 0, width: 0, bounds: new Int32Array(1 << 12), lines: new Int32Array(1 << 8) };
+  /** Where scanPlainRecords met a record holding a quoted field; -1 when it did not. */
+  private stoppedAt = -1;
 
   constructor(sink: RecordSink, options: RecordParserOptions = {}) {
     this.sink = sink;
@@ -120,8 +122,8 @@ export class RecordParser {
   }
 
   private parse(final: boolean): void {
-    // One flat string: joining copies the pieces, where `+` would leave a tree of pieces that is
-    // slower to read character by character.
+    // One flat string: joining copies the pieces once, where `+` would leave a tree of pieces for
+    // the engine to flatten on the first search.
     const input = this.pending.length === 1 ? (this.pending[0] ?? '') : this.pending.join('');
     if (!this.started) this.start(input, final);
     const consumed = this.scan(input, final);
@@ -153,9 +155,6 @@ export class RecordParser {
     }
     return at;
   }
-
-  /** Where scanPlainRecords met a record holding a quoted field; -1 when it did not. */
-  private stoppedAt = -1;
 
   /**
    * Reads records without quoted fields from `at` on, for as long as they come, into the block of
@@ -237,6 +236,7 @@ export class RecordParser {
     }
     this.line = line;
     this.flushBlock();
+    block.text = ''; // the block must not keep the chunk alive
     return start === at && this.stoppedAt === -1 && start < n ? INCOMPLETE : start;
   }
 
