@@ -1,6 +1,6 @@
+import { thrownLevelwiseError } from './helpers/tables.ts';
 import { describe, expect, it } from 'vitest';
 import { ChunkDecoder, SNIFF_BYTES, decodeBytes, retryAsWindows1252, type EncodingName } from '../../src/core/decode.ts';
-import { LevelwiseError } from '../../src/core/errors.ts';
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
@@ -25,15 +25,6 @@ function decodeInPieces(bytes: Uint8Array, size: number, forced: EncodingName | 
   return { text, encoding: decoder.encoding };
 }
 
-function thrown(run: () => unknown): LevelwiseError {
-  try {
-    run();
-  } catch (error) {
-    if (error instanceof LevelwiseError) return error;
-    throw error;
-  }
-  throw new Error('expected a LevelwiseError');
-}
 
 describe('choosing the encoding', () => {
   it('reads plain UTF-8', () => {
@@ -90,7 +81,7 @@ describe('Windows-1252 bytes met after text was handed on', () => {
   const late = new Uint8Array([...utf8(ascii), 0x63, 0x61, 0x66, 0xe9, 0x0a]);
 
   it('stops with encoding-restart instead of switching silently', () => {
-    const error = thrown(() => decodeInPieces(late, SNIFF_BYTES));
+    const error = thrownLevelwiseError(() => decodeInPieces(late, SNIFF_BYTES));
     expect(error.code).toBe('encoding-restart');
     expect(error.hint).toMatch(/Windows-1252/);
   });
@@ -117,7 +108,7 @@ describe('Windows-1252 bytes met after text was handed on', () => {
 
   it('a file declared UTF-8 by its byte order mark is not re-read: its bad bytes are an error', () => {
     const bytes = new Uint8Array([0xef, 0xbb, 0xbf, ...utf8(ascii), 0xe9, 0x0a]);
-    expect(thrown(() => decodeInPieces(bytes, 4096)).code).toBe('bad-encoding');
+    expect(thrownLevelwiseError(() => decodeInPieces(bytes, 4096)).code).toBe('bad-encoding');
   });
 });
 
@@ -127,26 +118,26 @@ describe('files that are not text', () => {
     ['ZIP (.xlsx)', [0x50, 0x4b, 0x03, 0x04, 0x14, 0x00], /ZIP archive/],
     ['gzip', [0x1f, 0x8b, 0x08, 0x00], /gzip/],
   ])('rejects %s by its signature', (_name, signature, message) => {
-    const error = thrown(() => decodeBytes(new Uint8Array([...signature, ...utf8('rest of the file')])));
+    const error = thrownLevelwiseError(() => decodeBytes(new Uint8Array([...signature, ...utf8('rest of the file')])));
     expect(error.code).toBe('not-text');
     expect(error.message).toMatch(message);
     expect(error.hint.length).toBeGreaterThan(10);
   });
 
   it('rejects NUL bytes in the first 8 KB, naming the byte', () => {
-    const error = thrown(() => decodeBytes(new Uint8Array([...utf8('a,b\n'), 0x00, ...utf8('c\n')])));
+    const error = thrownLevelwiseError(() => decodeBytes(new Uint8Array([...utf8('a,b\n'), 0x00, ...utf8('c\n')])));
     expect(error.code).toBe('not-text');
     expect(error.message).toMatch(/byte 5/);
   });
 
   it('suggests UTF-16 without a byte order mark when every other byte is NUL', () => {
-    const error = thrown(() => decodeBytes(utf16('name,age\nAda,36\n', 'le', false)));
+    const error = thrownLevelwiseError(() => decodeBytes(utf16('name,age\nAda,36\n', 'le', false)));
     expect(error.code).toBe('not-text');
     expect(error.hint).toMatch(/UTF-16/);
   });
 
   it('reports UTF-16 that ends in the middle of a code unit', () => {
     const bytes = utf16('ab', 'le');
-    expect(thrown(() => decodeBytes(bytes.subarray(0, bytes.length - 1))).code).toBe('bad-encoding');
+    expect(thrownLevelwiseError(() => decodeBytes(bytes.subarray(0, bytes.length - 1))).code).toBe('bad-encoding');
   });
 });

@@ -1,9 +1,9 @@
+import { thrownLevelwiseError } from './helpers/tables.ts';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { cellText, type Table } from '../../src/core/columns.ts';
-import { LevelwiseError } from '../../src/core/errors.ts';
 import {
   createTableReader,
   readTable,
@@ -27,15 +27,6 @@ function readInPieces(bytes: Uint8Array, size: number, options: ReadOptions = {}
   return reader.finish();
 }
 
-function levelwiseError(run: () => unknown): LevelwiseError {
-  try {
-    run();
-  } catch (error) {
-    if (error instanceof LevelwiseError) return error;
-    throw error;
-  }
-  throw new Error('expected a LevelwiseError');
-}
 
 describe('readTable', () => {
   it('reads header, cells, line numbers and what it chose', () => {
@@ -47,13 +38,13 @@ describe('readTable', () => {
   });
 
   it('an empty file (0 bytes) is an error saying so', () => {
-    const error = levelwiseError(() => readTable(new Uint8Array(0)));
+    const error = thrownLevelwiseError(() => readTable(new Uint8Array(0)));
     expect(error.code).toBe('empty-file');
     expect(error.message).toMatch(/0 bytes/);
   });
 
   it('a file of blank lines only has no header: empty-file', () => {
-    expect(levelwiseError(() => readTable(utf8('\n\r\n\n'))).code).toBe('empty-file');
+    expect(thrownLevelwiseError(() => readTable(utf8('\n\r\n\n'))).code).toBe('empty-file');
   });
 
   it('a header-only file is a table with no rows, not an error', () => {
@@ -65,7 +56,7 @@ describe('readTable', () => {
 
   it('a PNG image is not-text with a hint (PNG signature, ISO/IEC 15948)', () => {
     const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13]);
-    const error = levelwiseError(() => readTable(png));
+    const error = thrownLevelwiseError(() => readTable(png));
     expect(error.code).toBe('not-text');
     expect(error.hint).not.toBe('');
   });

@@ -3,6 +3,7 @@
  * published datasets shipped by the npm package vega-datasets (a JSON null becomes an empty cell,
  * as a spreadsheet export would write it), and one-column tables from cells.
  */
+import { LevelwiseError } from '../../../src/core/errors.ts';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Table } from '../../../src/core/columns.ts';
@@ -29,4 +30,15 @@ export function vegaTable(name: 'penguins' | 'cars'): Table {
 export function columnTable(name: string, cells: readonly string[], dictionaryCap?: number): Table {
   const rows = [[name, 'row'], ...cells.map((c, i) => [c, String(i)])];
   return tableFromRows(rows, dictionaryCap === undefined ? {} : { dictionaryCap }).table;
+}
+
+/** Runs `run` and returns the LevelwiseError it throws; fails the test when it throws nothing or something else. */
+export function thrownLevelwiseError(run: () => unknown): LevelwiseError {
+  try {
+    run();
+  } catch (error) {
+    if (error instanceof LevelwiseError) return error;
+    throw error;
+  }
+  throw new Error('expected a LevelwiseError');
 }
