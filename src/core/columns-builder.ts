@@ -2,32 +2,41 @@
  * Builds column storage (columns.ts) row by row, or a block of rows column by column, without an
  * object per row or per cell.
  *
- * Each column starts dictionary-encoded. When its distinct values outgrow the cap and all of them
- * so far are empty or decimal number text ('12', '-0.5', '1.50', '007', '1e3'), it moves to number
- * storage: a Float64Array holding Number(text) (NaN for other text), plus the raw text of every
- * cell that `String(value)` would not give back ('1.50', '007', 'n/a', later stray text). Either
- * way `cellText` gives back the parsed text unchanged. Requiring only decimal syntax, not the
- * exact `String(value)` form, lets fixed-decimal exports ('12.50') leave the dictionary too.
+ * Each column starts dictionary-encoded. When its distinct values outgrow the cap and nearly all
+ * of them (all but one in NON_NUMBER_SHARE) are empty or decimal number text ('12', '-0.5',
+ * '1.50', '007', '1e3'), it moves to number storage: a Float64Array holding Number(text) (NaN for
+ * other text), plus the raw text of every cell that `String(value)` would not give back ('1.50',
+ * '007', 'n/a', '12 504', later stray text). Either way `cellText` gives back the parsed text
+ * unchanged. Requiring only decimal syntax, not the exact `String(value)` form, lets
+ * fixed-decimal exports ('12.50') leave the dictionary too; tolerating a few other texts lets a
+ * measurement with missing-value spellings ('NA', 'n/a') or the odd grouped number leave it.
  */
 import type { Column, HeaderIssue, RowIssue, Table } from './columns.ts';
-import { plainFields, type PlainRecords } from './parse.ts';
+import { hashBytes, plainFields, type PlainRecords } from './parse.ts';
+import { utf8Bytes, utf8Text } from './utf8-text.ts';
 
 export const DEFAULT_DICTIONARY_CAP = 4096;
+/** A column past the cap moves to number storage when at most 1 in this many distinct values is not a number. */
+export const NON_NUMBER_SHARE = 8;
 
 const INITIAL_CAPACITY = 1024;
-/** A dictionary of up to this many values is searched by length alone; a bigger one by hash. */
-const SMALL_DICTIONARY = 32;
-/** Values of this length or longer share the last length list. */
-const LENGTH_LISTS = 64;
 /** Hash table slots to start with; a power of two, doubled whenever the table is half full. */
-const INITIAL_SLOTS = 128;
+const INITIAL_SLOTS = 64;
+/** Distinct values the per-value arrays are made for at first. */
+const INITIAL_VALUES = 32;
 
 /**
- * The dictionary is our own, rather than a Map: a cell arrives as a position in the parsed text
- * (parse.ts) and is compared in place with the stored values, so only a value met for the first
- * time becomes a string. Most columns have a few levels: their cells are compared with the values
- * of the same length, without hashing. A column that outgrows SMALL_DICTIONARY values moves to an
- * open-addressing hash table.
+ * The dictionary is our own, rather than a Map keyed by strings: a cell arrives as UTF-8 bytes in
+ * the file's buffer with a hash the scanner computed while reading them (parse.ts), and is
+ * compared in place with the bytes of the stored values. The table is open addressing with
+ * linear probing.
+ *
+ * Two shortcuts for identifier columns, where every cell is a new value:
+ * - While the cells come in strictly ascending byte order (exports sorted by their key), each is
+ *   new by that fact alone, and the hash table is not even built; it is built from the stored
+ *   values the first time a cell is not greater than the one before.
+ * - Values become strings only when the column is built: ASCII values are cut from one string of
+ *   all their bytes, which is far cheaper than a string made from bytes a million times over.
  */
 export class ColumnBuilder {
   readonly name: string;
@@ -35,24 +44,31 @@ export class ColumnBuilder {
   private length = 0;
   // Dictionary storage, emptied once the column holds numbers.
   private codes: Uint32Array<ArrayBuffer>;
-  private values: string[] = [];
+  /** The values' strings; undefined until `build` for those read as bytes (see valueTexts). */
+  private values: (string | undefined)[] = [];
   private counts: Float64Array<ArrayBuffer>;
+  /** The hash of every value, to build the hash table when the ascending run ends. */
+  private valueHash: Int32Array<ArrayBuffer>;
+  /** Every cell so far was new and greater (byte by byte) than the one before: no hash table yet. */
+  private ascending = true;
+  /** Every stored value's bytes are ASCII. */
+  private asciiBytes = true;
   /**
-   * Small dictionary: byLength[min(length, LENGTH_LISTS − 1)] is code + 1 of the first value of that
-   * length (0: none) and nextOfLength[code] the next one's. null once the dictionary is hashed.
+   * The UTF-8 bytes of every value, one after another: value c is
+   * valueBytes[valueStart[c], valueStart[c + 1]).
    */
-  private byLength: Int32Array | null = new Int32Array(LENGTH_LISTS);
-  private readonly nextOfLength = new Int32Array(SMALL_DICTIONARY + 1);
+  private valueBytes = new Uint8Array(256);
+  private valueStart: Int32Array<ArrayBuffer>;
   /**
-   * Hash table, with linear probing: slot i is table[2i] = the value's fieldHash and table[2i + 1]
-   * = its code + 1 (0: free). The hash sits beside the code so that a probe reads one cache line.
+   * Hash table: slot i is table[2i] = the value's hash and table[2i + 1] = its code + 1 (0: free).
+   * The hash sits beside the code so that a probe reads one cache line.
    */
-  private table = new Int32Array(0);
-  /** Slots the hash table starts with (from the expected distinct values). */
-  private readonly initialSlots: number;
-  /** Every distinct value so far is empty or decimal number text. */
-  private onlyNumbers = true;
-  /** The dictionary outgrew the cap with only numbers in it: switch after storing the current cell. */
+  private table: Int32Array;
+  /** Distinct values so far that are neither empty nor decimal number text (counted until the cap). */
+  private nonNumbers = 0;
+  /** Whether the dictionary outgrew the cap: the storage was chosen for good. */
+  private pastCap = false;
+  /** The dictionary outgrew the cap holding numbers: switch after storing the current cell. */
   private switchDue = false;
   // Number storage.
   private numbers: Float64Array | null = null;
@@ -65,15 +81,14 @@ export class ColumnBuilder {
   constructor(name: string, dictionaryCap: number = DEFAULT_DICTIONARY_CAP, expected: { rows: number; distinct: number } | null = null) {
     this.name = name;
     this.cap = dictionaryCap;
+    const distinct = Math.max(INITIAL_VALUES, expected?.distinct ?? 0);
     let slots = INITIAL_SLOTS;
-    while (expected !== null && slots < 2 * expected.distinct) slots *= 2;
-    this.initialSlots = slots;
-    this.counts = new Float64Array(Math.max(SMALL_DICTIONARY + 1, expected?.distinct ?? 0));
+    while (slots < 2 * distinct) slots *= 2;
+    this.table = new Int32Array(2 * slots);
+    this.counts = new Float64Array(distinct + 1);
+    this.valueStart = new Int32Array(distinct + 1);
+    this.valueHash = new Int32Array(distinct + 1);
     this.codes = new Uint32Array(Math.max(INITIAL_CAPACITY, expected?.rows ?? 0));
-    if (expected !== null && expected.distinct > SMALL_DICTIONARY) {
-      this.byLength = null;
-      this.table = new Int32Array(2 * slots);
-    }
   }
 
   /** Distinct values in the dictionary so far (0 once the column holds numbers). */
@@ -86,20 +101,8 @@ export class ColumnBuilder {
   }
 
   push(text: string): void {
-    this.pushRange(text, 0, text.length);
-  }
-
-  /** Adds the cell text[start, end). */
-  pushRange(text: string, start: number, end: number): void {
-    if (this.numbers !== null) {
-      this.pushNumber(text, start, end);
-      return;
-    }
-    const code = this.byLength !== null ? this.smallCodeOf(text, start, end) : this.hashedCodeOf(text, start, end);
-    this.counts[code]! += 1;
-    if (this.length === this.codes.length) this.codes = grow(this.codes);
-    this.codes[this.length++] = code;
-    if (this.switchDue) this.switchToNumbers();
+    const bytes = utf8Bytes(text);
+    this.pushBytes(bytes, 0, bytes.length, hashBytes(bytes, 0, bytes.length), text);
   }
 
   /**
@@ -107,11 +110,11 @@ export class ColumnBuilder {
    * dictionary is in the processor's cache while its cells are looked up.
    */
   pushField(records: PlainRecords, field: number, from: number, to: number): void {
-    const { text, bounds, width } = records;
+    const { bytes, bounds, hashes, width } = records;
     const stride = width + 1;
     for (let r = from; r < to; r++) {
       const at = r * stride + field;
-      this.pushRange(text, bounds[at]!, bounds[at + 1]! - 1);
+      this.pushBytes(bytes, bounds[at]!, bounds[at + 1]! - 1, hashes[at]!, null);
     }
   }
 
@@ -121,121 +124,190 @@ export class ColumnBuilder {
       return { kind: 'number', name: this.name, length: this.length, values: this.numbers, exceptions: this.exceptions ?? new Map() };
     }
     const counts = Array.from(this.counts.subarray(0, this.values.length));
-    // The hash table is needed no more; a reader kept alive must not keep it (16 MB for a million values).
+    const values = this.valueTexts();
+    // Needed no more; a reader kept alive must not keep them (tens of MB for a million values).
     this.table = new Int32Array(0);
+    this.valueBytes = new Uint8Array(0);
+    this.valueStart = new Int32Array(0);
+    this.valueHash = new Int32Array(0);
     this.counts = new Float64Array(0);
-    return { kind: 'text', name: this.name, length: this.length, codes: this.codes, values: this.values, counts };
+    return { kind: 'text', name: this.name, length: this.length, codes: this.codes, values, counts };
   }
 
-  private smallCodeOf(text: string, start: number, end: number): number {
-    const length = end - start;
-    const list = length < LENGTH_LISTS ? length : LENGTH_LISTS - 1;
-    const byLength = this.byLength!;
-    for (let next = byLength[list]!; next !== 0; next = this.nextOfLength[next - 1]!) {
-      const value = this.values[next - 1]!;
-      if (value.length === length && text.startsWith(value, start)) return next - 1;
+  /**
+   * Every value as a string. Values read as bytes get theirs now: ASCII ones cut from one string
+   * of all the stored bytes, others decoded one by one (throwing InvalidUtf8Error for bytes that
+   * are not UTF-8: this is where a file's bytes are checked).
+   */
+  private valueTexts(): string[] {
+    const values = this.values;
+    const stored = this.valueStart;
+    const all = this.asciiBytes ? utf8Text(this.valueBytes, 0, stored[values.length]!) : null;
+    for (let code = 0; code < values.length; code++) {
+      if (values[code] !== undefined) continue;
+      values[code] = all !== null ? all.slice(stored[code]!, stored[code + 1]!) : utf8Text(this.valueBytes, stored[code]!, stored[code + 1]!);
     }
-    const code = this.addValue(text, start, end);
-    if (this.values.length > SMALL_DICTIONARY) {
-      this.hashAll();
-    } else {
-      this.nextOfLength[code] = byLength[list]!;
-      byLength[list] = code + 1;
-    }
-    return code;
+    return values as string[];
   }
 
-  private hashedCodeOf(text: string, start: number, end: number): number {
-    const hash = fieldHash(text, start, end);
+  /** Adds the cell bytes[start, end) with its hash; `text` is its text when the caller has it. */
+  private pushBytes(bytes: Uint8Array, start: number, end: number, hash: number, text: string | null): void {
+    if (this.numbers !== null) {
+      this.pushNumber(bytes, start, end, text);
+      return;
+    }
+    const code = this.ascending && this.continuesAscending(bytes, start, end)
+      ? this.addValue(bytes, start, end, hash, text)
+      : this.codeOf(bytes, start, end, hash, text);
+    this.counts[code]! += 1;
+    if (this.length === this.codes.length) this.codes = grow(this.codes);
+    this.codes[this.length++] = code;
+    if (this.switchDue) this.switchToNumbers();
+  }
+
+  /** Whether the cell is greater than the last value stored; if not, the ascending run ends here. */
+  private continuesAscending(bytes: Uint8Array, start: number, end: number): boolean {
+    const count = this.values.length;
+    if (count > 0 && compareBytes(bytes, start, end, this.valueBytes, this.valueStart[count - 1]!, this.valueStart[count]!) <= 0) {
+      this.ascending = false;
+      this.rehash(this.table.length);
+      return false;
+    }
+    return true;
+  }
+
+  private codeOf(bytes: Uint8Array, start: number, end: number, hash: number, text: string | null): number {
     const table = this.table;
     const mask = (table.length >> 1) - 1;
+    const length = end - start;
     for (let i = hash & mask; ; i = (i + 1) & mask) {
       const slot = table[2 * i + 1]!;
       if (slot === 0) {
-        const code = this.addValue(text, start, end);
+        const code = this.addValue(bytes, start, end, hash, text);
         table[2 * i] = hash;
         table[2 * i + 1] = code + 1;
         if (4 * this.values.length > table.length) this.rehash(table.length * 2);
         return code;
       }
       if (table[2 * i] === hash) {
-        const value = this.values[slot - 1]!;
-        if (value.length === end - start && text.startsWith(value, start)) return slot - 1;
+        const code = slot - 1;
+        const stored = this.valueStart[code]!;
+        if (this.valueStart[code + 1]! - stored === length && sameBytes(this.valueBytes, stored, bytes, start, length)) return code;
       }
     }
   }
 
-  private addValue(text: string, start: number, end: number): number {
+  private addValue(bytes: Uint8Array, start: number, end: number, hash: number, text: string | null): number {
     const code = this.values.length;
-    const value = detach(text, start, end);
-    this.values.push(value);
-    if (code === this.counts.length) this.counts = grow(this.counts);
-    if (this.onlyNumbers && value !== '' && Number.isNaN(numberValue(value))) this.onlyNumbers = false;
-    if (this.onlyNumbers && this.values.length > this.cap) this.switchDue = true;
+    const length = end - start;
+    this.values.push(text ?? undefined);
+    if (code + 1 >= this.counts.length) {
+      this.counts = grow(this.counts);
+      this.valueStart = grow(this.valueStart);
+      this.valueHash = grow(this.valueHash);
+    }
+    const stored = this.valueStart[code]!;
+    if (stored + length > this.valueBytes.length) {
+      const bigger = new Uint8Array(Math.max(2 * this.valueBytes.length, stored + length));
+      bigger.set(this.valueBytes.subarray(0, stored));
+      this.valueBytes = bigger;
+    }
+    const valueBytes = this.valueBytes;
+    let high = 0;
+    for (let k = 0; k < length; k++) high |= valueBytes[stored + k] = bytes[start + k]!;
+    if (high >= 0x80) this.asciiBytes = false;
+    this.valueStart[code + 1] = stored + length;
+    this.valueHash[code] = hash;
+    if (!this.pastCap) this.countNumber(bytes, start, end);
     return code;
   }
 
-  /** The small dictionary outgrew its lists: every value goes into the hash table. */
-  private hashAll(): void {
-    this.byLength = null;
-    let slots = this.initialSlots;
-    while (slots < 4 * this.values.length) slots *= 2;
-    this.rehash(2 * slots);
+  /** Counts a new value that is not a number, and at the cap decides the column's storage. */
+  private countNumber(bytes: Uint8Array, start: number, end: number): void {
+    if (end > start) {
+      scanner.read(bytes, start, end);
+      if (Number.isNaN(scanner.value)) this.nonNumbers++;
+    }
+    if (this.values.length <= this.cap) return;
+    this.pastCap = true;
+    this.switchDue = this.nonNumbers * NON_NUMBER_SHARE <= this.values.length;
   }
 
-  /** Builds the hash table anew with `entries` Int32 entries: twice a power of two (hash, code). */
+  /** Builds the hash table anew with `entries` Int32 entries (twice a power of two), large enough for the values. */
   private rehash(entries: number): void {
+    const count = this.values.length;
+    while (entries < 4 * count) entries *= 2;
     const table = new Int32Array(entries);
     const mask = (entries >> 1) - 1;
-    this.values.forEach((value, code) => {
-      const hash = fieldHash(value, 0, value.length);
+    for (let code = 0; code < count; code++) {
+      const hash = this.valueHash[code]!;
       let i = hash & mask;
       while (table[2 * i + 1] !== 0) i = (i + 1) & mask;
       table[2 * i] = hash;
       table[2 * i + 1] = code + 1;
-    });
+    }
     this.table = table;
   }
 
   private switchToNumbers(): void {
-    const valueOfCode = Float64Array.from(this.values, (text) => numberValue(text));
-    const keepText = this.values.map((text) => !printsBack(text));
+    const texts = this.valueTexts();
+    const valueOfCode = Float64Array.from(texts, (text) => numberValue(text));
+    const keepText = texts.map((text) => !printsBack(text));
     const numbers = new Float64Array(this.codes.length);
     const exceptions = new Map<number, string>();
     for (let row = 0; row < this.length; row++) {
       const code = this.codes[row]!;
       numbers[row] = valueOfCode[code]!;
-      if (keepText[code]) exceptions.set(row, this.values[code]!);
+      if (keepText[code]) exceptions.set(row, texts[code]!);
     }
     this.numbers = numbers;
     this.exceptions = exceptions;
     this.switchDue = false;
-    this.byLength = null;
     this.table = new Int32Array(0);
+    this.valueBytes = new Uint8Array(0);
+    this.valueStart = new Int32Array(0);
+    this.valueHash = new Int32Array(0);
     this.codes = new Uint32Array(0);
     this.values = [];
     this.counts = new Float64Array(0);
   }
 
-  private pushNumber(text: string, start: number, end: number): void {
+  private pushNumber(bytes: Uint8Array, start: number, end: number, text: string | null): void {
     let numbers = this.numbers!;
     if (this.length === numbers.length) numbers = this.numbers = grow(numbers);
-    scanner.read(text, start, end);
+    scanner.read(bytes, start, end);
     numbers[this.length] = scanner.value;
-    if (!scanner.printsBack) this.exceptions!.set(this.length, detach(text, start, end));
+    if (!scanner.printsBack) this.exceptions!.set(this.length, text ?? utf8Text(bytes, start, end));
     this.length++;
   }
 }
 
+/** Byte-wise comparison of a[aStart, aEnd) with b[bStart, bEnd): negative, 0 or positive. */
+function compareBytes(a: Uint8Array, aStart: number, aEnd: number, b: Uint8Array, bStart: number, bEnd: number): number {
+  const length = Math.min(aEnd - aStart, bEnd - bStart);
+  for (let k = 0; k < length; k++) {
+    const difference = a[aStart + k]! - b[bStart + k]!;
+    if (difference !== 0) return difference;
+  }
+  return aEnd - aStart - (bEnd - bStart);
+}
+
+function sameBytes(stored: Uint8Array, at: number, bytes: Uint8Array, start: number, length: number): boolean {
+  for (let k = 0; k < length; k++) if (stored[at + k] !== bytes[start + k]) return false;
+  return true;
+}
+
 /** Number(text) when `text` is decimal number text (see NumberScanner), else NaN. */
 export function numberValue(text: string): number {
-  scanner.read(text, 0, text.length);
+  const bytes = utf8Bytes(text);
+  scanner.read(bytes, 0, bytes.length);
   return scanner.value;
 }
 
 /** Whether cellText gives back `text` from the number storage alone (no exception kept). */
 export function printsBack(text: string): boolean {
-  scanner.read(text, 0, text.length);
+  const bytes = utf8Bytes(text);
+  scanner.read(bytes, 0, bytes.length);
   return scanner.printsBack;
 }
 
@@ -249,9 +321,9 @@ const POWERS_OF_TEN = Array.from({ length: 16 }, (_, k) => 10 ** k);
 
 /**
  * Reads decimal number text `-?(digits[.digits]|.digits)([eE][+-]?digits)?` ('12', '-0.5', '1.50',
- * '007', '1e3'); anything else is not a number. Reads text[start, end) in place and keeps the
- * results in fields, so reading a cell allocates nothing, and `Number()`/`String()` are called
- * only for rare long or exponent forms.
+ * '007', '1e3'); anything else is not a number. Reads the UTF-8 bytes[start, end) in place and
+ * keeps the results in fields, so reading a cell allocates nothing, and `Number()`/`String()` are
+ * called only for rare long or exponent forms.
  */
 class NumberScanner {
   /** The number, or NaN for text that is not decimal number text (and for ''). */
@@ -260,37 +332,37 @@ class NumberScanner {
   printsBack = false;
   private mantissa = 0;
 
-  read(text: string, start: number, end: number): void {
+  read(bytes: Uint8Array, start: number, end: number): void {
     const n = end - start;
-    const negative = n > 0 && text.charCodeAt(start) === MINUS;
+    const negative = n > 0 && bytes[start] === MINUS;
     const intStart = negative ? start + 1 : start;
     this.mantissa = 0;
-    const intEnd = this.readDigits(text, intStart, end);
-    const hasDot = intEnd < end && text.charCodeAt(intEnd) === DOT;
-    const digitsEnd = hasDot ? this.readDigits(text, intEnd + 1, end) : intEnd;
+    const intEnd = this.readDigits(bytes, intStart, end);
+    const hasDot = intEnd < end && bytes[intEnd] === DOT;
+    const digitsEnd = hasDot ? this.readDigits(bytes, intEnd + 1, end) : intEnd;
     const intDigits = intEnd - intStart;
     const fracDigits = hasDot ? digitsEnd - intEnd - 1 : 0;
     if (intDigits + fracDigits === 0) return this.notANumber(n === 0);
-    if (digitsEnd < end) return this.readExponentForm(text, start, digitsEnd, end);
+    if (digitsEnd < end) return this.readExponentForm(bytes, start, digitsEnd, end);
     // Up to 15 digits the mantissa is an exact integer and one division by an exact power of ten
     // rounds correctly, so this equals Number(text) (the classic fast path, Clinger 1990).
-    if (intDigits + fracDigits > 15) this.value = +text.slice(start, end);
+    if (intDigits + fracDigits > 15) this.value = +utf8Text(bytes, start, end);
     else this.value = (negative ? -this.mantissa : this.mantissa) / POWERS_OF_TEN[fracDigits]!;
-    const plainInteger = intDigits === 1 || (intDigits > 1 && text.charCodeAt(intStart) !== ZERO);
-    const plainFraction = !hasDot || (fracDigits > 0 && text.charCodeAt(end - 1) !== ZERO);
+    const plainInteger = intDigits === 1 || (intDigits > 1 && bytes[intStart] !== ZERO);
+    const plainFraction = !hasDot || (fracDigits > 0 && bytes[end - 1] !== ZERO);
     // String() never writes leading zeros, trailing fraction zeros or a bare dot; within 15
     // significant digits it writes the digits back unchanged, except for -0 and below 1e-6.
     if (!plainInteger || !plainFraction) this.printsBack = false;
-    else if (n > 15) this.printsBack = String(this.value) === text.slice(start, end);
+    else if (n > 15) this.printsBack = String(this.value) === utf8Text(bytes, start, end);
     else this.printsBack = this.value === 0 ? n === 1 : Math.abs(this.value) >= 1e-6;
   }
 
   /** Adds the digits from `from` on to `mantissa`; returns where they stop. */
-  private readDigits(text: string, from: number, end: number): number {
+  private readDigits(bytes: Uint8Array, from: number, end: number): number {
     let mantissa = this.mantissa;
     let i = from;
     while (i < end) {
-      const digit = text.charCodeAt(i) - ZERO;
+      const digit = bytes[i]! - ZERO;
       if (digit < 0 || digit > 9) break;
       mantissa = mantissa * 10 + digit;
       i++;
@@ -299,13 +371,13 @@ class NumberScanner {
     return i;
   }
 
-  private readExponentForm(text: string, start: number, at: number, end: number): void {
+  private readExponentForm(bytes: Uint8Array, start: number, at: number, end: number): void {
     let i = at;
-    if ((text.charCodeAt(i) | 0x20) !== 0x65) return this.notANumber(false); // e or E
-    const sign = text.charCodeAt(++i);
+    if ((bytes[i]! | 0x20) !== 0x65) return this.notANumber(false); // e or E
+    const sign = bytes[++i];
     if (sign === MINUS || sign === PLUS) i++;
-    if (i === end || this.readDigits(text, i, end) !== end) return this.notANumber(false);
-    const written = text.slice(start, end);
+    if (i === end || this.readDigits(bytes, i, end) !== end) return this.notANumber(false);
+    const written = utf8Text(bytes, start, end);
     const value = +written;
     if (!Number.isFinite(value)) return this.notANumber(false);
     this.value = value;
@@ -321,22 +393,11 @@ class NumberScanner {
 const scanner = new NumberScanner();
 
 /**
- * FNV-1a over the UTF-16 code units of text[start, end), cut to 30 bits: a full 32-bit value would
- * not stay a small integer in V8, and every hash passed around would be boxed.
+ * A copy of `text` that does not hold on to a larger string: V8 keeps substrings of 13+
+ * characters as views into their parent, so one kept cell could keep a whole chunk alive.
  */
-export function fieldHash(text: string, start: number, end: number): number {
-  let hash = 0x811c9dc5 | 0;
-  for (let i = start; i < end; i++) hash = Math.imul(hash ^ text.charCodeAt(i), 0x01000193);
-  return hash & 0x3fffffff;
-}
-
-/**
- * text[start, end) as a string that does not hold on to `text`. V8 keeps substrings of 13+
- * characters as views into their parent, so one kept cell could keep a whole megabyte chunk alive.
- */
-function detach(text: string, start: number, end: number): string {
-  const cell = text.slice(start, end);
-  return cell.length < 13 ? cell : (' ' + cell).slice(1);
+function detach(text: string): string {
+  return text.length < 13 ? text : (' ' + text).slice(1);
 }
 
 function grow<A extends Uint32Array | Float64Array | Int32Array>(array: A): A {
@@ -440,7 +501,7 @@ export class TableBuilder {
     if (fields.length < width) {
       this.report({ line, kind: 'too-few-fields', expected: width, found: fields.length });
     } else {
-      this.report({ line, kind: 'too-many-fields', expected: width, found: fields.length, extra: fields.slice(width).map((cell) => detach(cell, 0, cell.length)) });
+      this.report({ line, kind: 'too-many-fields', expected: width, found: fields.length, extra: fields.slice(width).map(detach) });
     }
   }
 

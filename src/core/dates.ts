@@ -66,8 +66,24 @@ function validTime(hour?: string, minute?: string, second?: string, meridiem?: s
 export function dateShape(text: string): DateShape | null {
   const t = text.trim().toLowerCase();
   // Cheap checks first: profiling calls this once per distinct value, identifiers included.
-  if (t.length < 6 || t.length > 48 || !/\d/.test(t)) return null;
+  if (t.length < 6 || t.length > 48 || digitRuns(t) < 2) return null;
   return isoShape(t) ?? numericShape(t) ?? namedMonthShape(t);
+}
+
+/**
+ * Runs of digits in `t`, counted up to 2: every date shape has at least two (a day and a year, or
+ * more), so text with fewer ("HH-0000001", "Flat 3") is no date, without running the patterns.
+ */
+function digitRuns(t: string): number {
+  let runs = 0;
+  let inRun = false;
+  for (let i = 0; i < t.length; i++) {
+    const c = t.charCodeAt(i);
+    const digit = c >= 0x30 && c <= 0x39;
+    if (digit && !inRun && ++runs === 2) return runs;
+    inRun = digit;
+  }
+  return runs;
 }
 
 /** True when `text` looks like a calendar date or a timestamp. */

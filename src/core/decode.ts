@@ -10,6 +10,7 @@
  * 'encoding-restart' and the caller reads the source again as Windows-1252 (`retryAsWindows1252`).
  */
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
+import { encodeUtf8 } from './utf8-text.ts';
 
 export type EncodingName = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252';
 
@@ -84,18 +85,92 @@ export class ChunkDecoder {
 
   private invalidBytesError(atEnd: boolean): LevelwiseError {
     const where = atEnd ? 'at the end of the file' : `after byte ${this.offset.toLocaleString('en-US')}`;
-    if (this.guessed && this.chosen === 'utf-8') {
-      return new LevelwiseError(
-        'encoding-restart',
-        `The file started as UTF-8 text but holds bytes that are not UTF-8 ${where}.`,
-        { hint: 'Read the file again as Windows-1252 (the readers in Levelwise do this by themselves).' },
-      );
-    }
-    return new LevelwiseError('bad-encoding', `The file is not valid ${this.chosen ?? 'text'}: bad bytes ${where}.`, {
-      hint: 'Open the file in a spreadsheet or text editor and save it again as UTF-8 CSV.',
-    });
+    return invalidBytes(this.guessed && this.chosen === 'utf-8', this.chosen, where);
   }
 }
+
+/** `restart`: the encoding was a guess of UTF-8, so the caller may read the source again as Windows-1252. */
+function invalidBytes(restart: boolean, encoding: EncodingName | null, where: string): LevelwiseError {
+  if (restart) {
+    return new LevelwiseError(
+      'encoding-restart',
+      `The file started as UTF-8 text but holds bytes that are not UTF-8 ${where}.`,
+      { hint: 'Read the file again as Windows-1252 (the readers in Levelwise do this by themselves).' },
+    );
+  }
+  return new LevelwiseError('bad-encoding', `The file is not valid ${encoding ?? 'text'}: bad bytes ${where}.`, {
+    hint: 'Open the file in a spreadsheet or text editor and save it again as UTF-8 CSV.',
+  });
+}
+
+/**
+ * Bytes → UTF-8 bytes, chunk by chunk, for the byte-level reader (parse.ts), which keeps the file
+ * as bytes and makes text only of values met for the first time. The encoding is chosen as
+ * ChunkDecoder chooses it. UTF-8 passes through untouched, less its byte order mark; UTF-16 and
+ * Windows-1252 are decoded and written again as UTF-8, so the reader meets one encoding only.
+ *
+ * Passing through means not checking: the reader checks the bytes of every value it decodes
+ * (utf8-text.ts) and, meeting bytes that are not UTF-8, asks `invalidUtf8Error` for the error
+ * to throw, a restart as Windows-1252 when UTF-8 was only a guess.
+ */
+export class Utf8Chunks {
+  private readonly forced: EncodingName | null;
+  private head: Uint8Array[] = [];
+  private headLength = 0;
+  private chosen: EncodingName | null = null;
+  private guessed = false;
+  /** For encodings other than UTF-8: their text, to be written again as UTF-8. */
+  private transcoder: ChunkDecoder | null = null;
+
+  constructor(forced: EncodingName | null = null) {
+    this.forced = forced;
+  }
+
+  /** The encoding of the source; null until enough bytes were seen to choose. */
+  get encoding(): EncodingName | null {
+    return this.chosen;
+  }
+
+  /**
+   * The next chunk as UTF-8: `chunk` itself (or a part of it) when the source is UTF-8, so valid
+   * only until the caller reuses its buffer. Empty while collecting bytes to choose the encoding.
+   */
+  next(chunk: Uint8Array): Uint8Array {
+    if (this.chosen !== null) return this.transcoder === null ? chunk : encodeUtf8(this.transcoder.decode(chunk));
+    // Copied because callers may reuse their read buffer while we hold on to it.
+    this.head.push(chunk.slice());
+    this.headLength += chunk.length;
+    return this.headLength < SNIFF_BYTES ? EMPTY : this.start(false);
+  }
+
+  /** What is left at the end of the source. */
+  finish(): Uint8Array {
+    const rest = this.chosen === null ? this.start(true) : EMPTY;
+    if (this.transcoder === null) return rest;
+    const tail = encodeUtf8(this.transcoder.finish());
+    return rest.length === 0 ? tail : concatBytes([rest, tail], rest.length + tail.length);
+  }
+
+  /** The error for bytes that are not UTF-8, found in the chunk that starts at byte `offset` (null: at the end). */
+  invalidUtf8Error(offset: number | null): LevelwiseError {
+    const where = offset === null ? 'at the end of the file' : `after byte ${offset.toLocaleString('en-US')}`;
+    return invalidBytes(this.guessed && this.chosen === 'utf-8', this.chosen, where);
+  }
+
+  private start(whole: boolean): Uint8Array {
+    const bytes = concatBytes(this.head, this.headLength);
+    this.head = [];
+    rejectBinary(bytes, this.forced);
+    const declared = this.forced ?? encodingFromByteOrderMark(bytes);
+    this.guessed = declared === null;
+    this.chosen = declared ?? (isValidUtf8(bytes, whole) ? 'utf-8' : 'windows-1252');
+    if (this.chosen === 'utf-8') return encodingFromByteOrderMark(bytes) === 'utf-8' ? bytes.subarray(3) : bytes;
+    this.transcoder = new ChunkDecoder(this.chosen);
+    return encodeUtf8(this.transcoder.decode(bytes));
+  }
+}
+
+const EMPTY = new Uint8Array(0);
 
 /**
  * Runs `read` on a fresh pass over the source; if the pass ends in 'encoding-restart', runs it

@@ -1,12 +1,12 @@
 /**
- * Delimited text → records, fed text chunk by chunk (the decoder's output), with the physical
- * line each record starts on. Our own scanner, shaped for big files:
+ * Delimited text → records, fed as UTF-8 bytes chunk by chunk (decode.ts `Utf8Chunks`), with the
+ * physical line each record starts on. Our own scanner, shaped for big files:
  *
- * - Records with no quoted field (nearly all of a typical export) are split with `indexOf`, which
- *   engines run natively, never looking at the characters one by one in JavaScript. Such records
- *   are handed on in blocks, as positions in the text (`RecordSink.plainRecords`), so no string is
- *   made per cell (the table keeps one string per distinct value, columns-builder.ts) and the
- *   table can take a block column by column, one column's dictionary at a time.
+ * - It reads bytes, not text. Records with no quoted field (nearly all of a typical export) are
+ *   handed on in blocks, as positions in the bytes plus a hash of each field computed while
+ *   scanning (`RecordSink.plainRecords`): the table looks each cell up in its column's
+ *   dictionary by hash and bytes (columns-builder.ts) and makes a string only of a value met for
+ *   the first time. Nothing is made per cell, and the bytes of repeated values are never decoded.
  * - A record with a field that starts with a quote goes through a slower path that reads quoted
  *   fields the way papaparse's parser does, down to its handling of malformed quoting: a quote
  *   closes a field only when blanks and then a delimiter, a line break or the end of the text
@@ -15,9 +15,11 @@
  *   test/core/parse.property.test.ts checks both paths against papaparse on random text.
  * - A quote inside an unquoted field is text (`12"`), as in papaparse.
  * - A record is handed on only once its line break is seen (or the text ends), so the records do
- *   not depend on where the chunks were cut.
+ *   not depend on where the chunks were cut, even inside a character.
  *
- * papaparse still chooses the delimiter (`chooseDelimiter`), on the first records only.
+ * papaparse still chooses the delimiter (`chooseDelimiter`), on the first records only. Delimiters,
+ * quotes and line breaks are ASCII, so they are single bytes in UTF-8 and never part of another
+ * character's bytes.
  *
  * Line breaks: a file with any LF outside quotes is read by LF, and a CR right before an LF that
  * ends a record is dropped with it (CRLF files, and files mixing CRLF and LF); a file of lone CRs
@@ -27,6 +29,7 @@
  */
 import Papa from 'papaparse';
 import type { HeaderIssue } from './columns.ts';
+import { encodeUtf8, utf8Text } from './utf8-text.ts';
 
 export type Delimiter = ',' | '\t' | ';' | '|';
 
@@ -44,7 +47,7 @@ export interface RecordSink {
   /** A line with nothing on it. Whether it is skipped or is an empty cell is the table's call. */
   emptyLine(line: number): void;
   /**
-   * Optional fast path: consecutive records without quoted fields, as positions in the text (see
+   * Optional fast path: consecutive records without quoted fields, as positions in the bytes (see
    * PlainRecords), so that no string need be made per cell. Without this method such records come
    * through `record` one by one like the others. Empty lines never come this way.
    */
@@ -52,15 +55,17 @@ export interface RecordSink {
 }
 
 /**
- * Consecutive records without quoted fields, all with `width` fields. Field f of record r is
- * `text.slice(bounds[r * (width + 1) + f], bounds[r * (width + 1) + f + 1] - 1)`, and the record
- * starts on line `lines[r]`. Valid only during the call: the arrays are reused.
+ * Consecutive records without quoted fields, all with `width` fields. Field f of record r is the
+ * UTF-8 bytes `bytes[bounds[i], bounds[i + 1] - 1)` with i = r * (width + 1) + f, its hash
+ * (`hashBytes`) is `hashes[i]`, and the record starts on line `lines[r]`. Valid only during the
+ * call: the arrays are reused.
  */
 export interface PlainRecords {
-  readonly text: string;
+  readonly bytes: Uint8Array;
   readonly count: number;
   readonly width: number;
   readonly bounds: Int32Array;
+  readonly hashes: Int32Array;
   readonly lines: Int32Array;
 }
 
@@ -69,32 +74,58 @@ export interface RecordParserOptions {
   readonly delimiter?: Delimiter | null;
 }
 
-/** Text collected before choosing the delimiter and line break, unless the text ends sooner. */
-const SNIFF_CHARS = 64 * 1024;
+/** Bytes collected before choosing the delimiter and line break, unless the text ends sooner. */
+const SNIFF_BYTES = 64 * 1024;
 
 const QUOTE = 0x22;
 const CR = 0x0d;
+const LF = 0x0a;
 
-/** The scanner stopped before a record that is not complete yet (more text may follow). */
+/** The scanner stopped before a record that is not complete yet (more bytes may follow). */
 const INCOMPLETE = -1;
 
 /** A block of plain records is handed on once its bounds fill this many entries (1 MB). */
 const BLOCK_BOUNDS = 1 << 18;
 
+const FNV_OFFSET = 0x811c9dc5 | 0;
+const FNV_PRIME = 0x01000193;
+/**
+ * Hashes are cut to 30 bits: a full 32-bit value would not stay a small integer in V8, and every
+ * hash passed around would be boxed.
+ */
+const HASH_MASK = 0x3fffffff;
+
+/** FNV-1a over bytes[start, end), the hash the scanner computes for each field of PlainRecords. */
+export function hashBytes(bytes: Uint8Array, start: number, end: number): number {
+  let hash = FNV_OFFSET;
+  for (let i = start; i < end; i++) hash = Math.imul(hash ^ bytes[i]!, FNV_PRIME);
+  return hash & HASH_MASK;
+}
+
+const EMPTY_BYTES = new Uint8Array(0);
+
 export class RecordParser {
   private readonly sink: RecordSink;
   private delimiterChoice: Delimiter | null;
+  private delimiterByte = 0x2c;
   private lineBreak: LineBreak = '\n';
   private started = false;
-  /** Text not yet parsed: an incomplete record, then newer text, in pieces. */
-  private pending: string[] = [];
+  /** Bytes not yet parsed, in work[0, pendingLength): an incomplete record, then newer bytes. */
+  private work = new Uint8Array(0);
   private pendingLength = 0;
-  /** Wait for this much pending text before parsing again (grows when one record spans chunks). */
-  private parseAt = SNIFF_CHARS;
-  /** Line on which the pending text starts. */
+  /** Wait for this many pending bytes before parsing again (grows when one record spans chunks). */
+  private parseAt = SNIFF_BYTES;
+  /** Line on which the pending bytes start. */
   private line = 1;
   /** Plain records collected for the sink (see PlainRecords); the arrays grow as needed. */
-  private readonly block = { text: '', count: 0, width: 0, bounds: new Int32Array(1 << 12), lines: new Int32Array(1 << 8) };
+  private readonly block = {
+    bytes: EMPTY_BYTES as Uint8Array,
+    count: 0,
+    width: 0,
+    bounds: new Int32Array(1 << 12),
+    hashes: new Int32Array(1 << 12),
+    lines: new Int32Array(1 << 8),
+  };
   /** Where scanPlainRecords met a record holding a quoted field; -1 when it did not. */
   private stoppedAt = -1;
 
@@ -108,40 +139,64 @@ export class RecordParser {
     return this.started ? this.delimiterChoice : null;
   }
 
-  push(text: string): void {
-    if (text === '') return;
-    this.pending.push(text);
-    this.pendingLength += text.length;
-    if (this.pendingLength < this.parseAt) return;
-    this.parse(false);
+  /** Bytes pushed but not parsed yet (the start of a record that did not end yet). */
+  get pendingBytes(): number {
+    return this.pendingLength;
+  }
+
+  /** The next UTF-8 bytes. They are read or copied before this returns: the caller may reuse its buffer. */
+  push(bytes: Uint8Array): void {
+    if (bytes.length === 0) return;
+    if (this.pendingLength === 0 && bytes.length >= this.parseAt) {
+      this.parse(bytes, false);
+      return;
+    }
+    this.append(bytes);
+    if (this.pendingLength >= this.parseAt) this.parse(this.work.subarray(0, this.pendingLength), false);
   }
 
   /** Parses what is left, including a last record without a line break. */
   finish(): void {
-    this.parse(true);
+    this.parse(this.work.subarray(0, this.pendingLength), true);
   }
 
-  private parse(final: boolean): void {
-    // One flat string: joining copies the pieces once, where `+` would leave a tree of pieces for
-    // the engine to flatten on the first search.
-    const input = this.pending.length === 1 ? (this.pending[0] ?? '') : this.pending.join('');
+  private append(bytes: Uint8Array): void {
+    const needed = this.pendingLength + bytes.length;
+    if (needed > this.work.length) {
+      const bigger = new Uint8Array(Math.max(needed, 2 * this.work.length));
+      bigger.set(this.work.subarray(0, this.pendingLength));
+      this.work = bigger;
+    }
+    this.work.set(bytes, this.pendingLength);
+    this.pendingLength = needed;
+  }
+
+  /** Reads the complete records of `input` and keeps the rest for later. */
+  private parse(input: Uint8Array, final: boolean): void {
     if (!this.started) this.start(input, final);
     const consumed = this.scan(input, final);
-    const rest = final ? '' : input.slice(consumed);
-    this.pending = rest === '' ? [] : [rest];
-    this.pendingLength = rest.length;
+    const rest = final ? 0 : input.length - consumed;
+    if (input.buffer === this.work.buffer) this.work.copyWithin(0, consumed, consumed + rest);
+    else {
+      this.pendingLength = 0;
+      this.append(input.subarray(consumed, consumed + rest));
+    }
+    this.pendingLength = rest;
     // A record longer than a chunk would otherwise be re-parsed from its start on every push.
-    this.parseAt = Math.max(SNIFF_CHARS, 2 * rest.length);
+    this.parseAt = Math.max(SNIFF_BYTES, 2 * rest);
   }
 
-  private start(sample: string, final: boolean): void {
+  private start(input: Uint8Array, final: boolean): void {
+    // Only for choosing: a character cut at the end of the sample does no harm here.
+    const sample = new TextDecoder().decode(input);
     this.lineBreak = chooseLineBreak(sample);
     this.delimiterChoice ??= chooseDelimiter(sample, this.lineBreak, final);
+    this.delimiterByte = this.delimiterChoice.charCodeAt(0);
     this.started = true;
   }
 
   /** Reads the complete records of `input`; returns where the unread rest starts. */
-  private scan(input: string, final: boolean): number {
+  private scan(input: Uint8Array, final: boolean): number {
     let at = 0;
     while (at < input.length) {
       const plainEnd = this.scanPlainRecords(input, at, final);
@@ -158,42 +213,65 @@ export class RecordParser {
 
   /**
    * Reads records without quoted fields from `at` on, for as long as they come, into the block of
-   * plain records. Returns where it stopped: the end of the text, the start of a record with a
-   * quoted field (then `stoppedAt` is that position too), or the start of a record the text does
+   * plain records. Returns where it stopped: the end of the input, the start of a record with a
+   * quoted field (then `stoppedAt` is that position too), or the start of a record the input does
    * not complete yet (when `final` is false; then, if that is `at` itself, INCOMPLETE). Hands the
    * block to the sink before returning and before anything that is not a plain record.
    */
-  private scanPlainRecords(input: string, at: number, final: boolean): number {
+  private scanPlainRecords(input: Uint8Array, at: number, final: boolean): number {
     const n = input.length;
     const block = this.block;
-    block.text = input;
+    block.bytes = input;
     let bounds = block.bounds;
-    const delimiter = this.delimiterChoice ?? ',';
-    const lineBreak = this.lineBreak;
-    const lfMode = lineBreak === '\n';
+    let hashes = block.hashes;
+    const delimiter = this.delimiterByte;
+    const lineBreak = this.lineBreak === '\n' ? LF : CR;
+    const lfMode = lineBreak === LF;
     // Where the next record's bounds go.
     let b = 0;
     let line = this.line;
     let start = at;
     this.stoppedAt = -1;
-    // The next delimiter and quote at or after the current position (-1: none in the text).
-    let nextDelimiter = input.indexOf(delimiter, start);
-    let nextQuote = input.indexOf('"', start);
     while (start < n) {
-      let end = input.indexOf(lineBreak, start);
-      let next: number;
-      if (end === -1) {
-        if (!final) break; // the record's line break is in a later chunk
-        end = n;
-        next = n;
-      } else {
-        next = end + 1;
+      let i = start;
+      let count = 0;
+      let fieldStart = start;
+      let quoted = false;
+      // The fields, hashed while they are scanned: one pass over the bytes.
+      for (;;) {
+        if (input[i] === QUOTE) {
+          quoted = true;
+          break;
+        }
+        let hash = FNV_OFFSET;
+        while (i < n) {
+          const byte = input[i]!;
+          if (byte === delimiter || byte === lineBreak) break;
+          hash = Math.imul(hash ^ byte, FNV_PRIME);
+          i++;
+        }
+        if (b + count + 2 >= bounds.length) {
+          bounds = block.bounds = growInt32(bounds);
+          hashes = block.hashes = growInt32(hashes);
+        }
+        bounds[b + count] = fieldStart;
+        hashes[b + count] = hash & HASH_MASK;
+        count++;
+        if (i === n || input[i] !== delimiter) break;
+        fieldStart = ++i;
       }
+      if (quoted) {
+        this.stoppedAt = start;
+        break;
+      }
+      if (i === n && !final) break; // the record's line break is in a later chunk
       // In LF mode a CR right before the LF belongs to the line break.
-      const fieldsEnd = lfMode && end < n && end > start && input.charCodeAt(end - 1) === CR ? end - 1 : end;
-      if (nextQuote !== -1 && nextQuote < start) nextQuote = input.indexOf('"', start);
-      // A quote in the record is text unless a field starts with it (then the slow path reads it).
-      const quotes = nextQuote !== -1 && nextQuote < end;
+      let fieldsEnd = i;
+      if (lfMode && i < n && i > fieldStart && input[i - 1] === CR) {
+        fieldsEnd = i - 1;
+        hashes[b + count - 1] = hashBytes(input, fieldStart, fieldsEnd);
+      }
+      const next = i < n ? i + 1 : n;
       if (fieldsEnd === start) {
         this.flushBlock();
         b = 0;
@@ -202,25 +280,12 @@ export class RecordParser {
         start = next;
         continue;
       }
-      let count = 0;
-      let fieldStart = start;
-      for (;;) {
-        if (quotes && input.charCodeAt(fieldStart) === QUOTE) {
-          this.stoppedAt = start;
-          break;
-        }
-        if (b + count + 2 >= bounds.length) bounds = block.bounds = growInt32(bounds);
-        bounds[b + count++] = fieldStart;
-        if (nextDelimiter !== -1 && nextDelimiter < fieldStart) nextDelimiter = input.indexOf(delimiter, fieldStart);
-        if (nextDelimiter === -1 || nextDelimiter >= fieldsEnd) break;
-        fieldStart = nextDelimiter + 1;
-      }
-      if (this.stoppedAt === start) break;
       bounds[b + count] = fieldsEnd + 1;
       if (block.count > 0 && count !== block.width) {
         // A record of another width starts a new block: hand over the others, keep this one.
         this.flushBlock();
         bounds.copyWithin(0, b, b + count + 1);
+        hashes.copyWithin(0, b, b + count + 1);
         b = 0;
       }
       block.width = count;
@@ -231,12 +296,12 @@ export class RecordParser {
         this.flushBlock();
         b = 0;
       }
-      if (next > end) line++;
+      if (next > i) line++;
       start = next;
     }
     this.line = line;
     this.flushBlock();
-    block.text = ''; // the block must not keep the chunk alive
+    block.bytes = EMPTY_BYTES; // the block must not keep the chunk alive
     return start === at && this.stoppedAt === -1 && start < n ? INCOMPLETE : start;
   }
 
@@ -251,24 +316,24 @@ export class RecordParser {
 
   /**
    * Reads the record at `start`, which has a quoted field; returns where the next record starts,
-   * or INCOMPLETE when the text does not complete it yet.
+   * or INCOMPLETE when the input does not complete it yet.
    */
-  private scanQuotedRecord(input: string, start: number, final: boolean): number {
-    const delimiter = this.delimiterChoice ?? ',';
-    const lineBreak = this.lineBreak;
+  private scanQuotedRecord(input: Uint8Array, start: number, final: boolean): number {
+    const delimiter = this.delimiterByte;
+    const lineBreak = this.lineBreak === '\n' ? LF : CR;
     const fields: string[] = [];
     let cursor = start;
     for (;;) {
-      const field = input.charCodeAt(cursor) === QUOTE && cursor < input.length
+      const field = input[cursor] === QUOTE
         ? readQuotedField(input, cursor, delimiter, lineBreak, final)
         : readUnquotedField(input, cursor, delimiter, lineBreak, final);
       if (field === null) return INCOMPLETE;
       fields.push(field.value);
       cursor = field.next;
       if (!field.endsRecord) continue;
-      if (field.endsWithBreak && !field.quoted && lineBreak === '\n') dropCarriageReturn(fields, input, field.next);
+      if (field.endsWithBreak && !field.quoted && lineBreak === LF) dropCarriageReturn(fields, input, field.next);
       const line = this.line;
-      this.line += countOccurrences(input, lineBreak, start, cursor);
+      this.line += countByte(input, lineBreak, start, cursor);
       this.sink.record(fields, line, field.unclosed);
       return cursor;
     }
@@ -280,12 +345,15 @@ export function plainFields(records: PlainRecords, r: number): string[] {
   const fields: string[] = [];
   const first = r * (records.width + 1);
   for (let f = 0; f < records.width; f++) {
-    fields.push(records.text.slice(records.bounds[first + f] ?? 0, (records.bounds[first + f + 1] ?? 0) - 1));
+    fields.push(utf8Text(records.bytes, records.bounds[first + f] ?? 0, (records.bounds[first + f + 1] ?? 0) - 1));
   }
   return fields;
 }
 
-/** Parses a whole text at once; returns the records with their lines. For tests and small inputs. */
+/**
+ * Parses a whole text at once; returns the records with their lines. For tests and small inputs;
+ * the text is read as its UTF-8 bytes.
+ */
 export function parseRecords(
   text: string,
   options: RecordParserOptions = {},
@@ -303,7 +371,7 @@ export function parseRecords(
     emptyLine: (line) => emptyLines.push(line),
   };
   const parser = new RecordParser(sink, options);
-  parser.push(text);
+  parser.push(encodeUtf8(text));
   parser.finish();
   return { records, lines, unclosedQuoteLines, emptyLines, delimiter: parser.delimiter ?? ',' };
 }
@@ -365,17 +433,17 @@ interface FieldRead {
 }
 
 /** An unquoted field ends at the next delimiter or line break; null when the text may go on. */
-function readUnquotedField(input: string, at: number, delimiter: string, lineBreak: string, final: boolean): FieldRead | null {
+function readUnquotedField(input: Uint8Array, at: number, delimiter: number, lineBreak: number, final: boolean): FieldRead | null {
   const nextDelimiter = input.indexOf(delimiter, at);
   const nextBreak = input.indexOf(lineBreak, at);
   if (nextDelimiter !== -1 && (nextBreak === -1 || nextDelimiter < nextBreak)) {
-    return { value: input.slice(at, nextDelimiter), next: nextDelimiter + 1, endsRecord: false, endsWithBreak: false, quoted: false, unclosed: false };
+    return { value: utf8Text(input, at, nextDelimiter), next: nextDelimiter + 1, endsRecord: false, endsWithBreak: false, quoted: false, unclosed: false };
   }
   if (nextBreak !== -1) {
-    return { value: input.slice(at, nextBreak), next: nextBreak + 1, endsRecord: true, endsWithBreak: true, quoted: false, unclosed: false };
+    return { value: utf8Text(input, at, nextBreak), next: nextBreak + 1, endsRecord: true, endsWithBreak: true, quoted: false, unclosed: false };
   }
   if (!final) return null;
-  return { value: input.slice(at), next: input.length, endsRecord: true, endsWithBreak: false, quoted: false, unclosed: false };
+  return { value: utf8Text(input, at, input.length), next: input.length, endsRecord: true, endsWithBreak: false, quoted: false, unclosed: false };
 }
 
 /**
@@ -385,21 +453,21 @@ function readUnquotedField(input: string, at: number, delimiter: string, lineBre
  * the search goes on. With no closing quote the field is the rest of the text, as written.
  * null when the text may go on.
  */
-function readQuotedField(input: string, open: number, delimiter: string, lineBreak: string, final: boolean): FieldRead | null {
+function readQuotedField(input: Uint8Array, open: number, delimiter: number, lineBreak: number, final: boolean): FieldRead | null {
   const n = input.length;
-  for (let quote = input.indexOf('"', open + 1); ; quote = input.indexOf('"', quote + 2)) {
+  for (let quote = input.indexOf(QUOTE, open + 1); ; quote = input.indexOf(QUOTE, quote + 2)) {
     if (quote === -1) {
       if (!final) return null;
-      return { value: input.slice(open + 1), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: true };
+      return { value: utf8Text(input, open + 1, n), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: true };
     }
     if (quote === n - 1) {
       if (!final) return null;
-      return { value: unescapeQuotes(input.slice(open + 1, quote)), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: false };
+      return { value: unescapedText(input, open + 1, quote), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: false };
     }
-    if (input.charCodeAt(quote + 1) === QUOTE) continue; // "" is an escaped quote: search on after the pair
+    if (input[quote + 1] === QUOTE) continue; // "" is an escaped quote: search on after the pair
     const after = firstOf(input, delimiter, lineBreak, quote + 1);
     if (after !== -1 && isBlank(input, quote + 1, after)) {
-      const value = unescapeQuotes(input.slice(open + 1, quote));
+      const value = unescapedText(input, open + 1, quote);
       const endsRecord = input[after] !== delimiter;
       return { value, next: after + 1, endsRecord, endsWithBreak: endsRecord, quoted: true, unclosed: false };
     }
@@ -408,17 +476,25 @@ function readQuotedField(input: string, open: number, delimiter: string, lineBre
 }
 
 /** The first delimiter or line break at or after `from`; -1 when there is none. */
-function firstOf(input: string, delimiter: string, lineBreak: string, from: number): number {
+function firstOf(input: Uint8Array, delimiter: number, lineBreak: number, from: number): number {
   const d = input.indexOf(delimiter, from);
   const b = input.indexOf(lineBreak, from);
   return d === -1 ? b : b === -1 ? d : Math.min(d, b);
 }
 
-function isBlank(input: string, start: number, end: number): boolean {
-  return start === end || input.slice(start, end).trim() === '';
+/** Whether bytes[start, end) is only what `trim` removes (ASCII blanks, or Unicode spaces written in UTF-8). */
+function isBlank(input: Uint8Array, start: number, end: number): boolean {
+  let ascii = true;
+  for (let i = start; i < end; i++) {
+    const byte = input[i]!;
+    if (byte >= 0x80) ascii = false;
+    else if (byte !== 0x20 && (byte < 0x09 || byte > 0x0d)) return false;
+  }
+  return ascii || utf8Text(input, start, end).trim() === '';
 }
 
-function unescapeQuotes(text: string): string {
+function unescapedText(input: Uint8Array, start: number, end: number): string {
+  const text = utf8Text(input, start, end);
   return text.includes('"') ? text.replace(/""/g, '"') : text;
 }
 
@@ -426,10 +502,10 @@ function unescapeQuotes(text: string): string {
  * In LF mode a CRLF ends the record; the CR belongs to the break, not to an unquoted last field.
  * A quoted last field keeps a CR written inside its quotes.
  */
-function dropCarriageReturn(fields: string[], input: string, next: number): void {
+function dropCarriageReturn(fields: string[], input: Uint8Array, next: number): void {
   const last = fields.length - 1;
   const field = fields[last];
-  if (field !== undefined && input.charCodeAt(next - 2) === CR && field.charCodeAt(field.length - 1) === CR) {
+  if (field !== undefined && input[next - 2] === CR && field.charCodeAt(field.length - 1) === CR) {
     fields[last] = field.slice(0, -1);
   }
 }
@@ -440,9 +516,9 @@ function growInt32(array: Int32Array<ArrayBuffer>): Int32Array<ArrayBuffer> {
   return bigger;
 }
 
-function countOccurrences(text: string, needle: string, start: number, end: number): number {
+function countByte(bytes: Uint8Array, byte: number, start: number, end: number): number {
   let count = 0;
-  for (let at = text.indexOf(needle, start); at !== -1 && at < end; at = text.indexOf(needle, at + 1)) count++;
+  for (let at = bytes.indexOf(byte, start); at !== -1 && at < end; at = bytes.indexOf(byte, at + 1)) count++;
   return count;
 }
 

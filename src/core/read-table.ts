@@ -1,6 +1,6 @@
 /**
- * Reading a delimited text file into a Table: bytes → text (decode.ts) → records (parse.ts) →
- * columns (columns-builder.ts). The first non-empty record is the header.
+ * Reading a delimited text file into a Table: bytes → UTF-8 bytes (decode.ts) → records (parse.ts)
+ * → columns (columns-builder.ts). The first non-empty record is the header.
  *
  * - `readTable`: a whole buffer at once.
  * - `createTableReader`: chunk by chunk, for files read in slices or streams; with `batchRows` it
@@ -10,8 +10,9 @@
  */
 import type { HeaderIssue, Table } from './columns.ts';
 import { TableBuilder } from './columns-builder.ts';
-import { ChunkDecoder, retryAsWindows1252, type EncodingName } from './decode.ts';
+import { retryAsWindows1252, Utf8Chunks, type EncodingName } from './decode.ts';
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
+import { InvalidUtf8Error } from './utf8-text.ts';
 import { plainFields, RecordParser, uniqueColumnNames, type Delimiter, type PlainRecords, type RecordSink } from './parse.ts';
 
 export type { Delimiter } from './parse.ts';
@@ -94,13 +95,13 @@ export function createTableReader(options: ReadOptions = {}): TableReader {
 }
 
 class StreamingTableReader implements TableReader {
-  private readonly decoder: ChunkDecoder;
+  private readonly source: Utf8Chunks;
   private readonly parser: RecordParser;
   private readonly rows: RowCollector;
   private bytes = 0;
 
   constructor(options: ReadOptions) {
-    this.decoder = new ChunkDecoder(options.encoding ?? null);
+    this.source = new Utf8Chunks(options.encoding ?? null);
     this.rows = new RowCollector(options);
     this.parser = new RecordParser(this.rows, options);
   }
@@ -110,24 +111,40 @@ class StreamingTableReader implements TableReader {
   }
 
   push(bytes: Uint8Array): void {
+    // Bad bytes may sit in the part of the previous chunks not parsed yet.
+    const offset = Math.max(0, this.bytes - this.parser.pendingBytes);
     this.bytes += bytes.length;
-    const text = this.decoder.decode(bytes);
-    if (text !== '') this.parser.push(text);
+    this.read(() => this.parser.push(this.source.next(bytes)), offset);
   }
 
   finish(): ReadResult {
     if (this.bytes === 0) throw emptyFileError('The file is empty (0 bytes).');
-    this.parser.push(this.decoder.finish());
-    this.parser.finish();
-    const table = this.rows.finish();
+    let table: Table | null = null;
+    this.read(() => {
+      this.parser.push(this.source.finish());
+      this.parser.finish();
+      // Building the columns decodes their values, checking the last of the bytes.
+      table = this.rows.finish();
+    }, null);
+    if (table === null) throw new Error('the table was not built');
     return {
       table,
-      encoding: this.decoder.encoding ?? 'utf-8',
+      encoding: this.source.encoding ?? 'utf-8',
       delimiter: this.parser.delimiter ?? ',',
       emptyLinesSkipped: this.rows.emptyLinesSkipped,
       bytes: this.bytes,
       totalRows: this.rows.totalRows,
     };
+  }
+
+  /** Runs a step of reading; bytes that are not UTF-8 become the error the source's encoding calls for. */
+  private read(step: () => void, offset: number | null): void {
+    try {
+      step();
+    } catch (error) {
+      if (error instanceof InvalidUtf8Error) throw this.source.invalidUtf8Error(offset);
+      throw error;
+    }
   }
 }
 

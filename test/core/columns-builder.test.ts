@@ -27,11 +27,21 @@ describe('dictionary storage', () => {
     expect((build([' a', 'a', 'a ']) as TextColumn).values).toEqual([' a', 'a', 'a ']);
   });
 
-  it('stays a dictionary past the cap when any distinct value is not a number', () => {
+  it('stays a dictionary past the cap when more than 1 in 8 distinct values are not numbers', () => {
+    // Cap 4: the choice is made at the 5th distinct value; 'n/a' is 1 of 5, more than 1 in 8.
     const cells = ['n/a', ...Array.from({ length: 20 }, (_, i) => String(i))];
     const column = build(cells, 4);
     expect(column.kind).toBe('text');
     expect(textsOf(column)).toEqual(cells);
+  });
+
+  it('moves to numbers past the cap when at most 1 in 8 distinct values is not a number, keeping those texts', () => {
+    // Cap 16: the choice is made at the 17th distinct value; 'NA' and '12 504' are 2 of 17.
+    const cells = ['NA', '12 504', ...Array.from({ length: 30 }, (_, i) => String(i * 10)), 'NA', 'later text'];
+    const column = build(cells, 16) as NumberColumn;
+    expect(column.kind).toBe('number');
+    expect(textsOf(column)).toEqual(cells);
+    expect([...column.exceptions.values()]).toEqual(['NA', '12 504', 'NA', 'later text']);
   });
 
   it('grows past its first capacity', () => {

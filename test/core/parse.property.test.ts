@@ -11,7 +11,8 @@
 import fc from 'fast-check';
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { parseRecords, RecordParser, type Delimiter, type RecordParserOptions, type RecordSink } from '../../src/core/parse.ts';
+import { parseRecords, plainFields, RecordParser, type Delimiter, type RecordParserOptions, type RecordSink } from '../../src/core/parse.ts';
+import { encodeUtf8 } from '../../src/core/utf8-text.ts';
 import { PapaparseRecordParser } from './helpers/papaparse-record-parser.ts';
 
 interface Parsed {
@@ -34,24 +35,43 @@ function collector(plain: boolean): { sink: RecordSink; parsed: Parsed } {
     emptyLine: (line) => parsed.empty.push(line),
   };
   if (plain) {
-    sink.plainRecords = ({ text, count, width, bounds, lines }) => {
-      for (let r = 0; r < count; r++) {
-        const fields: string[] = [];
-        for (let f = 0; f < width; f++) fields.push(text.slice(bounds[r * (width + 1) + f]!, bounds[r * (width + 1) + f + 1]! - 1));
-        parsed.records.push(fields);
-        parsed.lines.push(lines[r]!);
+    sink.plainRecords = (block) => {
+      for (let r = 0; r < block.count; r++) {
+        parsed.records.push(plainFields(block, r));
+        parsed.lines.push(block.lines[r]!);
       }
     };
   }
   return { sink, parsed };
 }
 
-type Reader = new (sink: RecordSink, options: RecordParserOptions) => { push(text: string): void; finish(): void; readonly delimiter: Delimiter | null };
+type Reader = typeof RecordParser | typeof PapaparseRecordParser;
 
+/**
+ * Feeds the pieces to a reader: as text to the papaparse-based one, as UTF-8 bytes to ours, cut at
+ * the bytes where the pieces meet (inside a character when a piece ends between the two halves of
+ * a surrogate pair).
+ */
 function readPieces(Parser: Reader, pieces: readonly string[], options: RecordParserOptions, plain = false): Parsed {
   const { sink, parsed } = collector(plain);
-  const parser = new Parser(sink, options);
-  for (const piece of pieces) parser.push(piece);
+  if (Parser === PapaparseRecordParser) {
+    const parser = new PapaparseRecordParser(sink, options);
+    for (const piece of pieces) parser.push(piece);
+    parser.finish();
+    parsed.delimiter = parser.delimiter;
+    return parsed;
+  }
+  const parser = new RecordParser(sink, options);
+  const bytes = encodeUtf8(pieces.join(''));
+  let from = 0;
+  let prefix = '';
+  for (const piece of pieces) {
+    prefix += piece;
+    const to = Math.min(bytes.length, encodeUtf8(prefix).length);
+    parser.push(bytes.subarray(from, to));
+    from = to;
+  }
+  parser.push(bytes.subarray(from));
   parser.finish();
   parsed.delimiter = parser.delimiter;
   return parsed;

@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cellText, type Table } from '../../src/core/columns.ts';
 import { RecordParser, chooseDelimiter, parseRecords, uniqueColumnNames } from '../../src/core/parse.ts';
+import { encodeUtf8 } from '../../src/core/utf8-text.ts';
 import { readTable } from '../../src/core/read-table.ts';
 
 const SPECTRUM = join(import.meta.dirname, '../../node_modules/csv-spectrum');
@@ -104,7 +105,7 @@ describe('RecordParser', () => {
       },
       emptyLine: () => undefined,
     });
-    for (const ch of text) parser.push(ch);
+    for (const ch of text) parser.push(encodeUtf8(ch));
     parser.finish();
     expect(whole.delimiter).toBe(';');
     expect(parser.delimiter).toBe(';');
@@ -118,7 +119,7 @@ describe('RecordParser', () => {
     let seen: readonly string[] = [];
     const collecting = new RecordParser({ record: (fields) => (seen = [...fields]), emptyLine: () => undefined });
     const text = `a,b\n1,"${long}\n${long}"\n`;
-    for (let at = 0; at < text.length; at += 10_000) collecting.push(text.slice(at, at + 10_000));
+    for (let at = 0; at < text.length; at += 10_000) collecting.push(encodeUtf8(text.slice(at, at + 10_000)));
     collecting.finish();
     expect(seen).toEqual(['1', `${long}\n${long}`]);
   });
