@@ -152,3 +152,46 @@ describe('TableBuilder', () => {
     ]);
   });
 });
+
+describe('the dictionary against a Map-based one, on random cells (common practice: a reference implementation)', () => {
+  const cellArb = fc.constantFrom('', 'a', 'b', 'ab', 'é', 'e\u0301', '😀', '\uD800', '\uFFFD', ' a', '1', '01', '1.0', 'NA', 'x'.repeat(20));
+
+  function reference(cells: readonly string[]) {
+    const codeOf = new Map<string, number>();
+    const counts: number[] = [];
+    const codes = cells.map((cell) => {
+      let code = codeOf.get(cell);
+      if (code === undefined) {
+        code = codeOf.size;
+        codeOf.set(cell, code);
+        counts.push(0);
+      }
+      counts[code]! += 1;
+      return code;
+    });
+    return { values: [...codeOf.keys()], counts, codes };
+  }
+
+  it('gives the same values in first-seen order, counts and codes', () => {
+    fc.assert(
+      fc.property(fc.array(cellArb, { maxLength: 200 }), (cells) => {
+        const column = build(cells) as TextColumn;
+        const expected = reference(cells);
+        expect(column.values).toEqual(expected.values);
+        expect(column.counts).toEqual(expected.counts);
+        expect(Array.from(column.codes.subarray(0, cells.length))).toEqual(expected.codes);
+      }),
+      { numRuns: 500 },
+    );
+  });
+
+  it('stays exact when sorted identifiers stop being sorted: the hash table is built from the stored values', () => {
+    const ids = Array.from({ length: 3000 }, (_, i) => `HH-${String(i).padStart(7, '0')}`);
+    const cells = [...ids, ids[5]!, 'HH-9', ids[2999]!, ids[0]!, 'HH-9'];
+    const column = build(cells) as TextColumn;
+    const expected = reference(cells);
+    expect(column.values).toEqual(expected.values);
+    expect(column.counts).toEqual(expected.counts);
+    expect(Array.from(column.codes.subarray(0, cells.length))).toEqual(expected.codes);
+  });
+});
