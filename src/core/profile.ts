@@ -7,6 +7,7 @@ import { looksLikeDate } from './dates.ts';
 import { missingTest, type MissingTest } from './missing.ts';
 import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
 import { DEFAULT_MISSING_TOKENS, type NumberFormat } from './recipe.ts';
+import { sortNumbers } from './sort-numbers.ts';
 
 export interface LevelCount {
   /** Raw cell text exactly as written (not trimmed). */
@@ -350,7 +351,7 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   // Plain numbers with a fraction do not read in a comma-decimal format: they become invalid cells.
   const plainInvalid = format.decimal === ',' ? plainFractions : 0;
   const plainValid = format.decimal === ',' ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
-  plainValid.sort();
+  sortNumbers(plainValid);
   const distinctPlain = countDistinctSorted(plainValid);
 
   const fromExceptions = readExceptionNumbers(exceptionTexts.nonMissing, read);
@@ -422,7 +423,7 @@ function readExceptionNumbers(
     for (let i = 0; i < count; i++) numbers.push(v);
     if (hasLeadingZero(value)) leadingZeros += count;
   }
-  return { sorted: Float64Array.from(numbers).sort(), invalidCount, leadingZeros };
+  return { sorted: sortNumbers(Float64Array.from(numbers)), invalidCount, leadingZeros };
 }
 
 function keepWholeNumbers(values: Float64Array): Float64Array {
