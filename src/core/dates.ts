@@ -64,9 +64,10 @@ function validTime(hour?: string, minute?: string, second?: string, meridiem?: s
 
 /** 'date', 'timestamp' (a date with a time of day), or null when `text` is neither. */
 export function dateShape(text: string): DateShape | null {
-  const t = text.trim().toLowerCase();
+  const trimmed = text.trim();
   // Cheap checks first: profiling calls this once per distinct value, identifiers included.
-  if (t.length < 6 || t.length > 48 || digitRuns(t) < 2) return null;
+  if (trimmed.length < 6 || trimmed.length > 48 || digitRuns(trimmed) < 2) return null;
+  const t = trimmed.toLowerCase();
   return isoShape(t) ?? numericShape(t) ?? namedMonthShape(t);
 }
 
