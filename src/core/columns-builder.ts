@@ -118,6 +118,15 @@ export class ColumnBuilder {
     }
   }
 
+  /** Makes room for `rows` rows in all, so that storage need not grow by doubling (and copying) up to there. */
+  reserve(rows: number): void {
+    if (this.numbers !== null) {
+      if (rows > this.numbers.length) this.numbers = resized(this.numbers, rows);
+    } else if (rows > this.codes.length) {
+      this.codes = resized(this.codes, rows);
+    }
+  }
+
   /** The column as built so far. The builder must not be used afterwards. */
   build(): Column {
     if (this.numbers !== null) {
@@ -400,6 +409,13 @@ function detach(text: string): string {
   return text.length < 13 ? text : (' ' + text).slice(1);
 }
 
+/** A copy of `array` with room for `length` entries. */
+function resized<A extends Uint32Array | Float64Array | Int32Array>(array: A, length: number): A {
+  const bigger = new (array.constructor as new (length: number) => A)(length);
+  bigger.set(array);
+  return bigger;
+}
+
 function grow<A extends Uint32Array | Float64Array | Int32Array>(array: A): A {
   const bigger = new (array.constructor as new (length: number) => A)(Math.max(16, array.length * 2));
   bigger.set(array);
@@ -441,6 +457,12 @@ export class TableBuilder {
 
   get rowCount(): number {
     return this.rows;
+  }
+
+  /** Makes room for `rows` rows in all, in every column (see ColumnBuilder.reserve). */
+  reserve(rows: number): void {
+    for (const column of this.columns) column.reserve(rows);
+    if (rows > this.lineOfRow.length) this.lineOfRow = resized(this.lineOfRow, rows);
   }
 
   /** Distinct values per column so far. */

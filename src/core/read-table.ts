@@ -29,6 +29,13 @@ export interface ReadOptions {
   readonly batchRows?: number;
   /** Receives each batch; `firstRowIndex` is the absolute index of its first row. */
   readonly onBatch?: (batch: Table, firstRowIndex: number) => void;
+  /**
+   * The source's size in bytes, when known (a File, a file on disk). The table's storage is then
+   * made once for the rows the size promises, instead of growing by doubling: growing copies
+   * every column and leaves the old arrays as garbage, which doubled the memory held while a
+   * big file was read.
+   */
+  readonly totalBytes?: number;
 }
 
 export interface ReadResult {
@@ -57,6 +64,10 @@ export interface TableReader {
 
 /** Slices handed to the reader by `readTable`, so no single string holds the whole file. */
 const SLICE_BYTES = 1 << 20;
+/** Rows read before the rows of the whole source are estimated from its size. */
+const ESTIMATE_AFTER_ROWS = 1000;
+/** Room made for this much more than the estimate (rows vary in length). */
+const ROW_ESTIMATE_MARGIN = 1.05;
 
 export function readTable(bytes: Uint8Array, options: ReadOptions = {}): ReadResult {
   try {
@@ -68,7 +79,7 @@ export function readTable(bytes: Uint8Array, options: ReadOptions = {}): ReadRes
 }
 
 function readSlices(bytes: Uint8Array, options: ReadOptions): ReadResult {
-  const reader = createTableReader(options);
+  const reader = createTableReader({ totalBytes: bytes.length, ...options });
   for (let at = 0; at < bytes.length; at += SLICE_BYTES) reader.push(bytes.subarray(at, at + SLICE_BYTES));
   return reader.finish();
 }
@@ -98,9 +109,12 @@ class StreamingTableReader implements TableReader {
   private readonly source: Utf8Chunks;
   private readonly parser: RecordParser;
   private readonly rows: RowCollector;
+  private readonly totalBytes: number | null;
+  private reserved = false;
   private bytes = 0;
 
   constructor(options: ReadOptions) {
+    this.totalBytes = options.totalBytes ?? null;
     this.source = new Utf8Chunks(options.encoding ?? null);
     this.rows = new RowCollector(options);
     this.parser = new RecordParser(this.rows, options);
@@ -115,6 +129,20 @@ class StreamingTableReader implements TableReader {
     const offset = Math.max(0, this.bytes - this.parser.pendingBytes);
     this.bytes += bytes.length;
     this.read(() => this.parser.push(this.source.next(bytes)), offset);
+    if (!this.reserved) this.reserveRows();
+  }
+
+  /**
+   * Once the first rows are read, makes room for the rows the whole source should hold: its size
+   * over the bytes per row so far, with a margin. A wrong guess costs little: too low, storage
+   * grows as before; too high, by the margin's share of unused room.
+   */
+  private reserveRows(): void {
+    const rows = this.rows.totalRows;
+    if (this.totalBytes === null || rows < ESTIMATE_AFTER_ROWS) return;
+    this.reserved = true;
+    const bytesPerRow = (this.bytes - this.parser.pendingBytes) / rows;
+    this.rows.reserve(Math.ceil((this.totalBytes / bytesPerRow) * ROW_ESTIMATE_MARGIN));
   }
 
   finish(): ReadResult {
@@ -205,6 +233,11 @@ class RowCollector implements RecordSink {
       r = to;
       if (builder.rowCount >= this.batchRows) this.handOver();
     }
+  }
+
+  /** Room for `rows` rows in all, when the rows are kept in one table (not in batch mode). */
+  reserve(rows: number): void {
+    if (this.batchRows === Infinity) this.builder?.reserve(rows);
   }
 
   emptyLine(line: number): void {

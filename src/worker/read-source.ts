@@ -57,7 +57,7 @@ async function isSpreadsheet(file: File): Promise<boolean> {
 }
 
 function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptions): Promise<ReadResult> {
-  return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null });
+  return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
 }
 
 /**
