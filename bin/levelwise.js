@@ -1,10 +1,129 @@
 #!/usr/bin/env node
-// Launcher for the `levelwise` command line. The command line is written in TypeScript
-// (src/cli/main.ts) and runs through tsx's loader, so a fresh clone needs no build step.
-import { fileURLToPath } from 'node:url';
-import { register } from 'tsx/esm/api';
+// Launcher for the `levelwise` command line, which is written in TypeScript (src/cli/main.ts).
+//
+// A fresh clone needs no build step. Compiling the sources on every run (tsx's loader) took most of
+// a second before the command did anything, so the first run bundles src/cli/main.ts and the
+// project files it imports into one file under node_modules/.cache/levelwise-cli/ (esbuild, which
+// tsx brings along; packages stay outside the bundle and load as usual), and later runs load that.
+// Stale code never runs: before using the bundle, every run compares a hash of each source file it
+// was made from — the very bytes esbuild compiled — and of the tsconfig and this launcher with the
+// ones recorded when it was made; any difference makes a new bundle. When no bundle can be made
+// (esbuild missing, a read-only install) or LEVELWISE_NO_BUNDLE=1, the sources run through tsx.
+import { createHash } from 'node:crypto';
+import { mkdirSync, readdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { extname, join, relative } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
-const tsconfig = fileURLToPath(new URL('../tsconfig.json', import.meta.url));
-register({ tsconfig });
-const { main } = await import(new URL('../src/cli/main.ts', import.meta.url).href);
+const ROOT = fileURLToPath(new URL('..', import.meta.url));
+const ENTRY = 'src/cli/main.ts';
+const TSCONFIG = 'tsconfig.json';
+const CACHE = join(ROOT, 'node_modules', '.cache', 'levelwise-cli');
+const MANIFEST = join(CACHE, 'manifest.json');
+/** Source files esbuild may meet, and how it reads each. */
+const LOADERS = { '.ts': 'ts', '.tsx': 'tsx', '.mts': 'ts', '.cts': 'ts', '.js': 'js', '.mjs': 'js', '.cjs': 'js', '.json': 'json' };
+
+const { main } = await loadCommandLine();
 process.exitCode = await main(process.argv.slice(2));
+
+async function loadCommandLine() {
+  if (process.env.LEVELWISE_NO_BUNDLE !== '1') {
+    const bundle = freshBundle() ?? (await makeBundle().catch(() => null));
+    if (bundle !== null) {
+      if (process.env.LEVELWISE_DEBUG === '1') process.setSourceMapsEnabled(true);
+      try {
+        return await import(pathToFileURL(bundle).href);
+      } catch (error) {
+        // Another run may have just replaced it; the sources are still there.
+        if (error?.code !== 'ERR_MODULE_NOT_FOUND') throw error;
+      }
+    }
+  }
+  const { register } = await import('tsx/esm/api');
+  register({ tsconfig: join(ROOT, TSCONFIG) });
+  return import(pathToFileURL(join(ROOT, ENTRY)).href);
+}
+
+function hash(bytes) {
+  return createHash('sha256').update(bytes).digest('hex');
+}
+
+/** What the bundle depends on besides the sources: how it is made (this file) and the tsconfig. */
+function buildKey() {
+  return hash(Buffer.concat([readFileSync(fileURLToPath(import.meta.url)), Buffer.from('\0'), readFileSync(join(ROOT, TSCONFIG))]));
+}
+
+/** The bundle, when it was made from exactly the files on disk now; else null. */
+function freshBundle() {
+  let manifest;
+  try {
+    manifest = JSON.parse(readFileSync(MANIFEST, 'utf8'));
+    if (manifest.key !== buildKey()) return null;
+    for (const [file, sourceHash] of Object.entries(manifest.sources)) {
+      if (hash(readFileSync(join(ROOT, file))) !== sourceHash) return null;
+    }
+  } catch {
+    return null;
+  }
+  return join(CACHE, manifest.bundle);
+}
+
+/** Bundles the sources, recording the hash of every file as esbuild read it; returns the bundle's path. */
+async function makeBundle() {
+  const key = buildKey();
+  const esbuild = await import('esbuild');
+  const sources = {};
+  const hashSources = {
+    name: 'hash-sources',
+    setup(build) {
+      build.onLoad({ filter: /.*/ }, ({ path }) => {
+        const loader = LOADERS[extname(path)];
+        if (loader === undefined) return undefined;
+        const contents = readFileSync(path);
+        sources[relative(ROOT, path).split('\\').join('/')] = hash(contents);
+        return { contents, loader };
+      });
+    },
+  };
+  let result;
+  try {
+    result = await esbuild.build({
+      absWorkingDir: ROOT,
+      entryPoints: [ENTRY],
+      bundle: true,
+      platform: 'node',
+      format: 'esm',
+      target: 'node20',
+      packages: 'external',
+      tsconfig: TSCONFIG,
+      sourcemap: 'linked',
+      metafile: true,
+      write: false,
+      outfile: join(CACHE, 'cli.mjs'),
+      logLevel: 'silent',
+      plugins: [hashSources],
+    });
+  } finally {
+    await esbuild.stop?.();
+  }
+  // Every input must have been read (and hashed) by the plugin, or the bundle could go stale unseen.
+  if (Object.keys(result.metafile.inputs).some((input) => !(input in sources))) return null;
+  const name = `cli-${hash(JSON.stringify([key, sources])).slice(0, 16)}.mjs`;
+  mkdirSync(CACHE, { recursive: true });
+  for (const file of result.outputFiles) {
+    const target = join(CACHE, file.path.endsWith('.map') ? `${name}.map` : name);
+    const text = file.path.endsWith('.map') ? file.text : file.text.replace(/sourceMappingURL=cli\.mjs\.map/, `sourceMappingURL=${name}.map`);
+    writeAtomically(target, text);
+  }
+  writeAtomically(MANIFEST, JSON.stringify({ key, bundle: name, sources }, null, 1));
+  for (const old of readdirSync(CACHE)) {
+    if (old.startsWith('cli-') && !old.startsWith(name)) rmSync(join(CACHE, old), { force: true });
+  }
+  return join(CACHE, name);
+}
+
+/** Several runs may make the same bundle at once: each writes its own file and renames it into place. */
+function writeAtomically(path, text) {
+  const temporary = `${path}.${process.pid}.tmp`;
+  writeFileSync(temporary, text);
+  renameSync(temporary, path);
+}

@@ -35,6 +35,13 @@ export interface CpuProfile {
  */
 export type LocateLine = (url: string, lineNumber: number, columnNumber: number) => number | null;
 
+/**
+ * The source file (URL) and 1-based line of a generated position in a bundle, when its source map
+ * knows them: the command line runs as one bundled file (bin/levelwise.js), whose functions belong
+ * to many source files.
+ */
+export type LocateSource = (url: string, lineNumber: number, columnNumber: number) => { readonly url: string; readonly line: number } | null;
+
 export interface SelfTime {
   /** "name (file:line)", or V8's own entries such as "(garbage collector)". */
   readonly label: string;
@@ -84,30 +91,32 @@ export function shortPlace(url: string, root: string): string {
   return path.startsWith(prefix) ? path.slice(prefix.length) : path;
 }
 
-function functionLabel(node: CpuProfileNode, root: string, locate: LocateLine): string {
+function functionLabel(node: CpuProfileNode, root: string, locate: LocateLine, locateSource?: LocateSource): string {
   const { functionName, url, lineNumber, columnNumber } = node.callFrame;
   const name = functionName === '' ? '(anonymous)' : functionName;
   if (url === '') return name;
+  const source = locateSource?.(url, lineNumber, columnNumber) ?? null;
+  if (source !== null) return `${name} (${shortPlace(source.url, root)}:${source.line})`;
   const line = locate(url, lineNumber, columnNumber) ?? lineNumber + 1;
   return `${name} (${shortPlace(url, root)}:${line})`;
 }
 
 const generatedLine: LocateLine = (_url, lineNumber) => lineNumber + 1;
 
-function fileLabel(node: CpuProfileNode, root: string): string {
-  const { functionName, url } = node.callFrame;
+function fileLabel(node: CpuProfileNode, root: string, locateSource?: LocateSource): string {
+  const { functionName, url, lineNumber, columnNumber } = node.callFrame;
   if (url === '') return functionName.startsWith('(') ? functionName : '(V8 and Node built-ins)';
-  return shortPlace(url, root);
+  return shortPlace(locateSource?.(url, lineNumber, columnNumber)?.url ?? url, root);
 }
 
 /** Self time per function, most first. */
-export function selfTimeByFunction(profile: CpuProfile, root: string, locate: LocateLine = generatedLine): SelfTime[] {
-  return selfTimes(profile, (node) => functionLabel(node, root, locate));
+export function selfTimeByFunction(profile: CpuProfile, root: string, locate: LocateLine = generatedLine, locateSource?: LocateSource): SelfTime[] {
+  return selfTimes(profile, (node) => functionLabel(node, root, locate, locateSource));
 }
 
 /** Self time per source file (built-ins without a script grouped together), most first. */
-export function selfTimeByFile(profile: CpuProfile, root: string): SelfTime[] {
-  return selfTimes(profile, (node) => fileLabel(node, root));
+export function selfTimeByFile(profile: CpuProfile, root: string, locateSource?: LocateSource): SelfTime[] {
+  return selfTimes(profile, (node) => fileLabel(node, root, locateSource));
 }
 
 /** Wall time the profile covers, and the part of it not idle, in milliseconds. */

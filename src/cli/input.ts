@@ -7,7 +7,6 @@
 import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
 import { basename } from 'node:path';
-import readXlsxFile from 'read-excel-file/node';
 import type { Table } from '../core/columns.ts';
 import { decodeBytes, type EncodingName } from '../core/decode.ts';
 import { isLevelwiseError } from '../core/errors.ts';
@@ -247,6 +246,8 @@ async function readWorkbook(
   const parts: Uint8Array[] = [];
   for await (const chunk of chunks) parts.push(chunk);
   const bytes = Buffer.concat(parts);
+  // Loaded only for a workbook: most runs read text, and loading it costs every run ~80 ms.
+  const { default: readXlsxFile } = await import('read-excel-file/node');
   let sheets: Awaited<ReturnType<typeof readXlsxFile>>;
   try {
     sheets = await readXlsxFile(bytes, { trim: false });

@@ -71,8 +71,19 @@ export function createApplyReport(plan: Plan): ApplyReportBuilder {
   const invalid = new Map<string, Map<string, Tally>>();
   const rejected: RejectedRow[] = [];
   const rejectedRows = new Set<number>();
+  /**
+   * The current batch's rejected rows. A batch is encoded column by column, so they arrive in
+   * column order; they join the list in row order once the batch is done.
+   */
+  let batchRejected: RejectedRow[] = [];
   let rows = 0;
   let rowsRejected = 0;
+
+  const listBatchRejected = (): void => {
+    batchRejected.sort((a, b) => a.row - b.row);
+    for (const row of batchRejected) if (rejected.length < MAX_REJECTED_LISTED) rejected.push(row);
+    batchRejected = [];
+  };
 
   const tally = (byColumn: Map<string, Map<string, Tally>>, column: string, value: string, line: number): void => {
     let values = byColumn.get(column);
@@ -91,20 +102,22 @@ export function createApplyReport(plan: Plan): ApplyReportBuilder {
       if ('invalid' in outcome && outcome.invalid) tally(invalid, name, text, line);
       if (outcome.reject !== null && !rejectedRows.has(row)) {
         rejectedRows.add(row);
-        if (rejected.length < MAX_REJECTED_LISTED) rejected.push({ row, line, column: name, reason: outcome.reject });
+        if (rejected.length < MAX_REJECTED_LISTED) batchRejected.push({ row, line, column: name, reason: outcome.reject });
       }
     },
     misshapen({ row, line, column, reason }) {
       if (rejectedRows.has(row)) return;
       rejectedRows.add(row);
-      if (rejected.length < MAX_REJECTED_LISTED) rejected.push({ row, line, column, reason });
+      if (rejected.length < MAX_REJECTED_LISTED) batchRejected.push({ row, line, column, reason });
     },
     rowsDone(count, rejectedCount) {
       rows += count;
       rowsRejected += rejectedCount;
       rejectedRows.clear();
+      listBatchRejected();
     },
     finish() {
+      listBatchRejected();
       const columns = plan.columns
         .filter((c) => c.kind === 'categorical' || c.kind === 'continuous')
         .map((c): ColumnReport => ({

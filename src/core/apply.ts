@@ -11,7 +11,7 @@
  * The page (whole table, or a visible window of it) and the command line (streamed batches) call
  * the same functions, so they produce the same bytes.
  */
-import { cellText, type Column, type Table } from './columns.ts';
+import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import type { ApplyReportBuilder } from './apply-report.ts';
 import { misshapenRows } from './row-shape.ts';
 import { ALL_ZEROS, type CategoricalPlan, type ContinuousPlan, type LevelResolution, type Plan } from './plan.ts';
@@ -97,18 +97,49 @@ function encodeLevels(
   };
   if (source?.kind === 'text') {
     // Resolve each distinct value once; the row loop is then a lookup by code.
-    const outcomes = source.values.map((text) => plan.resolve(text));
-    const ordinary = outcomes.map((o) => !o.missing && !o.unseen && o.reject === null);
+    const levelOfCode = resolveCodes(new Int32Array(source.values.length), source, start, rows, (text) => ordinaryLevel(plan.resolve(text)));
     for (let r = 0; r < rows; r++) {
-      const code = source.codes[start + r] ?? 0;
-      const outcome = outcomes[code]!;
-      if (ordinary[code]) level[r] = outcome.level;
-      else note(r, source.values[code] ?? '', outcome);
+      const code = source.codes[start + r]!;
+      const known = levelOfCode[code]!;
+      if (known !== UNUSUAL) level[r] = known;
+      else {
+        const text = source.values[code] ?? '';
+        note(r, text, plan.resolve(text));
+      }
     }
   } else {
     forEachCell(source, start, rows, (r, text) => note(r, text, plan.resolve(text)));
   }
   return { kind: 'levels', level, missing };
+}
+
+/** A code whose cells are not plain: missing, unseen, not a number, or rejected. Such cells go the slow way, one by one, for the report. */
+const UNUSUAL = -2;
+
+/** The level of an ordinary outcome, or UNUSUAL. */
+function ordinaryLevel(outcome: LevelResolution): number {
+  return !outcome.missing && !outcome.unseen && outcome.reject === null ? outcome.level : UNUSUAL;
+}
+
+/**
+ * Fills `byCode` with what each code of a dictionary-stored column becomes, worked out once per
+ * code: every code when the rows use most of the dictionary; when they are a small part of a big
+ * one (a window of a whole table), only the codes they use.
+ */
+function resolveCodes<T extends Int32Array | Float64Array>(byCode: T, source: TextColumn, start: number, rows: number, resolve: (text: string) => number): T {
+  const { values, codes } = source;
+  if (values.length <= 2 * rows) {
+    for (let code = 0; code < values.length; code++) byCode[code] = resolve(values[code]!);
+    return byCode;
+  }
+  const done = new Uint8Array(values.length);
+  for (let r = 0; r < rows; r++) {
+    const code = codes[start + r]!;
+    if (done[code] === 1) continue;
+    done[code] = 1;
+    byCode[code] = resolve(values[code]!);
+  }
+  return byCode;
 }
 
 function encodeNumbers(
@@ -117,21 +148,30 @@ function encodeNumbers(
   const values = new Float64Array(rows);
   const missing = new Uint8Array(rows);
   const { center, scale } = plan.transform;
+  // A plain number is read directly (no cache to consult); only unusual texts are resolved in full.
+  const { isMissing, readNumber } = plan;
+  const scaled = (text: string): number => {
+    const value = isMissing(text) ? NaN : readNumber(text);
+    return Number.isNaN(value) ? NaN : (value - center) / scale;
+  };
   // Number storage holds texts read with a decimal point; a column written with a decimal comma
   // ("1.234" meaning 1234) must be read from its text in the column's own format instead.
   if (source?.kind === 'number' && plan.column.format.decimal === '.') {
-    // Plain numbers need no text at all; only the exceptions are resolved as text.
+    // Plain numbers need no text at all; only the exceptions are read as text.
+    const flagged = exceptionRows(source, start, rows);
     for (let r = 0; r < rows; r++) {
-      const v = source.values[start + r] ?? NaN;
-      if (!Number.isNaN(v) && !source.exceptions.has(start + r)) values[r] = (v - center) / scale;
-      else numberCell(plan, cellText(source, start + r), r, start, values, missing, rejected, table, report);
+      const text = flagged === null || flagged[r] === 1 ? source.exceptions.get(start + r) : undefined;
+      const v = text === undefined ? (source.values[start + r] ?? NaN) : NaN;
+      const value = text === undefined ? (v - center) / scale : scaled(text);
+      if (!Number.isNaN(value)) values[r] = value;
+      else numberCell(plan, text ?? '', r, start, values, missing, rejected, table, report);
     }
   } else if (source?.kind === 'text') {
-    const outcomes = source.values.map((text) => plan.resolve(text));
+    const valueOfCode = resolveCodes(new Float64Array(source.values.length), source, start, rows, scaled);
     for (let r = 0; r < rows; r++) {
-      const code = source.codes[start + r] ?? 0;
-      const outcome = outcomes[code]!;
-      if (!outcome.missing && !outcome.invalid) values[r] = (outcome.value - center) / scale;
+      const code = source.codes[start + r]!;
+      const value = valueOfCode[code]!;
+      if (!Number.isNaN(value)) values[r] = value;
       else numberCell(plan, source.values[code] ?? '', r, start, values, missing, rejected, table, report);
     }
     return { kind: 'numbers', values, missing, codes: source.codes.subarray(start, start + rows) };
@@ -139,6 +179,18 @@ function encodeNumbers(
     for (let r = 0; r < rows; r++) numberCell(plan, source === null ? '' : cellText(source, start + r), r, start, values, missing, rejected, table, report);
   }
   return { kind: 'numbers', values, missing };
+}
+
+/**
+ * Which rows of [start, start + rows) hold an exception (a text kept beside the number), found by
+ * going through the exceptions once; null when they are too many for that (a window of a whole
+ * table), and each row is looked up instead.
+ */
+function exceptionRows(source: NumberColumn, start: number, rows: number): Uint8Array | null {
+  if (source.exceptions.size > 4 * rows) return null;
+  const flagged = new Uint8Array(rows);
+  for (const row of source.exceptions.keys()) if (row >= start && row < start + rows) flagged[row - start] = 1;
+  return flagged;
 }
 
 function numberCell(

@@ -4,26 +4,33 @@
  * JavaScript engine allows, so it is written into large reusable byte buffers and handed to a
  * sink in parts.
  *
- * Per level, not per cell: each level's codes are turned into bytes once per plan ("0,1,0", with
- * the missing indicator), and a number column read from a dictionary is formatted once per
- * distinct number, remembered across batches (formatting a double is the costliest step of
- * writing). Text cells are checked for quoting and formula neutralising while they are copied.
+ * Every cell is a *piece*: bytes made once, then copied into place for each row that needs them.
+ * A piece carries its separators (the comma before it, the line end after the last column), so a
+ * row is its pieces one after the other.
+ *   - a level's codes ("0,1,0", with the missing indicator): made once per plan;
+ *   - a number (with its indicator): made once per distinct number and remembered across batches
+ *     (formatting a double is the costliest step of writing); a number column read from a
+ *     dictionary looks its number up once per code of the batch, not once per cell;
+ *   - a text cell (an identifier): made once per code of the batch, quoted and neutralised as
+ *     textCell does; plain texts (most identifiers) are copied while they are checked.
+ * All pieces live in one byte array. A batch is first turned into a piece number per row and
+ * column, column by column; the row loop then only copies bytes, the same way for every column.
  */
 import { cellText, type Column } from './columns.ts';
 import { numberCell, textCell } from './csv-cell.ts';
 import type { EncodedBatch, EncodedColumn } from './apply.ts';
-import { ALL_ZEROS, type CategoricalPlan, type ColumnPlan, type Plan } from './plan.ts';
+import { ALL_ZEROS, type CategoricalPlan, type Plan } from './plan.ts';
 
 export const LINE_END = '\r\n';
 const DEFAULT_BUFFER_BYTES = 1 << 22;
-const COMMA = 44;
 const CR = 13;
 const LF = 10;
+const COMMA = 44;
 const QUOTE = 34;
-/** Patterns up to this long are copied byte by byte; longer ones with `set` (measured faster). */
-const SHORT_COPY = 8;
-/** Formatted numbers remembered per column across batches, at most. */
-const NUMBER_CACHE_LIMIT = 1 << 17;
+/** Distinct numbers remembered across batches, all columns together, at most (checked between batches). */
+const NUMBER_CACHE_LIMIT = 1 << 18;
+/** The row loop copies four bytes at a time, so it may run up to three bytes past a piece's end. */
+const COPY_SLACK = 3;
 
 export interface CsvWriter {
   writeHeader(): void;
@@ -33,30 +40,6 @@ export interface CsvWriter {
   readonly bytesWritten: number;
 }
 
-/** Bytes of each level's codes, by `2 × level + missing` (missing: the indicator, when the column has one). */
-interface LevelPatterns {
-  readonly byLevel: readonly Uint8Array[];
-  /** The all-zero row (ALL_ZEROS), by missing. */
-  readonly zeros: readonly Uint8Array[];
-}
-
-/** What the row loop needs of one column for one batch. */
-type BatchColumn =
-  | { readonly kind: 'levels'; readonly level: Int32Array; readonly missing: Uint8Array; readonly indicator: boolean; readonly patterns: LevelPatterns }
-  | {
-      readonly kind: 'coded-numbers';
-      readonly codes: Uint32Array;
-      readonly values: Float64Array;
-      readonly missing: Uint8Array;
-      readonly indicator: boolean;
-      /** The cell's text (number and indicator) per code, made on first use. */
-      readonly byCode: (string | undefined)[];
-      /** The same across batches, by number, for cells that are not missing. */
-      readonly byNumber: Map<number, string>;
-    }
-  | { readonly kind: 'numbers'; readonly values: Float64Array; readonly missing: Uint8Array; readonly indicator: boolean }
-  | { readonly kind: 'text'; readonly source: Column | null };
-
 /**
  * `sink` receives filled parts; it must copy or consume them before returning, because the buffer
  * is reused (the CLI writes them, the page copies them into Blob parts).
@@ -65,23 +48,250 @@ export function createCsvWriter(plan: Plan, sink: (bytes: Uint8Array) => void, b
   return new BufferedCsvWriter(plan, sink, bufferBytes);
 }
 
+/** What comes before and after a column's cells: a comma unless it is the first, a line end after the last. */
+interface Separators {
+  readonly before: string;
+  readonly after: string;
+}
+
+/** How far the pieces went: `Pieces.truncate` goes back to it. */
+interface PiecesMark {
+  readonly count: number;
+  readonly used: number;
+}
+
+/**
+ * Byte strings stored end to end in one growing array: piece p is bytes[bounds[2p] .. bounds[2p + 1]).
+ * COPY_SLACK spare bytes always follow the last piece.
+ */
+class Pieces {
+  bytes = new Uint8Array(1 << 16);
+  bounds = new Int32Array(1 << 12);
+  count = 0;
+  private used = 0;
+
+  mark(): PiecesMark {
+    return { count: this.count, used: this.used };
+  }
+
+  truncate(mark: PiecesMark): void {
+    this.count = mark.count;
+    this.used = mark.used;
+  }
+
+  length(piece: number): number {
+    return this.bounds[2 * piece + 1]! - this.bounds[2 * piece]!;
+  }
+
+  /** Adds a text known to be ASCII (numbers, plain identifiers, level codes). */
+  addAscii(text: string): number {
+    const n = text.length;
+    const at = this.reserve(n);
+    const bytes = this.bytes;
+    for (let k = 0; k < n; k++) bytes[at + k] = text.charCodeAt(k);
+    return this.close(at, n);
+  }
+
+  /** Adds any text as UTF-8. */
+  addText(text: string, encoder: TextEncoder): number {
+    const at = this.reserve(3 * text.length);
+    return this.close(at, encoder.encodeInto(text, this.bytes.subarray(at)).written);
+  }
+
+  /**
+   * Adds `texts` as consecutive pieces with their separators, checking while copying that each is
+   * plain (ASCII, no quote, comma, CR or LF, no formula start: textCell would leave it as it is).
+   * Returns the first piece; or −1, having added nothing, when one is not plain.
+   */
+  addPlainRun(texts: readonly string[], { before, after }: Separators): number {
+    const mark = this.mark();
+    let length = 0;
+    for (const text of texts) length += text.length;
+    this.reserve(length + texts.length * (before.length + after.length));
+    this.reservePieces(texts.length);
+    const { bytes, bounds } = this;
+    const comma = before.length > 0;
+    const lineEnd = after.length > 0;
+    let at = this.used;
+    let p = this.count;
+    for (const text of texts) {
+      bounds[2 * p] = at;
+      if (comma) bytes[at++] = COMMA;
+      if (startsLikeFormula(text)) return this.undo(mark);
+      for (let k = 0; k < text.length; k++) {
+        const c = text.charCodeAt(k);
+        if (c >= 0x80 || c === QUOTE || c === COMMA || c === CR || c === LF) return this.undo(mark);
+        bytes[at++] = c;
+      }
+      if (lineEnd) {
+        bytes[at++] = CR;
+        bytes[at++] = LF;
+      }
+      bounds[2 * p++ + 1] = at;
+    }
+    const first = this.count;
+    this.count = p;
+    this.used = at;
+    return first;
+  }
+
+  private undo(mark: PiecesMark): -1 {
+    this.truncate(mark);
+    return -1;
+  }
+
+  private reserve(n: number): number {
+    const needed = this.used + n + COPY_SLACK;
+    if (needed > this.bytes.length) {
+      const grown = new Uint8Array(Math.max(2 * this.bytes.length, needed));
+      grown.set(this.bytes.subarray(0, this.used));
+      this.bytes = grown;
+    }
+    return this.used;
+  }
+
+  private reservePieces(n: number): void {
+    if (2 * (this.count + n) > this.bounds.length) {
+      const grown = new Int32Array(Math.max(2 * this.bounds.length, 2 * (this.count + n)));
+      grown.set(this.bounds.subarray(0, 2 * this.count));
+      this.bounds = grown;
+    }
+  }
+
+  private close(at: number, n: number): number {
+    this.reservePieces(1);
+    const p = this.count++;
+    this.bounds[2 * p] = at;
+    this.bounds[2 * p + 1] = at + n;
+    this.used = at + n;
+    return p;
+  }
+}
+
+/** Remembers the piece of each distinct number (with its missing flag) of one column, across batches. */
+class NumberPieces {
+  /** Length of the longest piece made. */
+  longest = 0;
+  /** Open addressing by the number's bits: [low word, high word, missing, piece + 1] per slot. */
+  private slots = new Int32Array(4 << 10);
+  private size = 0;
+  private readonly bits = new Float64Array(1);
+  private readonly words = new Int32Array(this.bits.buffer);
+  private readonly pieces: Pieces;
+  private readonly indicator: boolean;
+  private readonly separators: Separators;
+
+  constructor(pieces: Pieces, indicator: boolean, separators: Separators) {
+    this.pieces = pieces;
+    this.indicator = indicator;
+    this.separators = separators;
+  }
+
+  get distinct(): number {
+    return this.size;
+  }
+
+  forget(): void {
+    this.slots = new Int32Array(4 << 10);
+    this.size = 0;
+    this.longest = 0;
+  }
+
+  pieceOf(value: number, missing: number): number {
+    this.bits[0] = value;
+    const low = this.words[0]!;
+    const high = this.words[1]!;
+    const slots = this.slots;
+    const mask = (slots.length >> 2) - 1;
+    for (let i = slotOf(low, high, missing) & mask; ; i = (i + 1) & mask) {
+      const at = 4 * i;
+      const piece = slots[at + 3]!;
+      if (piece === 0) return this.add(value, missing, at, low, high);
+      if (slots[at] === low && slots[at + 1] === high && slots[at + 2] === missing) return piece - 1;
+    }
+  }
+
+  private add(value: number, missing: number, at: number, low: number, high: number): number {
+    const number = numberCell(value);
+    const cell = this.indicator ? (missing ? `${number},1` : `${number},0`) : number;
+    const text = this.separators.before + cell + this.separators.after;
+    const piece = this.pieces.addAscii(text);
+    if (text.length > this.longest) this.longest = text.length;
+    const slots = this.slots;
+    slots[at] = low;
+    slots[at + 1] = high;
+    slots[at + 2] = missing;
+    slots[at + 3] = piece + 1;
+    if (2 * ++this.size > slots.length >> 2) this.rehash();
+    return piece;
+  }
+
+  private rehash(): void {
+    const old = this.slots;
+    const slots = new Int32Array(2 * old.length);
+    const mask = (slots.length >> 2) - 1;
+    for (let from = 0; from < old.length; from += 4) {
+      if (old[from + 3] === 0) continue;
+      let i = slotOf(old[from]!, old[from + 1]!, old[from + 2]!) & mask;
+      while (slots[4 * i + 3] !== 0) i = (i + 1) & mask;
+      slots.set(old.subarray(from, from + 4), 4 * i);
+    }
+    this.slots = slots;
+  }
+}
+
+/** A well-spread hash of a number's two 32-bit words and its missing flag. */
+function slotOf(low: number, high: number, missing: number): number {
+  let h = Math.imul(low ^ missing, 0x85ebca6b) ^ high;
+  h = Math.imul(h ^ (h >>> 16), 0x7feb352d);
+  h = Math.imul(h ^ (h >>> 15), 0x846ca68b);
+  return h ^ (h >>> 16);
+}
+
+/** How one written column turns its part of a batch into pieces. */
+type ColumnWriter =
+  | { readonly kind: 'levels'; readonly first: number; readonly longest: number; readonly indicator: boolean }
+  | { readonly kind: 'numbers'; readonly numbers: NumberPieces }
+  | { readonly kind: 'text'; readonly separators: Separators };
+
 class BufferedCsvWriter implements CsvWriter {
   private readonly plan: Plan;
   private readonly sink: (bytes: Uint8Array) => void;
   private readonly encoder = new TextEncoder();
   private readonly buffer: Uint8Array;
-  /** Bytes of `buffer` in use; also where text cells end (see `text`). */
+  private readonly view: DataView;
+  /** Bytes of `buffer` in use. */
   private used = 0;
   private total = 0;
-  private readonly patterns: readonly (LevelPatterns | null)[];
-  private readonly numberCaches: readonly Map<number, string>[];
+  /** The plan's columns that write cells (not excluded, not zero-width), in order, and how. */
+  private readonly written: readonly number[];
+  private readonly writers: readonly ColumnWriter[];
+  /**
+   * Every piece: first the levels' (for good), then the numbers' (across batches, until there are
+   * too many), then the current batch's text cells.
+   */
+  private readonly pieces = new Pieces();
+  private readonly levelsEnd: PiecesMark;
+  private numbersEnd: PiecesMark;
+  /** The piece of each row and written column of a batch, row by row; reused by the next batch. */
+  private pieceOf = new Int32Array(0);
 
   constructor(plan: Plan, sink: (bytes: Uint8Array) => void, bufferBytes: number) {
     this.plan = plan;
     this.sink = sink;
     this.buffer = new Uint8Array(Math.max(bufferBytes, 64));
-    this.patterns = plan.columns.map((c) => (c.kind === 'categorical' ? levelPatterns(c, this.encoder) : null));
-    this.numberCaches = plan.columns.map(() => new Map<number, string>());
+    this.view = new DataView(this.buffer.buffer, this.buffer.byteOffset, this.buffer.byteLength);
+    this.written = plan.columns.flatMap((c, i) => (c.width > 0 && c.kind !== 'excluded' ? [i] : []));
+    const last = this.written.length - 1;
+    this.writers = this.written.map((c, w): ColumnWriter => {
+      const column = plan.columns[c]!;
+      const separators = { before: w === 0 ? '' : ',', after: w === last ? LINE_END : '' };
+      if (column.kind === 'categorical') return levelPieces(column, separators, this.pieces);
+      if (column.kind === 'continuous') return { kind: 'numbers', numbers: new NumberPieces(this.pieces, column.indicator, separators) };
+      return { kind: 'text', separators };
+    });
+    this.levelsEnd = this.pieces.mark();
+    this.numbersEnd = this.levelsEnd;
   }
 
   get bytesWritten(): number {
@@ -89,66 +299,90 @@ class BufferedCsvWriter implements CsvWriter {
   }
 
   writeHeader(): void {
-    this.plan.outputs.forEach((name, i) => {
-      if (i > 0) this.text(',');
-      this.text(textCell(name));
-    });
-    this.text(LINE_END);
+    this.bytes(this.encoder.encode(this.plan.outputs.map(textCell).join(',') + LINE_END));
   }
 
   writeBatch(batch: EncodedBatch): void {
     const rows = batch.end - batch.start;
-    const columns: BatchColumn[] = [];
-    this.plan.columns.forEach((columnPlan, c) => {
-      const column = this.batchColumn(columnPlan, batch.columns[c], c);
-      if (column !== null) columns.push(column);
-    });
-    const out = this.buffer;
-    // Room kept free for the separators and line end around a cell.
-    const limit = out.length - 8;
+    const n = this.written.length;
+    if (n === 0) return this.writeEmptyRows(batch.rejected, rows);
+    this.dropBatchPieces();
+    if (this.pieceOf.length < rows * n) this.pieceOf = new Int32Array(rows * n);
+    const pieceOf = this.pieceOf;
+    let longestRow = COPY_SLACK;
+    // Numbers before texts: numbers' pieces are kept for later batches, texts' only for this one.
+    const prepare = (texts: boolean): void => {
+      this.writers.forEach((writer, w) => {
+        if ((writer.kind === 'text') === texts) longestRow += this.prepare(w, batch.columns[this.written[w]!], batch.start, rows, pieceOf);
+      });
+    };
+    prepare(false);
+    this.numbersEnd = this.pieces.mark();
+    prepare(true);
+    if (longestRow > this.buffer.length) this.writeRowsPieceByPiece(pieceOf, n, batch.rejected, rows);
+    else this.writeRows(pieceOf, n, batch.rejected, rows, this.buffer.length - longestRow);
+  }
+
+  finish(): void {
+    this.flush();
+  }
+
+  /** Forgets the last batch's text pieces, and every number when the columns have met too many. */
+  private dropBatchPieces(): void {
+    const numbers = this.writers.flatMap((w) => (w.kind === 'numbers' ? [w.numbers] : []));
+    if (numbers.reduce((sum, n) => sum + n.distinct, 0) > NUMBER_CACHE_LIMIT) {
+      for (const n of numbers) n.forget();
+      this.numbersEnd = this.levelsEnd;
+    }
+    this.pieces.truncate(this.numbersEnd);
+  }
+
+  /**
+   * The row loop: a row is its pieces one after the other, copied four bytes at a time (the bytes
+   * copied past a piece's end are overwritten by the next piece, or lie past the end of the output).
+   */
+  private writeRows(pieceOf: Int32Array, n: number, rejected: Uint8Array, rows: number, limit: number): void {
+    const out = this.view;
+    const { bytes, bounds } = this.pieces;
+    const from = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     let pos = this.used;
-    for (let r = 0; r < rows; r++) {
-      if (batch.rejected[r]) continue;
-      for (let c = 0; c < columns.length; c++) {
-        if (c > 0) out[pos++] = COMMA;
-        const column = columns[c]!;
-        if (column.kind === 'levels') {
-          const level = column.level[r] ?? ALL_ZEROS;
-          const missing = column.indicator ? (column.missing[r] ?? 0) : 0;
-          const part = level === ALL_ZEROS ? column.patterns.zeros[missing]! : column.patterns.byLevel[2 * level + missing]!;
-          const n = part.length;
-          if (pos + n > limit) {
-            this.used = pos;
-            this.flush();
-            pos = 0;
-            if (n > limit) {
-              this.sink(part);
-              this.total += n;
-              continue;
-            }
-          }
-          if (n <= SHORT_COPY) for (let k = 0; k < n; k++) out[pos + k] = part[k]!;
-          else out.set(part, pos);
-          pos += n;
-        } else {
-          this.used = pos;
-          this.cell(column, r, batch.start + r);
-          pos = this.used;
-        }
+    for (let r = 0, i = 0; r < rows; r++) {
+      if (rejected[r] === 1) {
+        i += n;
+        continue;
       }
       if (pos > limit) {
         this.used = pos;
         this.flush();
         pos = 0;
       }
-      out[pos++] = CR;
-      out[pos++] = LF;
+      for (const end = i + n; i < end; i++) {
+        const piece = 2 * pieceOf[i]!;
+        const start = bounds[piece]!;
+        const length = bounds[piece + 1]! - start;
+        for (let k = 0; k < length; k += 4) out.setInt32(pos + k, from.getInt32(start + k, true), true);
+        pos += length;
+      }
     }
     this.used = pos;
   }
 
-  finish(): void {
-    this.flush();
+  /** The same for rows that may not fit the buffer (a text cell of megabytes): pieces too long go to the sink on their own. */
+  private writeRowsPieceByPiece(pieceOf: Int32Array, n: number, rejected: Uint8Array, rows: number): void {
+    const { bytes, bounds } = this.pieces;
+    for (let r = 0; r < rows; r++) {
+      if (rejected[r] === 1) continue;
+      for (let i = r * n; i < (r + 1) * n; i++) {
+        const piece = 2 * pieceOf[i]!;
+        this.bytes(bytes.subarray(bounds[piece]!, bounds[piece + 1]!));
+      }
+    }
+  }
+
+  /** A plan whose columns are all excluded writes an empty line per row. */
+  private writeEmptyRows(rejected: Uint8Array, rows: number): void {
+    const line = this.encoder.encode(LINE_END);
+    for (let r = 0; r < rows; r++) if (rejected[r] !== 1) this.bytes(line);
   }
 
   private flush(): void {
@@ -158,127 +392,148 @@ class BufferedCsvWriter implements CsvWriter {
     this.used = 0;
   }
 
-  /** A cell that is not a level pattern, written as text at `used`. */
-  private cell(column: BatchColumn, r: number, row: number): void {
-    switch (column.kind) {
-      case 'coded-numbers': {
-        const code = column.codes[r] ?? 0;
-        this.text(column.byCode[code] ?? (column.byCode[code] = codedNumber(column, r)));
-        return;
-      }
-      case 'numbers':
-        this.text(numberCell(column.values[r] ?? NaN));
-        if (column.indicator) this.text(column.missing[r] ? ',1' : ',0');
-        return;
-      case 'text': {
-        const source = column.source;
-        if (source !== null) this.safeText(source.kind === 'text' ? (source.values[source.codes[row] ?? 0] ?? '') : cellText(source, row));
-        return;
-      }
-      case 'levels':
-        return; // written by the row loop
+  private bytes(part: Uint8Array): void {
+    if (this.used + part.length > this.buffer.length) this.flush();
+    if (part.length > this.buffer.length) {
+      this.sink(part);
+      this.total += part.length;
+      return;
     }
+    this.buffer.set(part, this.used);
+    this.used += part.length;
   }
 
   /**
-   * A text cell as textCell makes it. Most cells need neither quotes nor an apostrophe: they are
-   * copied as they are checked, and only the others go through textCell.
+   * Fills column `w` of `pieceOf` (row-major, one piece per row and written column) for this batch;
+   * returns the length of the column's longest piece.
    */
-  private safeText(value: string): void {
-    const first = value.charCodeAt(0);
-    const formulaStart = first === 0x3d || first === 0x2b || first === 0x2d || first === 0x40 || first === 9 || first === CR || first === LF;
-    if (formulaStart || !this.plainText(value)) this.text(textCell(value));
-  }
-
-  /** Copies `value` when it holds no quote, comma, CR or LF and is ASCII; false (nothing written) otherwise. */
-  private plainText(value: string): boolean {
-    const n = value.length;
-    if (this.used + n > this.buffer.length - 8) this.flush();
-    if (n > this.buffer.length - 8) return false;
-    const out = this.buffer;
-    const at = this.used;
-    for (let k = 0; k < n; k++) {
-      const c = value.charCodeAt(k);
-      if (c >= 0x80 || c === QUOTE || c === COMMA || c === CR || c === LF) return false;
-      out[at + k] = c;
+  private prepare(w: number, encoded: EncodedColumn | undefined, start: number, rows: number, pieceOf: Int32Array): number {
+    const writer = this.writers[w]!;
+    const n = this.written.length;
+    if (writer.kind === 'levels' && encoded?.kind === 'levels') {
+      levelPieceOfRow(encoded.level, writer.indicator ? encoded.missing : null, writer.first, rows, pieceOf, w, n);
+      return writer.longest;
     }
-    this.used = at + n;
-    return true;
-  }
-
-  /** Any text as UTF-8: ASCII byte by byte, the rest through the encoder. */
-  private text(value: string): void {
-    const n = value.length;
-    if (this.used + 3 * n > this.buffer.length - 8) this.flush();
-    if (3 * n > this.buffer.length - 8) {
-      const bytes = this.encoder.encode(value);
-      this.sink(bytes);
-      this.total += bytes.length;
-      return;
+    if (writer.kind === 'numbers' && encoded?.kind === 'numbers') {
+      const { values, missing, codes } = encoded;
+      if (codes === undefined) numberPieceOfRow(values, missing, writer.numbers, rows, pieceOf, w, n);
+      else codedNumberPieceOfRow(codes, values, missing, writer.numbers, rows, pieceOf, w, n);
+      return writer.numbers.longest;
     }
-    const out = this.buffer;
-    const at = this.used;
-    let k = 0;
-    for (; k < n; k++) {
-      const c = value.charCodeAt(k);
-      if (c >= 0x80) break;
-      out[at + k] = c;
+    if (writer.kind === 'text' && encoded?.kind === 'text') {
+      return textPieceOfRow(encoded.source, start, rows, pieceOf, w, n, this.pieces, writer.separators, this.encoder);
     }
-    this.used = at + k;
-    if (k < n) this.used += this.encoder.encodeInto(value.slice(k), out.subarray(this.used)).written;
-  }
-
-  private batchColumn(plan: ColumnPlan, encoded: EncodedColumn | undefined, index: number): BatchColumn | null {
-    if (plan.width === 0 || encoded === undefined) return null;
-    const indicator = (plan.kind === 'categorical' || plan.kind === 'continuous') && plan.indicator;
-    switch (encoded.kind) {
-      case 'levels': {
-        const patterns = this.patterns[index] ?? null;
-        return patterns === null ? null : { kind: 'levels', level: encoded.level, missing: encoded.missing, indicator, patterns };
-      }
-      case 'numbers': {
-        const { values, missing, codes } = encoded;
-        if (codes === undefined) return { kind: 'numbers', values, missing, indicator };
-        const byCode = new Array<string | undefined>(maxOf(codes) + 1).fill(undefined);
-        return { kind: 'coded-numbers', codes, values, missing, indicator, byCode, byNumber: this.numberCaches[index]! };
-      }
-      case 'text':
-        return { kind: 'text', source: encoded.source };
-      case 'none':
-        return null;
-    }
+    const column = this.plan.columns[this.written[w]!];
+    throw new Error(`column ${column?.recipe.name ?? w} of the batch (${encoded?.kind ?? 'absent'}) does not match the plan (${column?.kind ?? 'absent'})`);
   }
 }
 
-/** The text of a coded number cell; numbers not missing are remembered across batches. */
-function codedNumber(column: Extract<BatchColumn, { kind: 'coded-numbers' }>, r: number): string {
-  const value = column.values[r] ?? NaN;
-  const missing = column.missing[r] === 1;
-  if (missing) return column.indicator ? `${numberCell(value)},1` : numberCell(value);
-  let cell = column.byNumber.get(value);
-  if (cell === undefined) {
-    cell = column.indicator ? `${numberCell(value)},0` : numberCell(value);
-    if (column.byNumber.size < NUMBER_CACHE_LIMIT) column.byNumber.set(value, cell);
-  }
-  return cell;
+/** Level pieces are laid out from `first` by 2 × (level + 1) + missing, the all-zero row (ALL_ZEROS = −1) first. */
+function levelPieceOfRow(level: Int32Array, missing: Uint8Array | null, first: number, rows: number, pieceOf: Int32Array, w: number, n: number): void {
+  const base = first + 2;
+  if (missing === null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = base + 2 * level[r]!;
+  else for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = base + 2 * level[r]! + missing[r]!;
 }
 
-function maxOf(codes: Uint32Array): number {
-  let max = -1;
-  for (let i = 0; i < codes.length; i++) if (codes[i]! > max) max = codes[i]!;
+function numberPieceOfRow(values: Float64Array, missing: Uint8Array, numbers: NumberPieces, rows: number, pieceOf: Int32Array, w: number, n: number): void {
+  for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = numbers.pieceOf(values[r]!, missing[r]!);
+}
+
+/** Rows of one code hold the same number and missing flag, so each code is looked up once. */
+function codedNumberPieceOfRow(
+  codes: Uint32Array, values: Float64Array, missing: Uint8Array, numbers: NumberPieces, rows: number, pieceOf: Int32Array, w: number, n: number,
+): void {
+  const pieceOfCode = new Int32Array(maxOf(codes, rows) + 1);
+  for (let r = 0, i = w; r < rows; r++, i += n) {
+    const code = codes[r]!;
+    let piece = pieceOfCode[code]! - 1;
+    if (piece < 0) {
+      piece = numbers.pieceOf(values[r]!, missing[r]!);
+      pieceOfCode[code] = piece + 1;
+    }
+    pieceOf[i] = piece;
+  }
+}
+
+function maxOf(codes: Uint32Array, rows: number): number {
+  let max = 0;
+  for (let r = 0; r < rows; r++) if (codes[r]! > max) max = codes[r]!;
   return max;
 }
 
-/** The bytes of each level's codes ("0,1,0") and of the all-zero row, each with the indicator's 0 and 1. */
-function levelPatterns(plan: CategoricalPlan, encoder: TextEncoder): LevelPatterns {
+/** OWASP "CSV Injection" starts (see csv-cell.ts): =, +, -, @, tab, CR, LF. */
+function startsLikeFormula(text: string): boolean {
+  const first = text.charCodeAt(0);
+  return first === 0x3d || first === 0x2b || first === 0x2d || first === 0x40 || first === 9 || first === CR || first === LF;
+}
+
+/**
+ * Text cells: one piece per distinct text of the batch (per code of a dictionary, per row otherwise),
+ * each as textCell makes it. Returns the length of the longest.
+ */
+function textPieceOfRow(
+  source: Column | null, start: number, rows: number, pieceOf: Int32Array, w: number, n: number, pieces: Pieces, separators: Separators, encoder: TextEncoder,
+): number {
+  let texts: readonly string[];
+  if (source === null) {
+    texts = [''];
+    for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = 0;
+  } else if (source.kind === 'text' && source.values.length <= 2 * rows) {
+    // The rows use most of the dictionary: a piece for every code.
+    texts = source.values;
+    for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = source.codes[start + r]!;
+  } else if (source.kind === 'text') {
+    // A few rows of a big dictionary (a window of a whole table): pieces for the codes they use.
+    const used: string[] = [];
+    const textOfCode = new Int32Array(source.values.length);
+    for (let r = 0, i = w; r < rows; r++, i += n) {
+      const code = source.codes[start + r]!;
+      let text = textOfCode[code]! - 1;
+      if (text < 0) {
+        text = used.length;
+        used.push(source.values[code]!);
+        textOfCode[code] = text + 1;
+      }
+      pieceOf[i] = text;
+    }
+    texts = used;
+  } else {
+    const cells: string[] = [];
+    for (let r = 0, i = w; r < rows; r++, i += n) {
+      pieceOf[i] = r;
+      cells.push(cellText(source, start + r));
+    }
+    texts = cells;
+  }
+  const first = addTextPieces(texts, pieces, separators, encoder);
+  for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = pieceOf[i]! + first;
+  let longest = 0;
+  for (let p = first; p < first + texts.length; p++) longest = Math.max(longest, pieces.length(p));
+  return longest;
+}
+
+/** Adds `texts` as consecutive pieces, each as textCell makes it; returns the first. */
+function addTextPieces(texts: readonly string[], pieces: Pieces, separators: Separators, encoder: TextEncoder): number {
+  const plain = pieces.addPlainRun(texts, separators);
+  if (plain !== -1) return plain;
+  const first = pieces.count;
+  for (const text of texts) pieces.addText(separators.before + textCell(text) + separators.after, encoder);
+  return first;
+}
+
+/** The pieces of each level's codes ("0,1,0"), by 2 × (level + 1) + missing; the all-zero row first. */
+function levelPieces(plan: CategoricalPlan, separators: Separators, pieces: Pieces): ColumnWriter {
   const { width, matrix, levels } = plan.codes;
-  const pattern = (level: number, missing: number): Uint8Array => {
+  const pattern = (level: number, missing: number): string => {
     const cells: string[] = [];
     for (let j = 0; j < width; j++) cells.push(level === ALL_ZEROS ? '0' : numberCell(matrix[level * width + j] ?? 0));
     if (plan.indicator) cells.push(String(missing));
-    return encoder.encode(cells.join(','));
+    return separators.before + cells.join(',') + separators.after;
   };
-  const byLevel: Uint8Array[] = [];
-  levels.forEach((_, i) => byLevel.push(pattern(i, 0), pattern(i, 1)));
-  return { byLevel, zeros: [pattern(ALL_ZEROS, 0), pattern(ALL_ZEROS, 1)] };
+  const first = pieces.count;
+  let longest = 0;
+  for (let level = ALL_ZEROS; level < levels.length; level++) {
+    for (const missing of [0, 1]) longest = Math.max(longest, pieces.length(pieces.addAscii(pattern(level, missing))));
+  }
+  return { kind: 'levels', first, longest, indicator: plan.indicator };
 }

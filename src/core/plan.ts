@@ -7,7 +7,7 @@ import { cleaner } from './cleaning.ts';
 import { codesForColumn, transformForColumn, type LevelCodes, type LinearTransform } from './encoders/index.ts';
 import { missingTest, type MissingTest } from './missing.ts';
 import { MISSING_LEVEL } from './fit.ts';
-import { parseNumber } from './numbers.ts';
+import { numberReader } from './numbers.ts';
 import type { CategoricalColumn, ColumnRecipe, ContinuousColumn, Recipe } from './recipe.ts';
 
 /** What one distinct cell text of a categorical column becomes. */
@@ -57,6 +57,10 @@ export interface ContinuousPlan extends PlanBase {
   readonly transform: LinearTransform;
   readonly indicator: boolean;
   readonly resolve: (raw: string) => NumberResolution;
+  /** The number a text holds in the column's format, or NaN; not cached (for texts met once per batch). */
+  readonly readNumber: (raw: string) => number;
+  /** The recipe's missing-value test (the same as Plan.isMissing). */
+  readonly isMissing: MissingTest;
 }
 
 export interface PassThroughPlan extends PlanBase {
@@ -111,6 +115,8 @@ function planColumn(column: ColumnRecipe, source: number, offset: number, isMiss
         transform: transformForColumn(column),
         indicator: column.missing.indicator,
         resolve: cached(numberResolver(column, isMissing)),
+        readNumber: numberReader(column.format),
+        isMissing,
       };
     case 'nominal':
     case 'ordinal':
@@ -188,9 +194,10 @@ function numberResolver(column: ContinuousColumn, isMissing: MissingTest): (raw:
     fill === null
       ? { value: NaN, missing: true, invalid: false, reject: 'missing value (missing policy: error)' }
       : { value: fill, missing: true, invalid: false, reject: null };
+  const readNumber = numberReader(column.format);
   return (raw) => {
     if (isMissing(raw)) return missingOutcome;
-    const value = parseNumber(raw, column.format);
+    const value = readNumber(raw);
     if (!Number.isNaN(value)) return { value, missing: false, invalid: false, reject: null };
     if (column.invalid === 'error') return { value: NaN, missing: false, invalid: true, reject: `"${raw}" is not a number` };
     return { ...missingOutcome, invalid: true };

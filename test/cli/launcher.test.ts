@@ -1,0 +1,87 @@
+/**
+ * bin/levelwise.js runs the command line from a bundle it makes and keeps under
+ * node_modules/.cache/levelwise-cli/. These tests run it in a copy of the project (its own
+ * node_modules folder, holding links to the real packages, so its cache is its own) and change the
+ * copy's sources between runs: the output must always come from the sources as they are now.
+ */
+import { spawnSync } from 'node:child_process';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+
+const ROOT = join(import.meta.dirname, '../..');
+const copy = mkdtempSync(join(tmpdir(), 'levelwise-launcher-'));
+afterAll(() => rmSync(copy, { recursive: true, force: true }));
+
+for (const part of ['bin', 'src', 'package.json', 'tsconfig.json']) cpSync(join(ROOT, part), join(copy, part), { recursive: true });
+mkdirSync(join(copy, 'node_modules'));
+for (const entry of readdirSync(join(ROOT, 'node_modules'))) {
+  if (entry !== '.cache') symlinkSync(join(ROOT, 'node_modules', entry), join(copy, 'node_modules', entry));
+}
+const CACHE = join(copy, 'node_modules/.cache/levelwise-cli');
+const input = join(copy, 'in.csv');
+writeFileSync(input, 'id,n\nA,1\nB,3\n');
+const recipeFile = join(copy, 'recipe.json');
+
+function levelwise(args: readonly string[], env: NodeJS.ProcessEnv = {}) {
+  const run = spawnSync(process.execPath, [join(copy, 'bin/levelwise.js'), ...args], { cwd: copy, env: { ...process.env, LEVELWISE_DEBUG: '', ...env } });
+  return { status: run.status, stdout: run.stdout.toString('utf8'), stderr: run.stderr.toString('utf8') };
+}
+
+function edit(file: string, from: string, to: string): void {
+  const path = join(copy, file);
+  const text = readFileSync(path, 'utf8');
+  expect(text).toContain(from);
+  writeFileSync(path, text.replace(from, to));
+}
+
+const sha256 = (bytes: Buffer) => createHash('sha256').update(bytes).digest('hex');
+
+describe('the launcher', () => {
+  it('makes a bundle on the first run and records the hash of every source file in it', () => {
+    const run = levelwise(['--help']);
+    expect(run.status).toBe(0);
+    expect(run.stdout).toContain('Usage: levelwise VERB [options]');
+    const manifest = JSON.parse(readFileSync(join(CACHE, 'manifest.json'), 'utf8')) as { bundle: string; sources: Record<string, string> };
+    expect(existsSync(join(CACHE, manifest.bundle))).toBe(true);
+    expect(Object.keys(manifest.sources)).toEqual(expect.arrayContaining(['src/cli/main.ts', 'src/cli/verbs/apply.ts', 'src/core/csv-write.ts']));
+    for (const [file, hash] of Object.entries(manifest.sources)) expect([file, sha256(readFileSync(join(copy, file)))]).toEqual([file, hash]);
+  });
+
+  it('never runs a source file as it was: a change to the entry or to a file deep in the imports shows at once', () => {
+    edit('src/cli/help.ts', 'Usage: levelwise VERB [options]', 'Usage: levelwise VERB [options] (changed)');
+    expect(levelwise(['--help']).stdout).toContain('Usage: levelwise VERB [options] (changed)');
+    edit('src/cli/help.ts', 'Usage: levelwise VERB [options] (changed)', 'Usage: levelwise VERB [options]');
+    expect(levelwise(['--help']).stdout).not.toContain('(changed)');
+
+    expect(levelwise(['draft', input, '-o', recipeFile]).status).toBe(0);
+    const before = levelwise(['apply', recipeFile, input]);
+    expect(before.stdout).toContain('\r\n');
+    edit('src/core/csv-write.ts', "export const LINE_END = '\\r\\n';", "export const LINE_END = '\\n';");
+    const after = levelwise(['apply', recipeFile, input]);
+    expect(after.stdout).toBe(before.stdout.replaceAll('\r\n', '\n'));
+    edit('src/core/csv-write.ts', "export const LINE_END = '\\n';", "export const LINE_END = '\\r\\n';");
+    expect(levelwise(['apply', recipeFile, input]).stdout).toBe(before.stdout);
+  });
+
+  it('runs the sources through tsx when asked to, with the same result', () => {
+    const bundled = levelwise(['apply', recipeFile, input]);
+    const direct = levelwise(['apply', recipeFile, input], { LEVELWISE_NO_BUNDLE: '1' });
+    expect([direct.status, direct.stdout, direct.stderr]).toEqual([bundled.status, bundled.stdout, bundled.stderr]);
+  });
+
+  it('runs nothing old when a source no longer compiles', () => {
+    edit('src/cli/help.ts', 'Usage: levelwise VERB [options]', 'Usage: levelwise VERB [options]` +');
+    const run = levelwise(['--help']);
+    expect(run.status).not.toBe(0);
+    expect(run.stdout).not.toContain('Usage');
+    edit('src/cli/help.ts', 'Usage: levelwise VERB [options]` +', 'Usage: levelwise VERB [options]');
+    expect(levelwise(['--help']).stdout).toContain('Usage: levelwise VERB [options]');
+  });
+
+  it('keeps only the bundle in use', () => {
+    expect(readdirSync(CACHE).filter((f) => f.endsWith('.mjs'))).toHaveLength(1);
+  });
+});
