@@ -16,6 +16,13 @@ import { hashBytes, plainFields, type PlainRecords } from './parse.ts';
 import { utf8Bytes, utf8Text } from './utf8-text.ts';
 
 export const DEFAULT_DICTIONARY_CAP = 4096;
+
+/** What a column builder can be told to expect (see the ColumnBuilder constructor). */
+export interface ExpectedColumn {
+  readonly rows: number;
+  readonly distinct: number;
+  readonly numbers?: boolean;
+}
 /** A column past the cap moves to number storage when at most 1 in this many distinct values is not a number. */
 export const NON_NUMBER_SHARE = 8;
 
@@ -76,9 +83,11 @@ export class ColumnBuilder {
 
   /**
    * `expected` sizes the storage up front when the caller can tell (the previous batch of the same
-   * file): the rows, and the distinct values.
+   * file): the rows, and the distinct values; `numbers` starts the column in number storage (the
+   * previous batch ended there), rather than learning again, batch after batch, that it holds
+   * numbers.
    */
-  constructor(name: string, dictionaryCap: number = DEFAULT_DICTIONARY_CAP, expected: { rows: number; distinct: number } | null = null) {
+  constructor(name: string, dictionaryCap: number = DEFAULT_DICTIONARY_CAP, expected: ExpectedColumn | null = null) {
     this.name = name;
     this.cap = dictionaryCap;
     const distinct = Math.max(INITIAL_VALUES, expected?.distinct ?? 0);
@@ -89,6 +98,17 @@ export class ColumnBuilder {
     this.valueStart = new Int32Array(distinct + 1);
     this.valueHash = new Int32Array(distinct + 1);
     this.codes = new Uint32Array(Math.max(INITIAL_CAPACITY, expected?.rows ?? 0));
+    if (expected?.numbers === true) {
+      this.pastCap = true;
+      this.numbers = new Float64Array(this.codes.length);
+      this.exceptions = new Map();
+      this.codes = new Uint32Array(0);
+    }
+  }
+
+  /** Whether the column holds numbers (number storage) at this point. */
+  get holdsNumbers(): boolean {
+    return this.numbers !== null;
   }
 
   /** Distinct values in the dictionary so far (0 once the column holds numbers). */
@@ -424,8 +444,11 @@ function grow<A extends Uint32Array | Float64Array | Int32Array>(array: A): A {
 
 export interface TableBuilderOptions {
   readonly dictionaryCap?: number;
-  /** Rows and distinct values per column expected (a batch like the previous one), to size storage up front. */
-  readonly expected?: { readonly rows: number; readonly distinct: readonly number[] };
+  /**
+   * A batch like the previous one: its rows, and per column the distinct values and whether it
+   * ended in number storage, to size and choose storage up front.
+   */
+  readonly expected?: { readonly rows: number; readonly distinct: readonly number[]; readonly numbers?: readonly boolean[] };
   /** Absolute index of this table's first row (for batches of a larger file). */
   readonly firstRowIndex?: number;
   readonly headerIssues?: readonly HeaderIssue[];
@@ -448,7 +471,12 @@ export class TableBuilder {
     this.names = names;
     const expected = options.expected;
     this.columns = names.map(
-      (name, c) => new ColumnBuilder(name, options.dictionaryCap, expected === undefined ? null : { rows: expected.rows, distinct: expected.distinct[c] ?? 0 }),
+      (name, c) =>
+        new ColumnBuilder(
+          name,
+          options.dictionaryCap,
+          expected === undefined ? null : { rows: expected.rows, distinct: expected.distinct[c] ?? 0, numbers: expected.numbers?.[c] ?? false },
+        ),
     );
     if (expected !== undefined) this.lineOfRow = new Uint32Array(Math.max(INITIAL_CAPACITY, expected.rows));
     this.firstRowIndex = options.firstRowIndex ?? 0;
@@ -468,6 +496,11 @@ export class TableBuilder {
   /** Distinct values per column so far. */
   get distinct(): number[] {
     return this.columns.map((column) => column.distinct);
+  }
+
+  /** Per column, whether it holds numbers (number storage) so far. */
+  get numberColumns(): boolean[] {
+    return this.columns.map((column) => column.holdsNumbers);
   }
 
   /** `line`: 1-based line the row starts on; `unclosedQuote`: its last field ran to the end of the file. */

@@ -291,7 +291,9 @@ class RowCollector implements RecordSink {
       firstRowIndex: this.batchStart,
       headerIssues: this.batchStart === 0 && previous === null ? this.headerIssues : [],
       // A batch is sized like the one before it (its dictionaries, its rows).
-      ...(previous === null || this.batchRows === Infinity ? {} : { expected: { rows: this.batchRows, distinct: previous.distinct } }),
+      ...(previous === null || this.batchRows === Infinity
+        ? {}
+        : { expected: { rows: this.batchRows, distinct: previous.distinct, numbers: previous.numberColumns } }),
     });
   }
 }

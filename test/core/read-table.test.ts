@@ -222,6 +222,16 @@ describe('batch mode', () => {
     expect(result.emptyLinesSkipped).toBe(whole.emptyLinesSkipped);
   });
 
+  it('starts a batch in number storage when the batch before it ended there, keeping every cell exact', () => {
+    // The first batch has 300 distinct numbers (past the cap of 50); the second only two values.
+    const cells = [...Array.from({ length: 300 }, (_, i) => (i * 0.25).toFixed(2)), ...Array.from({ length: 300 }, (_, i) => (i % 2 ? 'NA' : '7'))];
+    const text = utf8(`x\n${cells.join('\n')}\n`);
+    const batches: Table[] = [];
+    readInPieces(text, 1000, { batchRows: 300, dictionaryCap: 50, onBatch: (table) => batches.push(table) });
+    expect(batches.map((b) => b.columns[0]!.kind)).toEqual(['number', 'number']);
+    expect(batches.flatMap((b) => rowsOf(b).map((r) => r[0]))).toEqual(cells);
+  });
+
   it('keeps empty cells of a one-column table across batch boundaries', () => {
     const bytes = utf8('v\n1\n\n\n2\n\n3\n\n');
     const whole = readTable(bytes);
