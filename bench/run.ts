@@ -298,7 +298,7 @@ async function main(): Promise<void> {
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
     const loadAtEnd = loadavg()[0] ?? NaN;
     // The page side (bench/page.ts) after the Node measurements, when /usr/bin/chromium exists.
-    const { page, notes: pageLines } = await pageMeasurementsForBench();
+    const { page, notes: pageLines } = args.page ? await pageMeasurementsForBench() : { page: null, notes: ['the page side was left out (--no-page)'] };
     notes.push(...pageLines);
     const results: BenchResults = {
       machine: describeMachine(),

@@ -2,7 +2,7 @@
  * The benchmark's command-line arguments:
  *
  *   npm run bench -- [--sizes 10000,100000,1000000,4000000] [--reps 3] [--apply auto|cli|in-process]
- *                    [--no-write] [--cpu-prof]
+ *                    [--no-write] [--no-page] [--cpu-prof]
  *
  * Sizes up to FULL_MEASURE_MAX_ROWS get every measurement; larger ones only the streamed apply,
  * whose peak memory must stay flat (the whole-string parse and the in-memory profile of a 490 MB
@@ -23,6 +23,8 @@ export interface BenchArguments {
   readonly apply: ApplyChoice;
   /** Write bench/results.json (off for quick local runs). */
   readonly write: boolean;
+  /** Measure the page too (Chromium), when it is installed. */
+  readonly page: boolean;
   /** Instead of the table: CPU profiles of the profile and apply paths at 1M rows. */
   readonly cpuProfile: boolean;
   readonly help: boolean;
@@ -35,6 +37,7 @@ export const USAGE = [
   '  --reps 3                                runs of each measurement; the median is reported',
   '  --apply auto|cli|in-process             how apply is measured (auto: the command line when it runs)',
   '  --no-write                              do not write bench/results.json',
+  '  --no-page                               leave out the page side (Chromium), for a quick look',
   '  --cpu-prof                              CPU-profile the profile and apply paths at 1M rows and list',
   '                                          the functions with the most self time (no table)',
 ].join('\n');
@@ -45,6 +48,7 @@ export function parseBenchArguments(argv: readonly string[]): BenchArguments {
   let apply: ApplyChoice = 'auto';
   let write = true;
   let cpuProfile = false;
+  let page = true;
   let help = false;
   for (let i = 0; i < argv.length; i++) {
     const argument = argv[i] ?? '';
@@ -67,6 +71,9 @@ export function parseBenchArguments(argv: readonly string[]): BenchArguments {
       case '--no-write':
         write = false;
         break;
+      case '--no-page':
+        page = false;
+        break;
       case '--cpu-prof':
         cpuProfile = true;
         break;
@@ -78,7 +85,7 @@ export function parseBenchArguments(argv: readonly string[]): BenchArguments {
         throw new Error(`Unknown argument "${argument}".\n${USAGE}`);
     }
   }
-  return { sizes: withReference(sizes), reps, apply, write, cpuProfile, help };
+  return { sizes: withReference(sizes), reps, apply, write, page, cpuProfile, help };
 }
 
 function splitFlag(argument: string): [string, string | undefined] {

@@ -15,6 +15,7 @@ import { parseRecipe } from '../core/recipe-io.ts';
 import type { Recipe } from '../core/recipe.ts';
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import { CliFailure, readingFailure } from './failure.ts';
+import { canReadInThread, readBatchesInThread } from './read-thread.ts';
 import { createFindingsLog, type ReadingFindings } from './reading-findings.ts';
 import { recipeFailure } from './recipe-problems.ts';
 
@@ -27,6 +28,8 @@ export interface InputSource {
   readonly reopenable: boolean;
   /** Size in bytes when known, for progress. */
   readonly size: number | null;
+  /** The file's path; null for standard input. */
+  readonly path: string | null;
   chunks(): AsyncIterable<Uint8Array>;
 }
 
@@ -46,6 +49,7 @@ export async function inputSource(path: string): Promise<InputSource> {
       fileName: null,
       reopenable: false,
       size: null,
+      path: null,
       chunks() {
         if (used) throw new Error('standard input can be read only once');
         used = true;
@@ -66,6 +70,7 @@ export async function inputSource(path: string): Promise<InputSource> {
     fileName: basename(path),
     reopenable: true,
     size,
+    path,
     chunks: () => readChunks(path),
   };
 }
@@ -180,8 +185,15 @@ async function readBatchesOnce(
   const chunks = withFirstChunk(source.chunks());
   const first = await chunks.first();
   if (first !== null && ZIP_MAGIC.every((b, i) => first[i] === b)) return readWorkbook(source, chunks, settings, batchRows, handlers);
+  // A file read batch by batch goes to a second thread, which reads it from its path.
+  const threadPath = source.path !== null && batchRows !== null && canReadInThread() ? source.path : null;
+  if (threadPath !== null) await chunks.close();
+  const read = (encoding: EncodingName | null): Promise<ReadSummary> =>
+    threadPath !== null && batchRows !== null
+      ? readTextInThread(threadPath, settings.delimiter, encoding, batchRows, handlers)
+      : readText(encoding === settings.encoding ? chunks : withFirstChunk(source.chunks()), settings.delimiter, encoding, batchRows, handlers);
   try {
-    return await readText(chunks, settings.delimiter, settings.encoding, batchRows, handlers);
+    return await read(settings.encoding);
   } catch (error) {
     if (!isLevelwiseError(error, 'encoding-restart')) throw error;
     if (!source.reopenable || !(await handlers.restart())) {
@@ -190,8 +202,27 @@ async function readBatchesOnce(
         'Run again with --encoding windows-1252, or save the file as UTF-8.',
       );
     }
-    return readText(withFirstChunk(source.chunks()), settings.delimiter, 'windows-1252', batchRows, handlers);
+    return read('windows-1252');
   }
+}
+
+/** As readText, with the reading on a second thread (read-thread.ts). */
+async function readTextInThread(
+  path: string,
+  delimiter: Delimiter | null,
+  encoding: EncodingName | null,
+  batchRows: number,
+  handlers: BatchHandlers,
+): Promise<ReadSummary> {
+  let rows = 0;
+  const log = createFindingsLog();
+  const result = await readBatchesInThread(path, { delimiter, encoding, batchRows }, async (batch, firstRow, bytesRead) => {
+    log.add(batch.rowIssues, batch.headerIssues);
+    handlers.onBatch(batch, 0, batch.rowCount, firstRow);
+    rows += batch.rowCount;
+    await handlers.afterChunk(bytesRead, rows);
+  });
+  return { names: result.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: log.findings() };
 }
 
 async function readText(
@@ -294,10 +325,14 @@ function notAWorkbook(label: string, bytes: Uint8Array, error: unknown): CliFail
 }
 
 /** An async iterable that can show its first chunk before being iterated (to spot a workbook). */
-function withFirstChunk(source: AsyncIterable<Uint8Array>): AsyncIterable<Uint8Array> & { first(): Promise<Uint8Array | null> } {
+function withFirstChunk(source: AsyncIterable<Uint8Array>): AsyncIterable<Uint8Array> & { first(): Promise<Uint8Array | null>; close(): Promise<void> } {
   const iterator = source[Symbol.asyncIterator]();
   let head: IteratorResult<Uint8Array> | null = null;
   return {
+    /** Stops reading (closes the file) when the rest will not be iterated. */
+    async close() {
+      await iterator.return?.();
+    },
     async first() {
       head ??= await iterator.next();
       return head.done ? null : head.value;

@@ -6,7 +6,8 @@ describe('benchmark arguments', () => {
     const args = parseBenchArguments([]);
     expect(args.sizes).toEqual([10_000, 100_000, 1_000_000, 4_000_000]);
     expect(DEFAULT_SIZES).toEqual(args.sizes);
-    expect(args).toMatchObject({ reps: 3, apply: 'auto', write: true, cpuProfile: false, help: false });
+    expect(args).toMatchObject({ reps: 3, apply: 'auto', write: true, page: true, cpuProfile: false, help: false });
+    expect(parseBenchArguments(['--no-page']).page).toBe(false);
   });
 
   it('always adds the 1M-row size, sorts and drops repeats', () => {

@@ -36,9 +36,11 @@ interface Run {
   readonly stderr: string;
 }
 
-function levelwise(args: readonly string[], options: { input?: Uint8Array | string; batchRows?: number; cwd?: string } = {}): Run {
+function levelwise(args: readonly string[], options: { input?: Uint8Array | string; batchRows?: number; cwd?: string; fromSources?: boolean } = {}): Run {
   const env: NodeJS.ProcessEnv = { ...process.env, LEVELWISE_DEBUG: '' };
   if (options.batchRows !== undefined) env['LEVELWISE_BATCH_ROWS'] = String(options.batchRows);
+  // From the TypeScript sources (no bundle), a file is read on one thread; from the bundle, on a second one.
+  if (options.fromSources === true) env['LEVELWISE_NO_BUNDLE'] = '1';
   const run = spawnSync(process.execPath, [BIN, ...args], { input: options.input ?? '', env, cwd: options.cwd ?? work, maxBuffer: 1 << 28 });
   return { status: run.status, stdout: run.stdout, stderr: run.stderr.toString('utf8') };
 }
@@ -211,6 +213,15 @@ describe('draft and apply on the invented demo survey', () => {
     expect(Buffer.compare(run.stdout, Buffer.from(page.bytes))).toBe(0);
     // New suppliers were never seen: said on standard error, handled by the unseen policy.
     expect(run.stderr).toMatch(/^levelwise apply: supplier: [\d,]+ cells with levels the recipe never saw/m);
+  });
+
+  it('reading the file on a second thread gives the same bytes and messages as reading it on one', () => {
+    const threaded = levelwise(['apply', recipePath, newFile], { batchRows: 7 });
+    const single = levelwise(['apply', recipePath, newFile], { batchRows: 7, fromSources: true });
+    expect(threaded.status).toBe(0);
+    expect(single.status).toBe(0);
+    expect(Buffer.compare(threaded.stdout, single.stdout)).toBe(0);
+    expect(threaded.stderr).toBe(single.stderr);
   });
 
   it('rows a policy rejects go to the rejects file with line and reason, and exit 1', () => {
