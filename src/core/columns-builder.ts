@@ -53,9 +53,7 @@ export class ColumnBuilder {
   private codes: Uint32Array<ArrayBuffer>;
   /** The values' strings; undefined until `build` for those read as bytes (see valueTexts). */
   private values: (string | undefined)[] = [];
-  private counts: Float64Array<ArrayBuffer>;
-  /** The hash of every value, to build the hash table when the ascending run ends. */
-  private valueHash: Int32Array<ArrayBuffer>;
+  private counts: Uint32Array<ArrayBuffer>;
   /** Every cell so far was new and greater (byte by byte) than the one before: no hash table yet. */
   private ascending = true;
   /** Every stored value's bytes are ASCII. */
@@ -94,9 +92,8 @@ export class ColumnBuilder {
     let slots = INITIAL_SLOTS;
     while (slots < 2 * distinct) slots *= 2;
     this.table = new Int32Array(2 * slots);
-    this.counts = new Float64Array(distinct + 1);
+    this.counts = new Uint32Array(distinct + 1);
     this.valueStart = new Int32Array(distinct + 1);
-    this.valueHash = new Int32Array(distinct + 1);
     this.codes = new Uint32Array(Math.max(INITIAL_CAPACITY, expected?.rows ?? 0));
     if (expected?.numbers === true) {
       this.pastCap = true;
@@ -158,8 +155,7 @@ export class ColumnBuilder {
     this.table = new Int32Array(0);
     this.valueBytes = new Uint8Array(0);
     this.valueStart = new Int32Array(0);
-    this.valueHash = new Int32Array(0);
-    this.counts = new Float64Array(0);
+    this.counts = new Uint32Array(0);
     return { kind: 'text', name: this.name, length: this.length, codes: this.codes, values, counts };
   }
 
@@ -186,7 +182,7 @@ export class ColumnBuilder {
       return;
     }
     const code = this.ascending && this.continuesAscending(bytes, start, end)
-      ? this.addValue(bytes, start, end, hash, text)
+      ? this.addValue(bytes, start, end, text)
       : this.codeOf(bytes, start, end, hash, text);
     this.counts[code]! += 1;
     if (this.length === this.codes.length) this.codes = grow(this.codes);
@@ -199,7 +195,7 @@ export class ColumnBuilder {
     const count = this.values.length;
     if (count > 0 && compareBytes(bytes, start, end, this.valueBytes, this.valueStart[count - 1]!, this.valueStart[count]!) <= 0) {
       this.ascending = false;
-      this.rehash(this.table.length);
+      this.hashStoredValues();
       return false;
     }
     return true;
@@ -212,10 +208,10 @@ export class ColumnBuilder {
     for (let i = hash & mask; ; i = (i + 1) & mask) {
       const slot = table[2 * i + 1]!;
       if (slot === 0) {
-        const code = this.addValue(bytes, start, end, hash, text);
+        const code = this.addValue(bytes, start, end, text);
         table[2 * i] = hash;
         table[2 * i + 1] = code + 1;
-        if (4 * this.values.length > table.length) this.rehash(table.length * 2);
+        if (4 * this.values.length > table.length) this.growTable();
         return code;
       }
       if (table[2 * i] === hash) {
@@ -226,14 +222,13 @@ export class ColumnBuilder {
     }
   }
 
-  private addValue(bytes: Uint8Array, start: number, end: number, hash: number, text: string | null): number {
+  private addValue(bytes: Uint8Array, start: number, end: number, text: string | null): number {
     const code = this.values.length;
     const length = end - start;
     this.values.push(text ?? undefined);
     if (code + 1 >= this.counts.length) {
       this.counts = grow(this.counts);
       this.valueStart = grow(this.valueStart);
-      this.valueHash = grow(this.valueHash);
     }
     const stored = this.valueStart[code]!;
     if (stored + length > this.valueBytes.length) {
@@ -246,7 +241,6 @@ export class ColumnBuilder {
     for (let k = 0; k < length; k++) high |= valueBytes[stored + k] = bytes[start + k]!;
     if (high >= 0x80) this.asciiBytes = false;
     this.valueStart[code + 1] = stored + length;
-    this.valueHash[code] = hash;
     if (!this.pastCap) this.countNumber(bytes, start, end);
     return code;
   }
@@ -262,19 +256,22 @@ export class ColumnBuilder {
     this.switchDue = this.nonNumbers * NON_NUMBER_SHARE <= this.values.length;
   }
 
-  /** Builds the hash table anew with `entries` Int32 entries (twice a power of two), large enough for the values. */
-  private rehash(entries: number): void {
+  /** After an ascending run: the hash table, made from the stored values' bytes. */
+  private hashStoredValues(): void {
     const count = this.values.length;
+    let entries = this.table.length;
     while (entries < 4 * count) entries *= 2;
     const table = new Int32Array(entries);
-    const mask = (entries >> 1) - 1;
-    for (let code = 0; code < count; code++) {
-      const hash = this.valueHash[code]!;
-      let i = hash & mask;
-      while (table[2 * i + 1] !== 0) i = (i + 1) & mask;
-      table[2 * i] = hash;
-      table[2 * i + 1] = code + 1;
-    }
+    const stored = this.valueStart;
+    for (let code = 0; code < count; code++) insert(table, hashBytes(this.valueBytes, stored[code]!, stored[code + 1]!), code + 1);
+    this.table = table;
+  }
+
+  /** The hash table, twice as large: its entries move over with the hashes they hold. */
+  private growTable(): void {
+    const old = this.table;
+    const table = new Int32Array(old.length * 2);
+    for (let j = 1; j < old.length; j += 2) if (old[j] !== 0) insert(table, old[j - 1]!, old[j]!);
     this.table = table;
   }
 
@@ -295,10 +292,9 @@ export class ColumnBuilder {
     this.table = new Int32Array(0);
     this.valueBytes = new Uint8Array(0);
     this.valueStart = new Int32Array(0);
-    this.valueHash = new Int32Array(0);
     this.codes = new Uint32Array(0);
     this.values = [];
-    this.counts = new Float64Array(0);
+    this.counts = new Uint32Array(0);
   }
 
   private pushNumber(bytes: Uint8Array, start: number, end: number, text: string | null): void {
@@ -309,6 +305,15 @@ export class ColumnBuilder {
     if (!scanner.printsBack) this.exceptions!.set(this.length, text ?? utf8Text(bytes, start, end));
     this.length++;
   }
+}
+
+/** Puts (hash, code + 1) into the first free slot from the hash's own (linear probing). */
+function insert(table: Int32Array, hash: number, codePlusOne: number): void {
+  const mask = (table.length >> 1) - 1;
+  let i = hash & mask;
+  while (table[2 * i + 1] !== 0) i = (i + 1) & mask;
+  table[2 * i] = hash;
+  table[2 * i + 1] = codePlusOne;
 }
 
 /** Byte-wise comparison of a[aStart, aEnd) with b[bStart, bEnd): negative, 0 or positive. */
