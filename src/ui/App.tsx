@@ -157,6 +157,7 @@ export function App() {
                   onRecipe={() => takeAway.saveRecipe(recipe, table.fileName)}
                   onCodebook={(format) => takeAway.saveCodebook(recipe, table.fileName, format)}
                   busy={wb.task !== null}
+                  noOutputs={recipe.columns.every((c) => c.outputs.length === 0)}
                 />
               ) : null
             }

@@ -7,16 +7,30 @@ export interface TakeAwayProps {
   onRecipe(): void;
   onCodebook(format: CodebookFormat): void;
   readonly busy: boolean;
+  /** The recipe makes no output columns (every column excluded): the encoded file would be empty lines. */
+  readonly noOutputs?: boolean;
 }
 
-export function TakeAway({ onCsv, onRecipe, onCodebook, busy }: TakeAwayProps) {
+export function TakeAway({ onCsv, onRecipe, onCodebook, busy, noOutputs = false }: TakeAwayProps) {
   const [format, setFormat] = useState<CodebookFormat>('markdown');
   const formatId = useId();
+  const noteId = useId();
   return (
     <div className="take-away" role="group" aria-label="Take away">
-      <button type="button" className="button button-primary" onClick={onCsv} disabled={busy}>
+      <button
+        type="button"
+        className="button button-primary"
+        onClick={onCsv}
+        disabled={busy || noOutputs}
+        aria-describedby={noOutputs ? noteId : undefined}
+      >
         Encoded CSV
       </button>
+      {noOutputs ? (
+        <span id={noteId} className="muted take-away-note">
+          Every column is excluded: there is nothing to encode. Give at least one column a level.
+        </span>
+      ) : null}
       <button type="button" className="button" onClick={onRecipe}>
         Recipe
       </button>
