@@ -22,6 +22,7 @@ import { createTableReader, type Delimiter } from '../core/read-table.ts';
 const JOB = 'levelwise-read-batches';
 const MAX_BATCHES_AHEAD = 3;
 const CHUNK_BYTES = 1 << 20;
+const WAIT_MS = 200;
 
 interface ReadJob {
   readonly job: typeof JOB;
@@ -116,8 +117,9 @@ function runReadJob(job: ReadJob, port: NonNullable<typeof parentPort>): void {
   const counter = new Int32Array(job.ahead);
   let bytesRead = 0;
   const post = (table: Table, firstRow: number): void => {
-    // Wait while the encoding thread has enough batches in hand.
-    for (let ahead = Atomics.load(counter, 0); ahead >= MAX_BATCHES_AHEAD; ahead = Atomics.load(counter, 0)) Atomics.wait(counter, 0, ahead);
+    // Wait while the encoding thread has enough batches in hand. The wait is timed so that a
+    // thread being terminated (the encoding side failed) never stays blocked in it.
+    for (let ahead = Atomics.load(counter, 0); ahead >= MAX_BATCHES_AHEAD; ahead = Atomics.load(counter, 0)) Atomics.wait(counter, 0, ahead, WAIT_MS);
     Atomics.add(counter, 0, 1);
     port.postMessage({ type: 'batch', table, firstRow, bytesRead } satisfies FromReader, transferables(table));
   };

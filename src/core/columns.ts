@@ -5,7 +5,7 @@
  * Every column starts dictionary-encoded (`TextColumn`): a code per row plus the distinct raw
  * strings with their counts. Per-level work (cleaning, number parsing, encoding) then runs once
  * per distinct value instead of once per cell. A column whose distinct values outgrow the
- * dictionary cap while its values are plain numbers is switched to `NumberColumn` storage
+ * dictionary cap while nearly all of them are plain numbers is switched to `NumberColumn` storage
  * (see columns-builder.ts), so a measurement column never holds a million strings.
  */
 
