@@ -3,10 +3,10 @@
  * object per row or per cell.
  *
  * Each column starts dictionary-encoded. When its distinct values outgrow the cap and nearly all
- * of them (all but one in NON_NUMBER_SHARE) are empty or decimal number text ('12', '-0.5',
- * '1.50', '007', '1e3'), it moves to number storage: a Float64Array holding Number(text) (NaN for
- * other text), plus the raw text of every cell that `String(value)` would not give back ('1.50',
- * '007', 'n/a', '12 504', later stray text). Either way `cellText` gives back the parsed text
+ * of them, and of its cells, (all but one in NON_NUMBER_SHARE) are empty or decimal number text
+ * ('12', '-0.5', '1.50', '007', '1e3'), it moves to number storage: a Float64Array holding
+ * Number(text) (NaN for other text), plus the raw text of every cell that `String(value)` would
+ * not give back ('1.50', '007', 'n/a', '12 504', later stray text). Either way `cellText` gives back the parsed text
  * unchanged. Requiring only decimal syntax, not the exact `String(value)` form, lets
  * fixed-decimal exports ('12.50') leave the dictionary too; tolerating a few other texts lets a
  * measurement with missing-value spellings ('NA', 'n/a') or the odd grouped number leave it.
@@ -23,7 +23,10 @@ export interface ExpectedColumn {
   readonly distinct: number;
   readonly numbers?: boolean;
 }
-/** A column past the cap moves to number storage when at most 1 in this many distinct values is not a number. */
+/**
+ * A column past the cap moves to number storage when at most 1 in this many of its distinct values,
+ * and 1 in this many of its cells, hold something other than a number or nothing.
+ */
 export const NON_NUMBER_SHARE = 8;
 
 const INITIAL_CAPACITY = 1024;
@@ -253,7 +256,23 @@ export class ColumnBuilder {
     }
     if (this.values.length <= this.cap) return;
     this.pastCap = true;
-    this.switchDue = this.nonNumbers * NON_NUMBER_SHARE <= this.values.length;
+    this.switchDue = this.nonNumbers * NON_NUMBER_SHARE <= this.values.length && this.nonNumberCells() * NON_NUMBER_SHARE <= this.length;
+  }
+
+  /**
+   * Cells so far holding a value that is neither empty nor a number. Number storage keeps each such
+   * cell's text in its exceptions, one entry per cell: a frequent missing spelling ('NA' in a third
+   * of the rows) would cost far more there than a dictionary code.
+   */
+  private nonNumberCells(): number {
+    let cells = 0;
+    const stored = this.valueStart;
+    for (let code = 0; code < this.values.length; code++) {
+      if (stored[code + 1] === stored[code]) continue;
+      scanner.read(this.valueBytes, stored[code]!, stored[code + 1]!);
+      if (Number.isNaN(scanner.value)) cells += this.counts[code]!;
+    }
+    return cells;
   }
 
   /** After an ascending run: the hash table, made from the stored values' bytes. */

@@ -44,6 +44,15 @@ describe('dictionary storage', () => {
     expect([...column.exceptions.values()]).toEqual(['NA', '12 504', 'NA', 'later text']);
   });
 
+  it('stays a dictionary past the cap when a missing spelling fills more than 1 in 8 cells, however few distinct texts', () => {
+    // Cap 16: at the 17th distinct value (row 27), 'NA' is 1 of 17 distinct values but 12 of 28
+    // cells; in number storage each of them would be an exception.
+    const cells = Array.from({ length: 40 }, (_, i) => (i % 5 < 2 ? 'NA' : String(i)));
+    const column = build(cells, 16);
+    expect(column.kind).toBe('text');
+    expect(textsOf(column)).toEqual(cells);
+  });
+
   it('grows past its first capacity', () => {
     const cells = Array.from({ length: 5000 }, (_, i) => `k${i % 7}`);
     expect(textsOf(build(cells))).toEqual(cells);
