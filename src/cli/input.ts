@@ -104,7 +104,7 @@ export async function readRecipe(path: string): Promise<Recipe> {
   const source = await inputSource(path);
   const parsed = parseRecipe(await readAllText(source));
   if (parsed.ok) return parsed.recipe;
-  throw recipeFailure(source.label, parsed.errors);
+  throw recipeFailure(source.label, parsed.errors, parsed.unlisted);
 }
 
 // ---------------------------------------------------------------------------------------------------

@@ -8,9 +8,6 @@ import { CliFailure, EXIT } from './failure.ts';
 
 export const LISTED_PROBLEMS = 20;
 
-/** Core ends a long list with a line of its own counting the rest: "… and 7 more problems." */
-const MORE_LINE = /^… and ([\d,]+) more problems?\.?$/;
-
 /**
  * A problem that already says what to do: an instruction after a sentence break or ", or", or
  * core's question about the file. Kept narrow; a false "no" only adds the general hint once.
@@ -19,14 +16,10 @@ const REMEDY = /(?:^|[.?!;:]\s+|,\s+or\s+)(?:open|make|choose|group|use|fix|remo
 
 const GENERAL_HINT = 'Fix the recipe, or make a new one with "levelwise draft".';
 
-export function recipeFailure(label: string, errors: readonly string[]): CliFailure {
-  let uncounted = 0;
-  const problems: string[] = [];
-  for (const error of errors) {
-    const more = MORE_LINE.exec(error.trim());
-    if (more !== null) uncounted += Number((more[1] ?? '0').replace(/,/g, ''));
-    else problems.push(error);
-  }
+/** `unlisted`: problems core found beyond those it listed (see RecipeParse). */
+export function recipeFailure(label: string, errors: readonly string[], unlisted = 0): CliFailure {
+  const uncounted = unlisted;
+  const problems = [...errors];
   if (problems.length === 0) problems.push('it is not a recipe.');
   const hint = problems.every((p) => REMEDY.test(p)) ? '' : GENERAL_HINT;
   const total = problems.length + uncounted;

@@ -8,32 +8,37 @@ import { MAX_CATEGORICAL_LEVELS } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
 import { LEVELS, Recipe, RECIPE_KIND, RECIPE_VERSION, type MeasurementLevel } from './recipe.ts';
 
-export type RecipeParse = { readonly ok: true; readonly recipe: Recipe } | { readonly ok: false; readonly errors: readonly string[] };
+/**
+ * A recipe, or what is wrong with it: the first MAX_LISTED_ERRORS problems, each a sentence, and how
+ * many more there were (`unlisted`), for the presenter to say ("… and 5 more problems").
+ */
+export type RecipeParse =
+  | { readonly ok: true; readonly recipe: Recipe }
+  | { readonly ok: false; readonly errors: readonly string[]; readonly unlisted: number };
 
 /** Larger documents are refused before parsing: a recipe of this size is not a recipe. */
 export const MAX_RECIPE_BYTES = 64 * 1024 * 1024;
 const MAX_LISTED_ERRORS = 20;
 
 export function parseRecipe(text: string): RecipeParse {
-  if (text.length > MAX_RECIPE_BYTES) return { ok: false, errors: [recipeTooLargeMessage(text.length)] };
+  if (text.length > MAX_RECIPE_BYTES) return { ok: false, errors: [recipeTooLargeMessage(text.length)], unlisted: 0 };
   // A byte order mark some editors write is not part of the JSON.
   const json = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   let data: unknown;
   try {
     data = JSON.parse(json);
   } catch (error) {
-    return { ok: false, errors: [invalidJsonMessage(json, error)] };
+    return { ok: false, errors: [invalidJsonMessage(json, error)], unlisted: 0 };
   }
   const header = checkHeader(data);
-  if (header) return { ok: false, errors: [header] };
+  if (header) return { ok: false, errors: [header], unlisted: 0 };
   const result = Recipe.safeParse(data);
   if (result.success) {
     const problems = consistencyProblems(result.data);
-    return problems.length === 0 ? { ok: true, recipe: result.data } : { ok: false, errors: problems };
+    return problems.length === 0 ? { ok: true, recipe: result.data } : { ok: false, errors: problems, unlisted: 0 };
   }
   const errors = result.error.issues.slice(0, MAX_LISTED_ERRORS).map((issue) => describeIssue(issue, data));
-  if (result.error.issues.length > MAX_LISTED_ERRORS) errors.push(`… and ${result.error.issues.length - MAX_LISTED_ERRORS} more problems.`);
-  return { ok: false, errors };
+  return { ok: false, errors, unlisted: result.error.issues.length - errors.length };
 }
 
 /** Whole megabytes of 2^20 bytes, as the limit is stated. */

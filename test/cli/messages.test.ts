@@ -70,9 +70,9 @@ describe('what reading a file found', () => {
 });
 
 describe('a recipe that cannot be used', () => {
-  it('core\'s own "… and N more problems." line is folded into the count, said with the right number', () => {
-    const errors = [...Array.from({ length: 20 }, (_, i) => `columns[${i}].level: expected one of "nominal", found "x".`), '… and 1 more problems.'];
-    const failure = recipeFailure('r.json', errors);
+  it('the problems core counted but did not list are in the count, said with the right number', () => {
+    const errors = Array.from({ length: 20 }, (_, i) => `columns[${i}].level: expected one of "nominal", found "x".`);
+    const failure = recipeFailure('r.json', errors, 1);
     expect(failure.message).toBe('the recipe "r.json" cannot be used: 21 problems.');
     expect(failure.details.at(-1)).toBe('  … and 1 more problem.');
     expect(failure.details).toHaveLength(21);
@@ -82,7 +82,7 @@ describe('a recipe that cannot be used', () => {
     const parsed = parseRecipe(JSON.stringify({ kind: 'levelwise.recipe', version: 1, source: { file: null, rows: 'x', columns: [] }, reading: {}, naming: 'odd', columns: [] }));
     expect(parsed.ok).toBe(false);
     if (parsed.ok) return;
-    const { lines } = describeFailure(recipeFailure('r.json', parsed.errors), 'check');
+    const { lines } = describeFailure(recipeFailure('r.json', parsed.errors, parsed.unlisted), 'check');
     expect(lines).toHaveLength(parsed.errors.length + 2);
     expect(lines[0]).toBe(`levelwise check: the recipe "r.json" cannot be used: ${parsed.errors.length} problems.`);
     expect(lines.slice(1, -1)).toEqual(parsed.errors.map((e) => `levelwise check:   ${e}`));

@@ -33,6 +33,19 @@ function edited(edit: (data: Record<string, unknown> & { columns: Record<string,
   return JSON.stringify(data, null, 2);
 }
 
+describe('many problems', () => {
+  it('lists the first twenty and counts the rest apart, for the page and the command line to say', () => {
+    const text = edited((d) => {
+      d.columns = Array.from({ length: 25 }, (_, i) => ({ ...d.columns[0], name: `c${i + 1}`, level: 'measured' }));
+    });
+    const parsed = parseRecipe(text);
+    if (parsed.ok) throw new Error('expected the recipe to be refused');
+    expect(parsed.errors).toHaveLength(20);
+    expect(parsed.errors.every((e) => !e.startsWith('…'))).toBe(true);
+    expect(parsed.unlisted).toBe(5);
+  });
+});
+
 describe('text that is not JSON', () => {
   it.each([
     { label: 'a missing comma', text: '{\n  "kind": "levelwise.recipe"\n  "version": 1\n}', line: 3, column: 3 },

@@ -60,13 +60,13 @@ export function ReuseDialog({ open, onClose, workbench, current, exportCsv, chil
     setChecked(null);
     setProblem(null);
     // Refused on its size before reading: a file that large is not a recipe, and reading it would stall the page.
-    const parsed = file.size > MAX_RECIPE_BYTES ? { ok: false as const, errors: [recipeTooLargeMessage(file.size)] } : parseRecipe(await file.text());
+    const parsed = file.size > MAX_RECIPE_BYTES ? { ok: false as const, errors: [recipeTooLargeMessage(file.size)], unlisted: 0 } : parseRecipe(await file.text());
     if (parsed.ok) {
       setLoaded({ recipe: parsed.recipe, from: file.name });
       setRecipeErrors([]);
     } else {
       setLoaded(null);
-      setRecipeErrors(parsed.errors);
+      setRecipeErrors(parsed.unlisted > 0 ? [...parsed.errors, `… and ${parsed.unlisted.toLocaleString('en-US')} more ${parsed.unlisted === 1 ? 'problem' : 'problems'}.`] : parsed.errors);
     }
   };
 
