@@ -358,6 +358,28 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await shot('11-splitter');
   });
 
+  it('scrolls to the last row of a table taller than the browser lays out (1,300,000 rows)', async () => {
+    // 1,300,000 rows of 28 px would be 36.4 million pixels, more than Chromium lays out (about 33.5
+    // million, from memory) and past the scroll cap (useFixedRows.ts): the scroll range is scaled,
+    // and its end must still show the last row, encoded.
+    const rows = 1_300_000;
+    const text = `code,kind\n${Array.from({ length: rows }, (_, i) => `C${i + 1},${i % 3 === 0 ? 'a' : 'b'}`).join('\n')}\n`;
+    await page.getByTestId('open-file-input').setInputFiles({ name: 'tall.csv', mimeType: 'text/csv', buffer: Buffer.from(text) });
+    await waitForFile('tall.csv', rows);
+    const grid = page.getByRole('grid', { name: 'Encoded output preview' });
+    await grid.evaluate((el) => el.scrollTo({ top: el.scrollHeight }));
+    // Row 600,000 is aria-rowindex 600,002 (two header rows) and starts on line 600,001.
+    const last = page.locator(`[role="row"][aria-rowindex="${rows + 2}"] [role="rowheader"]`);
+    await expect.poll(async () => Number(await last.textContent()), { timeout: 15_000 }).toBe(rows + 1);
+    expect(await previewCell(rows - 1, 'code')).toBe(`C${rows}`);
+    // The last row is in view: its bottom is at or above the grid's bottom edge.
+    const gridBox = await grid.boundingBox();
+    const rowBox = await page.locator(`[role="row"][aria-rowindex="${rows + 2}"]`).boundingBox();
+    expect(rowBox!.y + rowBox!.height).toBeLessThanOrEqual(gridBox!.y + gridBox!.height + 1);
+    expect(rowBox!.y).toBeGreaterThanOrEqual(gridBox!.y);
+    await shot('12-tall-table-end');
+  });
+
   it('raised no script errors and sent nothing beyond localhost', () => {
     expect(pageErrors).toEqual([]);
     const outside = requests.filter((url) => !url.startsWith(app.url) && !url.startsWith('blob:') && !url.startsWith('data:'));

@@ -92,7 +92,7 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
 
   // Rows have one height, so the rows on screen are found by arithmetic (useFixedRows), at a cost
   // that does not grow with the file; columns vary in width and keep the general virtualiser.
-  const { rows: virtualRows, totalSize: rowsHeight } = useFixedRows(scrollRef, rowCount, ROW_HEIGHT, 8);
+  const { rows: virtualRows, totalSize: rowsHeight } = useFixedRows(scrollRef, rowCount, ROW_HEIGHT, 8, HEADER_ROW_HEIGHT * 2);
   const columnVirtualizer = useVirtualizer({
     horizontal: true,
     count: leafHeaders.length,

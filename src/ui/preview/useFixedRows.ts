@@ -9,7 +9,7 @@ import { useLayoutEffect, useState, type RefObject } from 'react';
 
 export interface FixedRow {
   readonly index: number;
-  /** Offset of the row's top from the first row's, in pixels. */
+  /** Offset of the row's top from the top of the scrolling content, in pixels. */
   readonly start: number;
 }
 
@@ -18,17 +18,41 @@ interface Viewport {
   readonly height: number;
 }
 
-/** Rows [first, last] that meet the viewport, with `overscan` more on each side, clipped to the rows there are. */
-export function rowsInView(viewport: Viewport, count: number, rowHeight: number, overscan: number): FixedRow[] {
+/**
+ * Tallest scrolling content made, in pixels. Browsers lay out elements only up to a height (about
+ * 33.5 million pixels in Chromium, 17.9 million in Firefox, from memory), so 28-pixel rows stop
+ * being reachable after ~600,000–1,200,000 rows (in Chromium, uncapped, the last of 1,300,000 rows
+ * could not be scrolled to: test/e2e/workbench.test.ts); a taller table scrolls through a scaled range.
+ */
+export const MAX_SCROLL_SIZE = 15_000_000;
+
+/** The scrolling content's height for `count` rows: their height, or MAX_SCROLL_SIZE when taller. */
+export function scrollSize(count: number, rowHeight: number, maxSize = MAX_SCROLL_SIZE): number {
+  return Math.min(Math.max(0, count) * rowHeight, maxSize);
+}
+
+/**
+ * Rows [first, last] that meet the viewport, with `overscan` more on each side, clipped to the rows
+ * there are. When the rows are taller than `maxSize`, the scroll position is scaled: the top of the
+ * range shows the first row, its bottom the last, and rows are placed around the viewport.
+ */
+export function rowsInView(viewport: Viewport, count: number, rowHeight: number, overscan: number, maxSize = MAX_SCROLL_SIZE): FixedRow[] {
   if (count <= 0 || rowHeight <= 0) return [];
-  const first = Math.max(0, Math.floor(viewport.top / rowHeight) - overscan);
-  const last = Math.min(count - 1, Math.ceil((viewport.top + viewport.height) / rowHeight) + overscan);
+  const size = count * rowHeight;
+  const shown = scrollSize(count, rowHeight, maxSize);
+  // Where the viewport's top is among the rows: the scroll position itself, or scaled so that the
+  // last scroll position shows the last rows.
+  const scale = size > shown && shown > viewport.height ? (size - viewport.height) / (shown - viewport.height) : 1;
+  const top = viewport.top * scale;
+  const first = Math.max(0, Math.floor(top / rowHeight) - overscan);
+  const last = Math.min(count - 1, Math.ceil((top + viewport.height) / rowHeight) + overscan);
   const rows: FixedRow[] = [];
-  for (let index = first; index <= last; index++) rows.push({ index, start: index * rowHeight });
+  for (let index = first; index <= last; index++) rows.push({ index, start: viewport.top + index * rowHeight - top });
   return rows;
 }
 
-export function useFixedRows(scrollRef: RefObject<HTMLElement | null>, count: number, rowHeight: number, overscan: number) {
+/** `headerSize`: pixels at the top of the scrolling content above the first row (a sticky header). */
+export function useFixedRows(scrollRef: RefObject<HTMLElement | null>, count: number, rowHeight: number, overscan: number, headerSize = 0) {
   const [viewport, setViewport] = useState<Viewport>({ top: 0, height: 0 });
   useLayoutEffect(() => {
     const element = scrollRef.current;
@@ -44,5 +68,7 @@ export function useFixedRows(scrollRef: RefObject<HTMLElement | null>, count: nu
       resizes?.disconnect();
     };
   }, [scrollRef]);
-  return { rows: rowsInView(viewport, count, rowHeight, overscan), totalSize: Math.max(0, count) * rowHeight };
+  // The rows' own viewport: below the header, which stays in view over them.
+  const rowsViewport = { top: viewport.top, height: Math.max(0, viewport.height - headerSize) };
+  return { rows: rowsInView(rowsViewport, count, rowHeight, overscan), totalSize: scrollSize(count, rowHeight) };
 }
