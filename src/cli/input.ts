@@ -191,7 +191,7 @@ async function readBatchesOnce(
   const read = (encoding: EncodingName | null): Promise<ReadSummary> =>
     threadPath !== null && batchRows !== null
       ? readTextInThread(threadPath, settings.delimiter, encoding, batchRows, handlers)
-      : readText(encoding === settings.encoding ? chunks : withFirstChunk(source.chunks()), settings.delimiter, encoding, batchRows, handlers);
+      : readText(encoding === settings.encoding ? chunks : withFirstChunk(source.chunks()), settings.delimiter, encoding, batchRows, handlers, source.size);
   try {
     return await read(settings.encoding);
   } catch (error) {
@@ -225,18 +225,21 @@ async function readTextInThread(
   return { names: result.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: log.findings() };
 }
 
+/** `size`: the source's bytes when known, so that a whole table's storage is made once (ReadOptions.totalBytes). */
 async function readText(
   chunks: AsyncIterable<Uint8Array>,
   delimiter: Delimiter | null,
   encoding: EncodingName | null,
   batchRows: number | null,
   handlers: BatchHandlers,
+  size: number | null,
 ): Promise<ReadSummary> {
   let rows = 0;
   const log = createFindingsLog();
   const reader = createTableReader({
     delimiter,
     encoding,
+    ...(size === null ? {} : { totalBytes: size }),
     ...(batchRows === null
       ? {}
       : {
