@@ -262,10 +262,12 @@ function summarizeTextNumbers(
   nonMissing: number,
   fixedFormat: NumberFormat | undefined,
 ): NumericSummary | null {
-  const format = fixedFormat ?? detectNumberFormat(levels.filter((level) => mayBeNumber(level.value)));
+  const candidates = levels.filter((level) => mayBeNumber(level.value));
+  const format = fixedFormat ?? detectNumberFormat(candidates);
   const read = numberReader(format);
-  const numbers = new Float64Array(levels.length);
-  const weights = new Float64Array(levels.length);
+  // Room for the levels that may be numbers only: an identifier column's million levels need none.
+  const numbers = new Float64Array(candidates.length);
+  const weights = new Float64Array(candidates.length);
   const invalid = new Uint8Array(column.values.length);
   let found = 0;
   let invalidCount = 0;
