@@ -142,8 +142,16 @@ export class ColumnBuilder {
   reserve(rows: number): void {
     if (this.numbers !== null) {
       if (rows > this.numbers.length) this.numbers = resized(this.numbers, rows);
-    } else if (rows > this.codes.length) {
-      this.codes = resized(this.codes, rows);
+      return;
+    }
+    if (rows > this.codes.length) this.codes = resized(this.codes, rows);
+    // Every cell so far a new value (an identifier): its values will be about as many as its rows.
+    const count = this.values.length;
+    if (count > 0 && count === this.length && rows + 1 > this.counts.length) {
+      this.counts = resized(this.counts, rows + 1);
+      this.valueStart = resized(this.valueStart, rows + 1);
+      const bytesPerValue = this.valueStart[count]! / count;
+      this.valueBytes = resized(this.valueBytes, Math.max(this.valueBytes.length, Math.ceil(bytesPerValue * rows * 1.05)));
     }
   }
 
@@ -454,7 +462,7 @@ function detach(text: string): string {
 }
 
 /** A copy of `array` with room for `length` entries. */
-function resized<A extends Uint32Array | Float64Array | Int32Array>(array: A, length: number): A {
+function resized<A extends Uint8Array | Uint32Array | Float64Array | Int32Array>(array: A, length: number): A {
   const bigger = new (array.constructor as new (length: number) => A)(length);
   bigger.set(array);
   return bigger;
