@@ -157,11 +157,14 @@ function encodeNumbers(
   // Number storage holds texts read with a decimal point; a column written with a decimal comma
   // ("1.234" meaning 1234) must be read from its text in the column's own format instead.
   if (source?.kind === 'number' && plan.column.format.decimal === '.') {
-    // Plain numbers need no text at all; only the exceptions are read as text.
+    // Plain numbers need no text at all; only the exceptions are read as text, and the numbers
+    // whose text is a missing token ("-999").
     const flagged = exceptionRows(source, start, rows);
+    const codedMissing = plan.missingNumbers;
     for (let r = 0; r < rows; r++) {
-      const text = flagged === null || flagged[r] === 1 ? source.exceptions.get(start + r) : undefined;
+      let text = flagged === null || flagged[r] === 1 ? source.exceptions.get(start + r) : undefined;
       const v = text === undefined ? (source.values[start + r] ?? NaN) : NaN;
+      if (codedMissing.size > 0 && codedMissing.has(v)) text = String(v);
       const value = text === undefined ? (v - center) / scale : scaled(text);
       if (!Number.isNaN(value)) values[r] = value;
       else numberCell(plan, text ?? '', r, start, values, missing, rejected, table, report);

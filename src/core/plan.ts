@@ -5,7 +5,7 @@
  */
 import { cleaner } from './cleaning.ts';
 import { codesForColumn, transformForColumn, type LevelCodes, type LinearTransform } from './encoders/index.ts';
-import { missingTest, type MissingTest } from './missing.ts';
+import { missingNumbers, missingTest, type MissingTest } from './missing.ts';
 import { MISSING_LEVEL } from './fit.ts';
 import { numberReader } from './numbers.ts';
 import type { CategoricalColumn, ColumnRecipe, ContinuousColumn, Recipe } from './recipe.ts';
@@ -61,6 +61,8 @@ export interface ContinuousPlan extends PlanBase {
   readonly readNumber: (raw: string) => number;
   /** The recipe's missing-value test (the same as Plan.isMissing). */
   readonly isMissing: MissingTest;
+  /** Numbers whose plain text is a missing token (see missingNumbers): number storage holds them without text. */
+  readonly missingNumbers: ReadonlySet<number>;
 }
 
 export interface PassThroughPlan extends PlanBase {
@@ -83,6 +85,7 @@ export interface Plan {
 
 export function compilePlan(recipe: Recipe, header: readonly string[]): Plan {
   const isMissing = missingTest(recipe.reading.missingTokens);
+  const codedMissing = missingNumbers(recipe.reading.missingTokens);
   const position = new Map<string, number>();
   header.forEach((name, i) => {
     if (!position.has(name)) position.set(name, i);
@@ -90,7 +93,7 @@ export function compilePlan(recipe: Recipe, header: readonly string[]): Plan {
   let offset = 0;
   const columns = recipe.columns.map((column): ColumnPlan => {
     const source = position.get(column.name) ?? -1;
-    const plan = planColumn(column, source, offset, isMissing);
+    const plan = planColumn(column, source, offset, isMissing, codedMissing);
     offset += plan.width;
     return plan;
   });
@@ -106,7 +109,7 @@ export function compilePlan(recipe: Recipe, header: readonly string[]): Plan {
   };
 }
 
-function planColumn(column: ColumnRecipe, source: number, offset: number, isMissing: MissingTest): ColumnPlan {
+function planColumn(column: ColumnRecipe, source: number, offset: number, isMissing: MissingTest, codedMissing: ReadonlySet<number>): ColumnPlan {
   const width = column.outputs.length;
   switch (column.level) {
     case 'continuous':
@@ -117,6 +120,7 @@ function planColumn(column: ColumnRecipe, source: number, offset: number, isMiss
         resolve: cached(numberResolver(column, isMissing)),
         readNumber: numberReader(column.format),
         isMissing,
+        missingNumbers: codedMissing,
       };
     case 'nominal':
     case 'ordinal':

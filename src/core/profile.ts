@@ -4,7 +4,7 @@
  */
 import type { Column, NumberColumn, Table, TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
-import { missingTest, type MissingTest } from './missing.ts';
+import { missingNumbers, missingTest, type MissingTest } from './missing.ts';
 import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
 import { DEFAULT_MISSING_TOKENS, type NumberFormat } from './recipe.ts';
 import { sortNumbers } from './sort-numbers.ts';
@@ -326,7 +326,10 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   const isException = new Uint8Array(length);
   for (const row of exceptions.keys()) if (row >= 0 && row < length) isException[row] = 1;
 
-  // The one pass over the cells: plain numbers are gathered, NaN without exception is an empty cell.
+  // The one pass over the cells: plain numbers are gathered, NaN without exception is an empty cell,
+  // and a number whose text is a missing token ("-999") is that missing spelling.
+  const codedMissing = missingNumbers(options.missingTokens);
+  const codedMissingCells = new Map<number, number>();
   const plain = new Float64Array(length);
   let plainCount = 0;
   let plainFractions = 0;
@@ -335,13 +338,17 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
     if (isException[row] === 1) continue;
     const v = values[row] ?? NaN;
     if (Number.isNaN(v)) emptyCells++;
-    else {
+    else if (codedMissing.size > 0 && codedMissing.has(v)) {
+      isException[row] = 1;
+      codedMissingCells.set(v, (codedMissingCells.get(v) ?? 0) + 1);
+    } else {
       plain[plainCount++] = v;
       if (!Number.isInteger(v)) plainFractions++;
     }
   }
 
   const exceptionTexts = tallyExceptions(exceptions, length, isMissing);
+  for (const [value, count] of codedMissingCells) exceptionTexts.missing.push({ value: String(value), count });
   const format = options.format ?? detectNumberFormat([
     ...exceptionTexts.nonMissing,
     // Plain cells speak for point decimals when they have fractions; whole numbers read in any format.
