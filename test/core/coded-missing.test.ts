@@ -36,7 +36,8 @@ describe('numbers coded as missing', () => {
   });
 
   it('profile the same in number storage as in a dictionary: 601 missing, -999 among the spellings', () => {
-    const [fromNumbers, fromDictionary] = [numberStored, dictionary].map((t) => profileTable(t, { missingTokens: TOKENS })[1]!);
+    const fromNumbers = profileTable(numberStored, { missingTokens: TOKENS })[1]!;
+    const fromDictionary = profileTable(dictionary, { missingTokens: TOKENS })[1]!;
     expect(fromNumbers.missing).toBe(601);
     expect(fromNumbers.missingSpellings).toEqual([{ value: '-999', count: 600 }, { value: 'NA', count: 1 }]);
     expect(fromNumbers.missingSpellings).toEqual(fromDictionary.missingSpellings);
