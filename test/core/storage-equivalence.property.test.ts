@@ -7,10 +7,14 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { Table } from '../../src/core/columns.ts';
+import { encodeBatch } from '../../src/core/apply.ts';
+import { createCsvWriter } from '../../src/core/csv-write.ts';
 import { encodeToCsv } from '../../src/core/encode-csv.ts';
+import { decide } from '../../src/core/decisions.ts';
 import { draftRecipe } from '../../src/core/fit.ts';
 import { profileTable, type ColumnProfile } from '../../src/core/profile.ts';
-import { readTable } from '../../src/core/read-table.ts';
+import { compilePlan } from '../../src/core/plan.ts';
+import { createTableReader, readTable } from '../../src/core/read-table.ts';
 
 const SPELLINGS = ['1', '2', '-3', '1.5', '1.50', '007', '0', '-0', '2.25', '1e3', '12345678901234567', '', ' 4', 'NA', 'n/a', '-999', 'x', '12 504'];
 const TOKEN_POOL = ['NA', 'n/a', '-999', '0', '1.5', 'x'];
@@ -53,6 +57,50 @@ describe('number storage and dictionary storage give the same profile and the sa
         },
       ),
       { numRuns: 300 },
+    );
+  });
+});
+
+describe('the streamed path (batches, each choosing its own storage) gives the bytes of the whole table', () => {
+  it('for random cells, batch sizes and dictionary caps', () => {
+    fc.assert(
+      fc.property(
+        // Mostly numbers, so that batches often move to number storage; now and then another spelling.
+        fc.array(fc.oneof({ arbitrary: fc.integer({ min: -50, max: 5000 }).map(String), weight: 8 }, { arbitrary: fc.constantFrom(...SPELLINGS), weight: 1 }), { minLength: 1, maxLength: 150 }),
+        fc.integer({ min: 1, max: 40 }),
+        fc.integer({ min: 2, max: 16 }),
+        (cells, batchRows, dictionaryCap) => {
+          const bytes = csv(cells);
+          const whole = readTable(bytes).table;
+          const missingTokens = ['', 'NA', '-999'];
+          const profiles = profileTable(whole, { missingTokens });
+          // Read as a measurement, whatever the draft proposed (mostly distinct whole numbers look like codes).
+          const drafted = draftRecipe(profiles, { file: 'v.csv', rows: whole.rowCount }, { missingTokens });
+          const recipe = profiles[1]!.numeric === null ? drafted : decide(drafted, { type: 'set-level', column: 'v', level: 'continuous' }, profiles);
+          const expected = new TextDecoder().decode(encodeToCsv(recipe, whole).bytes);
+          // As the command line streams: batches handed over by the reader, encoded and written in turn.
+          const parts: Uint8Array[] = [];
+          let writer: ReturnType<typeof createCsvWriter> | null = null;
+          let plan: ReturnType<typeof compilePlan> | null = null;
+          const reader = createTableReader({
+            batchRows,
+            dictionaryCap,
+            onBatch: (batch) => {
+              plan ??= compilePlan(recipe, batch.names);
+              if (writer === null) {
+                writer = createCsvWriter(plan, (part) => parts.push(part.slice()), 64);
+                writer.writeHeader();
+              }
+              writer.writeBatch(encodeBatch(plan, batch));
+            },
+          });
+          for (let at = 0; at < bytes.length; at += 97) reader.push(bytes.subarray(at, at + 97));
+          reader.finish();
+          (writer as ReturnType<typeof createCsvWriter> | null)?.finish();
+          expect(new TextDecoder().decode(Buffer.concat(parts))).toBe(expected);
+        },
+      ),
+      { numRuns: 200 },
     );
   });
 });
