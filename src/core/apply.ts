@@ -164,7 +164,7 @@ function encodeNumbers(
     for (let r = 0; r < rows; r++) {
       let text = flagged === null || flagged[r] === 1 ? source.exceptions.get(start + r) : undefined;
       const v = text === undefined ? (source.values[start + r] ?? NaN) : NaN;
-      if (codedMissing.size > 0 && codedMissing.has(v)) text = String(v);
+      if (codedMissing.size > 0 && codedMissing.has(v)) text = cellText(source, start + r);
       const value = text === undefined ? (v - center) / scale : scaled(text);
       if (!Number.isNaN(value)) values[r] = value;
       else numberCell(plan, text ?? '', r, start, values, missing, rejected, table, report);

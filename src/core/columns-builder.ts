@@ -81,6 +81,8 @@ export class ColumnBuilder {
   // Number storage.
   private numbers: Float64Array | null = null;
   private exceptions: Map<number, string> | null = null;
+  /** Decimals of cells written with a fixed count of them (see NumberColumn.fixedDigits); made on first need. */
+  private fixedDigits: Uint8Array | null = null;
 
   /**
    * `expected` sizes the storage up front when the caller can tell (the previous batch of the same
@@ -142,6 +144,7 @@ export class ColumnBuilder {
   reserve(rows: number): void {
     if (this.numbers !== null) {
       if (rows > this.numbers.length) this.numbers = resized(this.numbers, rows);
+      if (this.fixedDigits !== null && rows > this.fixedDigits.length) this.fixedDigits = resized(this.fixedDigits, rows);
       return;
     }
     if (rows > this.codes.length) this.codes = resized(this.codes, rows);
@@ -158,7 +161,7 @@ export class ColumnBuilder {
   /** The column as built so far. The builder must not be used afterwards. */
   build(): Column {
     if (this.numbers !== null) {
-      return { kind: 'number', name: this.name, length: this.length, values: this.numbers, exceptions: this.exceptions ?? new Map() };
+      return { kind: 'number', name: this.name, length: this.length, values: this.numbers, exceptions: this.exceptions ?? new Map(), fixedDigits: this.fixedDigits };
     }
     const counts = Array.from(this.counts.subarray(0, this.values.length));
     const values = this.valueTexts();
@@ -304,14 +307,23 @@ export class ColumnBuilder {
 
   private switchToNumbers(): void {
     const texts = this.valueTexts();
-    const valueOfCode = Float64Array.from(texts, (text) => numberValue(text));
-    const keepText = texts.map((text) => !printsBack(text));
+    const valueOfCode = new Float64Array(texts.length);
+    // Per code: 0 prints back, a count of decimals for a fixed form, -1 keeps its text.
+    const formOfCode = new Int8Array(texts.length);
+    texts.forEach((text, code) => {
+      const bytes = utf8Bytes(text);
+      scanner.read(bytes, 0, bytes.length);
+      valueOfCode[code] = scanner.value;
+      formOfCode[code] = scanner.printsBack ? 0 : scanner.fixed > 0 ? scanner.fixed : -1;
+    });
     const numbers = new Float64Array(this.codes.length);
     const exceptions = new Map<number, string>();
     for (let row = 0; row < this.length; row++) {
       const code = this.codes[row]!;
       numbers[row] = valueOfCode[code]!;
-      if (keepText[code]) exceptions.set(row, texts[code]!);
+      const form = formOfCode[code]!;
+      if (form < 0) exceptions.set(row, texts[code]!);
+      else if (form > 0) (this.fixedDigits ??= new Uint8Array(numbers.length))[row] = form;
     }
     this.numbers = numbers;
     this.exceptions = exceptions;
@@ -326,10 +338,16 @@ export class ColumnBuilder {
 
   private pushNumber(bytes: Uint8Array, start: number, end: number, text: string | null): void {
     let numbers = this.numbers!;
-    if (this.length === numbers.length) numbers = this.numbers = grow(numbers);
+    if (this.length === numbers.length) {
+      numbers = this.numbers = grow(numbers);
+      if (this.fixedDigits !== null) this.fixedDigits = resized(this.fixedDigits, numbers.length);
+    }
     scanner.read(bytes, start, end);
     numbers[this.length] = scanner.value;
-    if (!scanner.printsBack) this.exceptions!.set(this.length, text ?? utf8Text(bytes, start, end));
+    if (!scanner.printsBack) {
+      if (scanner.fixed > 0) (this.fixedDigits ??= new Uint8Array(numbers.length))[this.length] = scanner.fixed;
+      else this.exceptions!.set(this.length, text ?? utf8Text(bytes, start, end));
+    }
     this.length++;
   }
 }
@@ -391,6 +409,12 @@ class NumberScanner {
   value = NaN;
   /** Whether String(value) === text (or text is '' and value NaN): cellText needs no copy of the text. */
   printsBack = false;
+  /**
+   * When the text is not what String() writes but is value.toFixed(fixed) ("134.00", "0.50"): its
+   * count of decimals, else 0. Within 15 digits toFixed rounds the double back to the same digits;
+   * -0 ("-0.00") is excluded, as toFixed drops its sign.
+   */
+  fixed = 0;
   private mantissa = 0;
 
   read(bytes: Uint8Array, start: number, end: number): void {
@@ -416,6 +440,8 @@ class NumberScanner {
     if (!plainInteger || !plainFraction) this.printsBack = false;
     else if (n > 15) this.printsBack = String(this.value) === utf8Text(bytes, start, end);
     else this.printsBack = this.value === 0 ? n === 1 : Math.abs(this.value) >= 1e-6;
+    this.fixed =
+      !this.printsBack && plainInteger && fracDigits > 0 && intDigits + fracDigits <= 15 && !(negative && this.value === 0) ? fracDigits : 0;
   }
 
   /** Adds the digits from `from` on to `mantissa`; returns where they stop. */
@@ -443,11 +469,13 @@ class NumberScanner {
     if (!Number.isFinite(value)) return this.notANumber(false);
     this.value = value;
     this.printsBack = String(value) === written;
+    this.fixed = 0;
   }
 
   private notANumber(empty: boolean): void {
     this.value = NaN;
     this.printsBack = empty;
+    this.fixed = 0;
   }
 }
 

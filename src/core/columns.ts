@@ -26,9 +26,10 @@ export interface TextColumn {
 }
 
 /**
- * Storage for a column of plain numbers with many distinct values. Lossless: any cell whose raw
- * text is not exactly `String(values[row])` keeps its text in `exceptions` (missing spellings,
- * stray text, "1.50", " 7"), so `cellText` always gives back what the file said.
+ * Storage for a column of plain numbers with many distinct values. Lossless: a cell written as its
+ * number with a fixed count of decimals ("134.00", "0.50") keeps that count in `fixedDigits`; any
+ * other cell whose raw text is not exactly `String(values[row])` keeps its text in `exceptions`
+ * (missing spellings, stray text, "007", " 7"), so `cellText` always gives back what the file said.
  */
 export interface NumberColumn {
   readonly kind: 'number';
@@ -36,8 +37,13 @@ export interface NumberColumn {
   readonly length: number;
   /** values[row] is the number written in plain JavaScript syntax, NaN otherwise. Length >= `length`. */
   readonly values: Float64Array;
-  /** row index → raw text, for every cell whose text is not exactly String(values[row]). */
+  /** row index → raw text, for every cell whose text is neither String(values[row]) nor fixed (below). */
   readonly exceptions: ReadonlyMap<number, string>;
+  /**
+   * fixedDigits[row] > 0: the cell's text is values[row].toFixed(fixedDigits[row]) ("134.00"),
+   * kept as a byte per row instead of a text per cell. null when no cell is written so.
+   */
+  readonly fixedDigits: Uint8Array | null;
 }
 
 export type Column = TextColumn | NumberColumn;
@@ -80,5 +86,7 @@ export function cellText(column: Column, row: number): string {
   const raw = column.exceptions.get(row);
   if (raw !== undefined) return raw;
   const v = column.values[row] ?? NaN;
-  return Number.isNaN(v) ? '' : String(v);
+  if (Number.isNaN(v)) return '';
+  const digits = column.fixedDigits?.[row] ?? 0;
+  return digits > 0 ? v.toFixed(digits) : String(v);
 }

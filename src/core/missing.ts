@@ -15,18 +15,20 @@ export function missingTest(tokens: readonly string[]): MissingTest {
   };
 }
 
+/** Decimal number text as number storage reads it ("12", "-0.5", "1.50", "1e3"). */
+const DECIMAL = /^-?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
 /**
- * The numbers whose plain text (`String(n)`) is a missing-value token ("-999", "0"). Number storage
- * keeps such cells as plain numbers without their text (columns-builder.ts), so whatever reads
- * number storage by value must test the value against these, or a coded missing value would be
- * read as a number.
+ * The numbers some missing-value token spells ("-999", "0", "0.00"). Number storage keeps most
+ * cells as numbers without their text (columns-builder.ts), so whatever reads number storage by
+ * value must look at the text of a cell holding one of these (cellText) and test that, or a coded
+ * missing value would be read as a number.
  */
 export function missingNumbers(tokens: readonly string[]): ReadonlySet<number> {
   const numbers = new Set<number>();
   for (const token of tokens) {
     const t = token.trim();
-    const value = t === '' ? NaN : Number(t);
-    if (!Number.isNaN(value) && String(value) === t) numbers.add(value);
+    if (DECIMAL.test(t)) numbers.add(Number(t));
   }
   return numbers;
 }

@@ -61,7 +61,7 @@ export interface ContinuousPlan extends PlanBase {
   readonly readNumber: (raw: string) => number;
   /** The recipe's missing-value test (the same as Plan.isMissing). */
   readonly isMissing: MissingTest;
-  /** Numbers whose plain text is a missing token (see missingNumbers): number storage holds them without text. */
+  /** Numbers some missing token spells (see missingNumbers): number storage holds such cells without text. */
   readonly missingNumbers: ReadonlySet<number>;
 }
 

@@ -2,7 +2,7 @@
  * Profile: what each column holds. Computed per distinct value wherever the storage allows, so a
  * million-row column with a few levels costs a pass over its dictionary, not over its cells.
  */
-import type { Column, NumberColumn, Table, TextColumn } from './columns.ts';
+import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
 import { missingNumbers, missingTest, type MissingTest } from './missing.ts';
 import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
@@ -318,7 +318,7 @@ function textShape(levels: readonly LevelCount[], nonMissing: number): TextShape
 }
 
 // ---------------------------------------------------------------------------------------------
-// Number columns: one pass over the Float64Array, then the exceptions map.
+// Number columns: one pass over the Float64Array, reading the texts of the cells that keep one.
 
 function profileNumberColumn(column: NumberColumn, index: number, options: ProfileOptions): ColumnProfile {
   const isMissing = missingTest(options.missingTokens);
@@ -326,29 +326,35 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   const isException = new Uint8Array(length);
   for (const row of exceptions.keys()) if (row >= 0 && row < length) isException[row] = 1;
 
-  // The one pass over the cells: plain numbers are gathered, NaN without exception is an empty cell,
-  // and a number whose text is a missing token ("-999") is that missing spelling.
+  // The one pass over the cells: plain numbers are gathered, NaN without text is an empty cell, and
+  // the others are counted by their text: exceptions, fixed-decimal cells ("134.00"), and numbers a
+  // missing token spells ("-999"). In row order, as the texts appear in the file.
   const codedMissing = missingNumbers(options.missingTokens);
-  const codedMissingCells = new Map<number, number>();
+  const fixed = column.fixedDigits;
+  const texts = new Map<string, number>();
   const plain = new Float64Array(length);
   let plainCount = 0;
   let plainFractions = 0;
   let emptyCells = 0;
   for (let row = 0; row < length; row++) {
-    if (isException[row] === 1) continue;
     const v = values[row] ?? NaN;
-    if (Number.isNaN(v)) emptyCells++;
-    else if (codedMissing.size > 0 && codedMissing.has(v)) {
-      isException[row] = 1;
-      codedMissingCells.set(v, (codedMissingCells.get(v) ?? 0) + 1);
-    } else {
+    const digits = fixed === null ? 0 : (fixed[row] ?? 0);
+    let text: string | undefined;
+    if (isException[row] === 1) text = exceptions.get(row);
+    else if (Number.isNaN(v)) emptyCells++;
+    else if (digits > 0) text = v.toFixed(digits);
+    else if (codedMissing.size > 0 && codedMissing.has(v)) text = String(v); // a plain cell's text
+    else {
       plain[plainCount++] = v;
       if (!Number.isInteger(v)) plainFractions++;
     }
+    if (text !== undefined) {
+      isException[row] = 1;
+      texts.set(text, (texts.get(text) ?? 0) + 1);
+    }
   }
 
-  const exceptionTexts = tallyExceptions(exceptions, length, isMissing);
-  for (const [value, count] of codedMissingCells) exceptionTexts.missing.push({ value: String(value), count });
+  const exceptionTexts = splitByMissing(texts, isMissing);
   const format = options.format ?? detectNumberFormat([
     ...exceptionTexts.nonMissing,
     // Plain cells speak for point decimals when they have fractions; whole numbers read in any format.
@@ -403,13 +409,8 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
 }
 
 /** Exception texts grouped by spelling, split into missing and non-missing, in first-seen order. */
-function tallyExceptions(
-  exceptions: ReadonlyMap<number, string>,
-  length: number,
-  isMissing: MissingTest,
-): { missing: LevelCount[]; nonMissing: LevelCount[] } {
-  const counts = new Map<string, number>();
-  for (const [row, text] of exceptions) if (row >= 0 && row < length) counts.set(text, (counts.get(text) ?? 0) + 1);
+/** Texts with their counts, split into missing and non-missing, in first-seen order. */
+function splitByMissing(counts: ReadonlyMap<string, number>, isMissing: MissingTest): { missing: LevelCount[]; nonMissing: LevelCount[] } {
   const missing: LevelCount[] = [];
   const nonMissing: LevelCount[] = [];
   for (const [value, count] of counts) (isMissing(value) ? missing : nonMissing).push({ value, count });
@@ -453,7 +454,7 @@ function numberColumnInvalidRows(
   const examples: { row: number; text: string }[] = [];
   for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
     if (isException[row] === 1) {
-      const text = column.exceptions.get(row) ?? '';
+      const text = cellText(column, row);
       if (!isMissing(text) && Number.isNaN(read(text))) examples.push({ row, text });
     } else {
       const v = column.values[row] ?? NaN;

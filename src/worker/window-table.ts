@@ -60,5 +60,6 @@ function numberWindow(column: NumberColumn, from: number, to: number): NumberCol
     const raw = column.exceptions.get(row);
     if (raw !== undefined) exceptions.set(row - from, raw);
   }
-  return { kind: 'number', name: column.name, length: to - from, values: column.values.subarray(from, to), exceptions };
+  const fixedDigits = column.fixedDigits === null ? null : column.fixedDigits.subarray(from, to);
+  return { kind: 'number', name: column.name, length: to - from, values: column.values.subarray(from, to), exceptions, fixedDigits };
 }

@@ -20,8 +20,8 @@ function readings(): Uint8Array {
 }
 
 describe('missingNumbers', () => {
-  it('keeps the tokens that are a number written as JavaScript writes it', () => {
-    expect([...missingNumbers(['', 'NA', '-999', ' 0 ', '1.50', '007', '-0', '1e3'])]).toEqual([-999, 0]);
+  it('keeps the numbers the tokens spell, however written', () => {
+    expect([...missingNumbers(['', 'NA', '-999', ' 0 ', '1.50', '007', '1e3', '1,5', '12 504'])]).toEqual([-999, 0, 1.5, 7, 1000]);
   });
 });
 

@@ -79,9 +79,8 @@ describe('switching to number storage', () => {
     ]);
   });
 
-  it('keeps the text only of cells String(value) does not give back', () => {
+  it('keeps the text only of cells neither String(value) nor a fixed count of decimals gives back', () => {
     expect([...column.exceptions.entries()].sort((a, b) => a[0] - b[0])).toEqual([
-      [7, '1.50'],
       [8, 'n/a'],
       [10, ' 7'],
       [11, '-0'],
@@ -89,6 +88,9 @@ describe('switching to number storage', () => {
       [13, '007'],
       [15, '12345678901234567'],
     ]);
+    // "1.50" is 1.5 written with two decimals: (1.5).toFixed(2), a byte instead of a text.
+    expect(column.fixedDigits?.[7]).toBe(2);
+    expect(Array.from(column.fixedDigits?.subarray(0, 16) ?? []).filter((d) => d > 0)).toEqual([2]);
   });
 
   it('with the default cap, 5000 distinct prices with two fixed decimals become numbers', () => {
@@ -96,8 +98,32 @@ describe('switching to number storage', () => {
     const prices = build(cells) as NumberColumn;
     expect(prices.kind).toBe('number');
     expect(textsOf(prices)).toEqual(cells);
-    // Of i/4 for i < 5000, those ending in .00 and .50 keep their text: i % 2 === 0.
-    expect(prices.exceptions.size).toBe(2500);
+    // Of i/4 for i < 5000, those ending in .00 and .50 (i % 2 === 0) are not how String() writes
+    // them: their two decimals are kept, one byte per row, and no text at all.
+    expect(prices.exceptions.size).toBe(0);
+    expect(Array.from(prices.fixedDigits?.subarray(0, 5000) ?? []).filter((d) => d === 2)).toHaveLength(2500);
+  });
+});
+
+describe('fixed decimals', () => {
+  it('gives back every plain decimal of up to 15 digits from its number and its count of decimals (toFixed)', () => {
+    fc.assert(
+      fc.property(fc.bigInt({ min: -(10n ** 15n) + 1n, max: 10n ** 15n - 1n }), fc.integer({ min: 1, max: 14 }), (digits, decimals) => {
+        const sign = digits < 0n ? '-' : '';
+        const body = (digits < 0n ? -digits : digits).toString().padStart(decimals + 1, '0');
+        const text = `${sign}${body.slice(0, body.length - decimals)}.${body.slice(body.length - decimals)}`;
+        if (text.replace(/[-.]/g, '').length > 15) return; // beyond 15 digits such cells keep their text
+        const column = build([...Array.from({ length: 20 }, (_, i) => String(i)), text], 4) as NumberColumn;
+        expect(cellText(column, 20)).toBe(text);
+      }),
+      { numRuns: 2000 },
+    );
+  });
+
+  it('keeps the text of "-0.00", whose sign toFixed would drop', () => {
+    const column = build([...Array.from({ length: 20 }, (_, i) => String(i)), '-0.00', '0.00'], 4) as NumberColumn;
+    expect([...column.exceptions.values()]).toEqual(['-0.00']);
+    expect(textsOf(column).slice(20)).toEqual(['-0.00', '0.00']);
   });
 });
 

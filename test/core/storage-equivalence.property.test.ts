@@ -16,8 +16,8 @@ import { profileTable, type ColumnProfile } from '../../src/core/profile.ts';
 import { compilePlan } from '../../src/core/plan.ts';
 import { createTableReader, readTable } from '../../src/core/read-table.ts';
 
-const SPELLINGS = ['1', '2', '-3', '1.5', '1.50', '007', '0', '-0', '2.25', '1e3', '12345678901234567', '', ' 4', 'NA', 'n/a', '-999', 'x', '12 504'];
-const TOKEN_POOL = ['NA', 'n/a', '-999', '0', '1.5', 'x'];
+const SPELLINGS = ['1', '2', '-3', '1.5', '1.50', '007', '0', '-0', '0.00', '-0.00', '2.25', '2.250', '1e3', '12345678901234567', '', ' 4', 'NA', 'n/a', '-999', 'x', '12 504'];
+const TOKEN_POOL = ['NA', 'n/a', '-999', '0', '1.5', '1.50', '0.00', 'x'];
 
 /** A table of one column `v` (and a row number), as CSV bytes. */
 function csv(cells: readonly string[]): Uint8Array {
