@@ -206,6 +206,23 @@ async function readBatchesOnce(
   }
 }
 
+/** Hands each batch to the handlers, noting what reading found in it, and counts the rows handed. */
+function batchTaker(handlers: BatchHandlers) {
+  const log = createFindingsLog();
+  let rows = 0;
+  return {
+    log,
+    get rows(): number {
+      return rows;
+    },
+    take(batch: Table, firstRow: number): void {
+      log.add(batch.rowIssues, batch.headerIssues);
+      handlers.onBatch(batch, 0, batch.rowCount, firstRow);
+      rows += batch.rowCount;
+    },
+  };
+}
+
 /** As readText, with the reading on a second thread (read-thread.ts). */
 async function readTextInThread(
   path: string,
@@ -214,15 +231,12 @@ async function readTextInThread(
   batchRows: number,
   handlers: BatchHandlers,
 ): Promise<ReadSummary> {
-  let rows = 0;
-  const log = createFindingsLog();
+  const taker = batchTaker(handlers);
   const result = await readBatchesInThread(path, { delimiter, encoding, batchRows }, async (batch, firstRow, bytesRead) => {
-    log.add(batch.rowIssues, batch.headerIssues);
-    handlers.onBatch(batch, 0, batch.rowCount, firstRow);
-    rows += batch.rowCount;
-    await handlers.afterChunk(bytesRead, rows);
+    taker.take(batch, firstRow);
+    await handlers.afterChunk(bytesRead, taker.rows);
   });
-  return { names: result.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: log.findings() };
+  return { names: result.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: taker.log.findings() };
 }
 
 /** `size`: the source's bytes when known, so that a whole table's storage is made once (ReadOptions.totalBytes). */
@@ -234,39 +248,26 @@ async function readText(
   handlers: BatchHandlers,
   size: number | null,
 ): Promise<ReadSummary> {
-  let rows = 0;
-  const log = createFindingsLog();
+  const taker = batchTaker(handlers);
   const reader = createTableReader({
     delimiter,
     encoding,
     ...(size === null ? {} : { totalBytes: size }),
-    ...(batchRows === null
-      ? {}
-      : {
-          batchRows,
-          onBatch: (batch: Table, firstRow: number) => {
-            log.add(batch.rowIssues, batch.headerIssues);
-            handlers.onBatch(batch, 0, batch.rowCount, firstRow);
-            rows += batch.rowCount;
-          },
-        }),
+    ...(batchRows === null ? {} : { batchRows, onBatch: (batch: Table, firstRow: number) => taker.take(batch, firstRow) }),
   });
   for await (const chunk of chunks) {
     reader.push(chunk);
-    await handlers.afterChunk(reader.bytesRead, rows);
+    await handlers.afterChunk(reader.bytesRead, taker.rows);
   }
   const result: ReadResult = reader.finish();
-  if (batchRows === null) {
-    log.add(result.table.rowIssues, result.table.headerIssues);
-    handlers.onBatch(result.table, 0, result.table.rowCount, 0);
-  }
+  if (batchRows === null) taker.take(result.table, 0);
   return {
     names: result.table.names,
     rows: result.totalRows,
     encoding: result.encoding,
     delimiter: result.delimiter,
     sheet: null,
-    findings: log.findings(),
+    findings: taker.log.findings(),
   };
 }
 

@@ -1,4 +1,5 @@
 /** Which cell texts mean "no value". */
+import { numberValue } from './columns-builder.ts';
 
 /** A fast membership test for one recipe's or profile's missing-value tokens. */
 export type MissingTest = (raw: string) => boolean;
@@ -15,20 +16,17 @@ export function missingTest(tokens: readonly string[]): MissingTest {
   };
 }
 
-/** Decimal number text as number storage reads it ("12", "-0.5", "1.50", "1e3"). */
-const DECIMAL = /^-?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-
 /**
- * The numbers some missing-value token spells ("-999", "0", "0.00"). Number storage keeps most
- * cells as numbers without their text (columns-builder.ts), so whatever reads number storage by
- * value must look at the text of a cell holding one of these (cellText) and test that, or a coded
- * missing value would be read as a number.
+ * The numbers some missing-value token spells ("-999", "0", "0.00"), read with number storage's own
+ * grammar (columns-builder.ts). Number storage keeps most cells as numbers without their text, so
+ * whatever reads it by value must look at the text of a cell holding one of these (cellText) and
+ * test that, or a coded missing value would be read as a number.
  */
 export function missingNumbers(tokens: readonly string[]): ReadonlySet<number> {
   const numbers = new Set<number>();
   for (const token of tokens) {
-    const t = token.trim();
-    if (DECIMAL.test(t)) numbers.add(Number(t));
+    const value = numberValue(token.trim());
+    if (!Number.isNaN(value)) numbers.add(value);
   }
   return numbers;
 }

@@ -35,7 +35,7 @@ export function utf8Text(bytes: Uint8Array, start: number, end: number): string 
   }
 }
 
-export function isAscii(bytes: Uint8Array, start: number, end: number): boolean {
+function isAscii(bytes: Uint8Array, start: number, end: number): boolean {
   for (let i = start; i < end; i++) if (bytes[i]! >= 0x80) return false;
   return true;
 }
