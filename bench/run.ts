@@ -108,6 +108,13 @@ async function chooseApplyPath(choice: ApplyChoice, recipeFile: string, recipe: 
   };
 }
 
+/** The profile path on threads, through the command line: `levelwise draft` reads, profiles and drafts. */
+async function measureDraftCli(file: string): Promise<number> {
+  const run = await runCli(['draft', file, '-o', '/dev/null']);
+  if (run.exitCode !== 0) throw new Error(`levelwise draft ${shown(file)} failed (exit ${run.exitCode}):\n${run.stderr.slice(-3000)}`);
+  return run.wallSeconds;
+}
+
 async function measureApply(path: ApplyPath, file: string, recipeFile: string): Promise<{ seconds: number; peakRssBytes: number; bytesWritten: number | null }> {
   if (path.kind === 'cli') {
     const run = await runCli(['apply', recipeFile, file, '-o', '/dev/null']);
@@ -125,6 +132,7 @@ async function measureApply(path: ApplyPath, file: string, recipeFile: string): 
 interface Runs {
   parse: number[];
   profile: number[];
+  profileThreads: number[];
   phases: Record<string, number>[];
   apply: number[];
   applyRss: number[];
@@ -132,7 +140,7 @@ interface Runs {
 }
 
 async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile: string): Promise<SizeResult[]> {
-  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], phases: [], apply: [], applyRss: [], bytesWritten: null }]));
+  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], profileThreads: [], phases: [], apply: [], applyRss: [], bytesWritten: null }]));
   for (let rep = 1; rep <= args.reps; rep++) {
     for (const rows of args.sizes) {
       const file = dataFile(rows);
@@ -144,6 +152,7 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
         const profile = await measureInChild<TimedResult>('profile', [file]);
         r.profile.push(profile.result.seconds);
         r.phases.push({ ...profile.result.phases });
+        if (applyPath.kind === 'cli') r.profileThreads.push(await measureDraftCli(file));
         checkRows(rows, 'parse', parse.result.rows);
         checkRows(rows, 'profile', profile.result.rows);
       }
@@ -151,7 +160,7 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
       r.apply.push(apply.seconds);
       r.applyRss.push(apply.peakRssBytes);
       r.bytesWritten = apply.bytesWritten;
-      progress(`${label}: parse ${last(r.parse)} s, profile ${last(r.profile)} s, apply ${last(r.apply)} s`);
+      progress(`${label}: parse ${last(r.parse)} s, profile ${last(r.profile)} s (threads ${last(r.profileThreads)} s), apply ${last(r.apply)} s`);
     }
   }
   const results: SizeResult[] = [];
@@ -162,6 +171,7 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
     const full = measuresEverything(rows);
     const parse = full ? timing(r.parse, bytes) : null;
     const profile: ProfileTiming | null = full ? { ...timing(r.profile, bytes), phasesSeconds: medianPhases(r.phases) } : null;
+    const profileThreads = full && r.profileThreads.length > 0 ? timing(r.profileThreads, bytes) : null;
     const applyTiming = timing(r.apply, bytes);
     const startup = applyPath.kind === 'cli' ? applyPath.startupSeconds : null;
     const apply: ApplyTiming = {
@@ -172,7 +182,7 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
       mbPerSecondExcludingStartup: startup === null ? null : megabytesPerSecond(bytes, applyTiming.medianSeconds - startup),
     };
     const tableMemory = full ? await measureTableMemory(file, bytes) : null;
-    results.push({ rows, file: shown(file), bytes, parse, profile, apply, tableMemory, ...sizeVerdicts(parse, profile, apply) });
+    results.push({ rows, file: shown(file), bytes, parse, profile, profileThreads, apply, tableMemory, ...sizeVerdicts(parse, profile, profileThreads, apply) });
   }
   return results;
 }

@@ -15,7 +15,7 @@ import { parseRecipe } from '../core/recipe-io.ts';
 import type { Recipe } from '../core/recipe.ts';
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import { CliFailure, readingFailure } from './failure.ts';
-import { canReadInThread, readBatchesInThread } from './read-thread.ts';
+import { canReadInThread, readBatchesInThread, readTableInThreads } from './read-thread.ts';
 import { createFindingsLog, type ReadingFindings } from './reading-findings.ts';
 import { recipeFailure } from './recipe-problems.ts';
 
@@ -185,13 +185,17 @@ async function readBatchesOnce(
   const chunks = withFirstChunk(source.chunks());
   const first = await chunks.first();
   if (first !== null && ZIP_MAGIC.every((b, i) => first[i] === b)) return readWorkbook(source, chunks, settings, batchRows, handlers);
-  // A file read batch by batch goes to a second thread, which reads it from its path.
-  const threadPath = source.path !== null && batchRows !== null && canReadInThread() ? source.path : null;
+  // A file is read on other threads, which read it from its path (read-thread.ts).
+  const threadPath = source.path !== null && canReadInThread() ? source.path : null;
   if (threadPath !== null) await chunks.close();
-  const read = (encoding: EncodingName | null): Promise<ReadSummary> =>
-    threadPath !== null && batchRows !== null
-      ? readTextInThread(threadPath, settings.delimiter, encoding, batchRows, handlers)
-      : readText(encoding === settings.encoding ? chunks : withFirstChunk(source.chunks()), settings.delimiter, encoding, batchRows, handlers, source.size);
+  const read = (encoding: EncodingName | null): Promise<ReadSummary> => {
+    if (threadPath === null) {
+      return readText(encoding === settings.encoding ? chunks : withFirstChunk(source.chunks()), settings.delimiter, encoding, batchRows, handlers, source.size);
+    }
+    return batchRows === null
+      ? readWholeInThreads(threadPath, settings.delimiter, encoding, handlers)
+      : readTextInThread(threadPath, settings.delimiter, encoding, batchRows, handlers);
+  };
   try {
     return await read(settings.encoding);
   } catch (error) {
@@ -237,6 +241,14 @@ async function readTextInThread(
     await handlers.afterChunk(bytesRead, taker.rows);
   });
   return { names: result.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: taker.log.findings() };
+}
+
+/** As readText with every row in one table, read on several threads (read-thread.ts). */
+async function readWholeInThreads(path: string, delimiter: Delimiter | null, encoding: EncodingName | null, handlers: BatchHandlers): Promise<ReadSummary> {
+  const taker = batchTaker(handlers);
+  const result = await readTableInThreads(path, { delimiter, encoding }, (bytes) => void handlers.afterChunk(bytes, 0));
+  taker.take(result.table, 0);
+  return { names: result.table.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: taker.log.findings() };
 }
 
 /** `size`: the source's bytes when known, so that a whole table's storage is made once (ReadOptions.totalBytes). */

@@ -1,42 +1,90 @@
 /**
- * Reading a text file on a second thread while the first encodes and writes: `levelwise apply`
- * spends about as long reading rows into batches (core's table reader) as encoding and writing
- * them, so on a machine with two cores the two halves overlap. The batches cross as Tables whose
- * typed arrays are transferred, not copied; only the dictionaries' strings are cloned.
+ * Reading a text file on other threads while this one encodes and writes. `levelwise apply` spends
+ * longer reading rows into batches (core's table reader) than encoding and writing them, so the
+ * file is read in segments (core read-segment.ts) by several reading threads at once, and this
+ * thread takes their batches in file order (core segment-order.ts):
  *
- * The reading thread runs the same code as the rest of the command line: the bundle that
- * bin/levelwise.js loads, started again as a worker, which finds its job in `workerData`. When the
- * command line runs from its TypeScript sources (no bundle), there is no file a worker could load,
- * and reading stays on one thread (`canReadInThread`).
+ * 1. One thread reads the file's start (header, encoding, delimiter, the first rows) with the table
+ *    reader's `stopAt`, and says where it stopped. A file that cannot be cut (not UTF-8, lone CR
+ *    line breaks, one column) or is small is read to the end right there, by that thread alone.
+ * 2. The rest is cut into segments of SEGMENT_BYTES, handed round the threads. A segment that
+ *    began inside a quoted field (it does not start where the one before stopped) is read again
+ *    from the right place, so quoted line breaks cost time, never correctness.
  *
- * At most MAX_BATCHES_AHEAD batches wait for the encoding thread, so memory stays flat however
- * long the file: the reading thread waits on a shared counter when it is that far ahead.
+ * The batches cross as Tables whose typed arrays are transferred, not copied; only dictionaries'
+ * strings are cloned. At most SEGMENTS_AHEAD segments per thread are handed out and not yet taken,
+ * so memory stays flat however long the file.
+ *
+ * The threads run the same code as the rest of the command line: the bundle that bin/levelwise.js
+ * loads, started again as a worker, which finds its role in `workerData`. When the command line
+ * runs from its TypeScript sources (no bundle), there is no file a worker could load, and reading
+ * stays on this thread (`canReadInThread`).
  */
-import { openSync, readSync, closeSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import type { Table } from '../core/columns.ts';
+import { tableBuffers, type Table } from '../core/columns.ts';
 import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
-import { createTableReader, type Delimiter } from '../core/read-table.ts';
+import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
+import { createSegmentReader, rebaseRows } from '../core/read-segment.ts';
+import { readInParallel, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
+import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
 
-const JOB = 'levelwise-read-batches';
-const MAX_BATCHES_AHEAD = 3;
+const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
-const WAIT_MS = 200;
+/** The size of a segment: several batches' worth, so a segment's start-up is paid rarely. */
+const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 8 << 20;
+/** Where the first thread stops reading the file's start alone (the others wait for it). */
+const FIRST_STOP = Math.min(1 << 20, SEGMENT_BYTES);
+/** A whole table is read on one thread below this size: starting threads would cost more than it saves. */
+const PARALLEL_FROM_BYTES = Number(process.env.LEVELWISE_PARALLEL_FROM_BYTES) || 16 << 20;
+/** Segments handed to a thread and not yet taken by this one. */
+const SEGMENTS_AHEAD = 2;
 
-interface ReadJob {
-  readonly job: typeof JOB;
-  readonly path: string;
+/** Reading threads: one per core, at most four (the encoding thread needs a core too). */
+function readingThreads(): number {
+  const asked = Number(process.env.LEVELWISE_READING_THREADS);
+  if (asked >= 1) return Math.floor(asked);
+  return Math.max(1, Math.min(4, availableParallelism()));
+}
+
+interface Settings {
   readonly delimiter: Delimiter | null;
   readonly encoding: EncodingName | null;
   readonly batchRows: number;
-  /** Int32 [0]: batches posted and not yet taken by the encoding thread. */
-  readonly ahead: SharedArrayBuffer;
 }
 
+/** What a thread is asked to read. */
+type ToReader =
+  | { readonly type: 'start'; readonly id: number; readonly settings: Settings; readonly stopAt: number }
+  | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest };
+
 type FromReader =
-  | { readonly type: 'batch'; readonly table: Table; readonly firstRow: number; readonly bytesRead: number }
-  | { readonly type: 'done'; readonly names: readonly string[]; readonly totalRows: number; readonly encoding: EncodingName; readonly delimiter: Delimiter }
+  | { readonly type: 'batch'; readonly id: number; readonly table: Table; readonly firstRow: number; readonly bytesRead: number }
+  | {
+      readonly type: 'started';
+      readonly id: number;
+      readonly names: readonly string[];
+      readonly rows: number;
+      readonly encoding: EncodingName;
+      readonly encodingGuessed: boolean;
+      readonly delimiter: Delimiter;
+      readonly stoppedAt: number | null;
+      readonly lineBreaks: number;
+      readonly columnHints: ColumnHints | null;
+    }
+  | {
+      readonly type: 'segment';
+      readonly id: number;
+      readonly table: Table;
+      readonly start: number;
+      readonly end: number;
+      readonly rows: number;
+      readonly lineBreaks: number;
+      readonly emptyLinesSkipped: number;
+      readonly bytesRead: number;
+    }
   | { readonly type: 'failed'; readonly code: string | null; readonly message: string; readonly hint: string; readonly stack?: string };
 
 export interface ThreadReadResult {
@@ -46,61 +94,220 @@ export interface ThreadReadResult {
   readonly delimiter: Delimiter;
 }
 
-/** Whether this command line can start a reading thread: it runs from a bundled JavaScript file. */
+/** Whether this command line can start reading threads: it runs from a bundled JavaScript file. */
 export function canReadInThread(): boolean {
   return import.meta.url.endsWith('.mjs') || import.meta.url.endsWith('.js');
 }
 
 /**
- * Reads the file at `path` on a second thread; `onBatch` receives each batch in order, and the
- * next batch waits until the promise it returns has settled.
+ * Reads the file at `path` on other threads; `onBatch` receives each batch in file order, its rows
+ * numbered from the file's start, and the next batch waits until the promise it returns has settled.
  */
 export async function readBatchesInThread(
   path: string,
-  settings: { delimiter: Delimiter | null; encoding: EncodingName | null; batchRows: number },
+  settings: Settings,
   onBatch: (table: Table, firstRow: number, bytesRead: number) => Promise<void>,
 ): Promise<ThreadReadResult> {
-  const ahead = new SharedArrayBuffer(4);
-  const counter = new Int32Array(ahead);
-  const job: ReadJob = { job: JOB, path, delimiter: settings.delimiter, encoding: settings.encoding, batchRows: settings.batchRows, ahead };
-  const worker = new Worker(new URL(import.meta.url), { workerData: job });
-  const messages = messageQueue(worker);
+  const fileBytes = fstatOf(path);
+  const workers = Array.from({ length: readingThreads() }, () => startReadingThread(path));
+  const inbox = new Inbox(workers);
   try {
+    // 1. The file's start, on the first thread.
+    const firstId = inbox.send(0, { type: 'start', id: 0, settings, stopAt: FIRST_STOP });
+    let started: Extract<FromReader, { type: 'started' }> | null = null;
     for (;;) {
-      const message = await messages.next();
-      if (message.type === 'failed') throw readerFailure(message);
-      if (message.type === 'done') return { names: message.names, totalRows: message.totalRows, encoding: message.encoding, delimiter: message.delimiter };
-      await onBatch(message.table, message.firstRow, message.bytesRead);
-      Atomics.sub(counter, 0, 1);
-      Atomics.notify(counter, 0);
+      const message = await inbox.next(firstId);
+      if (message.type === 'batch') await onBatch(message.table, message.firstRow, message.bytesRead);
+      else if (message.type === 'started') {
+        started = message;
+        break;
+      }
     }
+    const result = { names: started.names, encoding: started.encoding, delimiter: started.delimiter };
+    if (started.stoppedAt === null) return { ...result, totalRows: started.rows };
+
+    // 2. The rest in segments, taken in file order.
+    const order = new SegmentOrder({ end: started.stoppedAt, rows: started.rows, lineBreaks: started.lineBreaks });
+    const queue: SegmentJob[] = segmentJobs(started.stoppedAt, fileBytes, SEGMENT_BYTES);
+    const segmentRequest = (job: SegmentJob): ToReader => ({
+      type: 'segment',
+      id: 0,
+      request: { job, names: started.names, delimiter: started.delimiter, encodingGuessed: started.encodingGuessed, columnHints: started.columnHints },
+    });
+    // Segments handed out, in file order: [job, message id].
+    const handedOut: [SegmentJob, number][] = [];
+    const handOut = (): void => {
+      while (queue.length > 0 && handedOut.length < SEGMENTS_AHEAD * workers.length) {
+        const job = queue.shift()!;
+        handedOut.push([job, inbox.send(inbox.leastBusy(), segmentRequest(job))]);
+      }
+    };
+    handOut();
+    while (handedOut.length > 0) {
+      const [job, id] = handedOut.shift()!;
+      const segment = await inbox.next(id);
+      if (segment.type !== 'segment') throw new Error(`reading thread: unexpected ${segment.type} message`);
+      const placement = order.check(job, segment.start);
+      if (placement.kind === 'take') {
+        order.advance(segment);
+        await onBatch(rebaseRows(segment.table, placement.rowOffset, placement.lineOffset), placement.rowOffset, segment.bytesRead);
+      } else if (placement.kind === 'redo') {
+        // It began inside a quoted field: read again from the true boundary, before anything later.
+        handedOut.unshift([placement.job, inbox.send(inbox.leastBusy(), segmentRequest(placement.job))]);
+      }
+      handOut();
+    }
+    return { ...result, totalRows: order.rows };
   } finally {
-    await worker.terminate();
+    await Promise.all(workers.map((worker) => worker.terminate()));
   }
 }
 
-/** Messages from the worker in order, as promises; an exit without 'done' is a failure. */
-function messageQueue(worker: Worker): { next(): Promise<FromReader> } {
-  const arrived: FromReader[] = [];
-  let waiting: ((message: FromReader) => void) | null = null;
-  const deliver = (message: FromReader): void => {
-    if (waiting === null) arrived.push(message);
-    else {
-      const resolve = waiting;
-      waiting = null;
-      resolve(message);
+/**
+ * The whole table of the file at `path` (profile, draft), read on this thread and the reading
+ * threads, one segment each, joined in file order (core parallel-read.ts). `onBytes` is told the
+ * bytes read so far, for progress.
+ */
+export async function readTableInThreads(path: string, settings: Omit<Settings, 'batchRows'>, onBytes: (bytes: number) => void = () => undefined): Promise<ReadResult> {
+  const fileBytes = fstatOf(path);
+  const count = fileBytes >= PARALLEL_FROM_BYTES ? readingThreads() - 1 : 0;
+  const workers = Array.from({ length: count }, () => startReadingThread(path));
+  const inbox = new Inbox(workers);
+  let done = 0;
+  const runners: SegmentRunner[] = workers.map((_, w) => async (request) => {
+    const id = inbox.send(w, { type: 'segment', id: 0, request });
+    const answer = await inbox.next(id);
+    if (answer.type !== 'segment') throw new Error(`reading thread: unexpected ${answer.type} message`);
+    done += answer.bytesRead - request.job.firstByte;
+    onBytes(Math.min(done, fileBytes));
+    return answer;
+  });
+  const parallel = readInParallel(fileBytes, runners);
+  try {
+    const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop });
+    // Chunks no larger than the first segment, so that the reader can stop near its end.
+    const buffer = new Uint8Array(Math.min(CHUNK_BYTES, parallel.firstStop));
+    const fd = openSync(path, 'r');
+    try {
+      let position = 0;
+      for (let read = readSync(fd, buffer, 0, buffer.length, 0); read > 0; read = readSync(fd, buffer, 0, buffer.length, position)) {
+        position += read;
+        done += read;
+        reader.push(buffer.subarray(0, read));
+        parallel.pushed(reader.segmenting);
+        onBytes(Math.min(done, fileBytes));
+        if (reader.stoppedAt !== null) break;
+      }
+    } finally {
+      closeSync(fd);
     }
-  };
-  worker.on('message', deliver);
-  worker.on('error', (error: Error) => deliver({ type: 'failed', code: null, message: error.message, hint: '', ...(error.stack ? { stack: error.stack } : {}) }));
-  worker.on('exit', (exitCode) => deliver({ type: 'failed', code: null, message: `the reading thread stopped (exit code ${exitCode})`, hint: '' }));
-  return {
-    next: () => {
-      const message = arrived.shift();
-      if (message !== undefined) return Promise.resolve(message);
-      return new Promise((resolve) => (waiting = resolve));
-    },
-  };
+    return await parallel.finish(reader.finish());
+  } finally {
+    await Promise.all(workers.map((worker) => worker.terminate()));
+  }
+}
+
+function startReadingThread(path: string): Worker {
+  const workerData = { role: ROLE, path, entry: import.meta.url };
+  if (!import.meta.url.endsWith('.ts')) return new Worker(new URL(import.meta.url), { workerData });
+  return new Worker(new URL('./read-thread-sources.mjs', import.meta.url), { workerData });
+}
+
+function fstatOf(path: string): number {
+  const fd = openSync(path, 'r');
+  try {
+    return fstatSync(fd).size;
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/**
+ * Messages from the reading threads, sorted by the request they answer; any thread's failure (or
+ * exit) fails every wait.
+ */
+class Inbox {
+  private readonly workers: readonly Worker[];
+  private readonly queues = new Map<number, FromReader[]>();
+  private readonly pending: number[];
+  private readonly ownerOf = new Map<number, number>();
+  private readonly waiting = new Map<number, { resolve: (message: FromReader) => void; reject: (error: Error) => void }>();
+  private failure: Error | null = null;
+  private nextId = 1;
+
+  constructor(workers: readonly Worker[]) {
+    this.workers = workers;
+    this.pending = workers.map(() => 0);
+    workers.forEach((worker) => {
+      worker.on('message', (message: FromReader) => this.deliver(message));
+      worker.on('error', (error: Error) => this.fail(error));
+      worker.on('exit', (exitCode) => this.fail(new Error(`a reading thread stopped (exit code ${exitCode})`)));
+    });
+  }
+
+  /** Sends a request to thread `worker`; returns the id its answers carry. */
+  send(worker: number, request: ToReader): number {
+    const id = this.nextId++;
+    this.queues.set(id, []);
+    this.ownerOf.set(id, worker);
+    this.pending[worker]!++;
+    this.workers[worker]!.postMessage({ ...request, id });
+    return id;
+  }
+
+  /** The thread with the fewest requests not yet fully answered. */
+  leastBusy(): number {
+    let best = 0;
+    for (let w = 1; w < this.pending.length; w++) if (this.pending[w]! < this.pending[best]!) best = w;
+    return best;
+  }
+
+  /** The next answer to request `id`, in the order the thread sent them. */
+  next(id: number): Promise<FromReader> {
+    if (this.failure !== null) return Promise.reject(this.failure);
+    const queue = this.queues.get(id);
+    const message = queue?.shift();
+    if (message !== undefined) {
+      this.settled(id, message);
+      return Promise.resolve(message);
+    }
+    return new Promise((resolve, reject) => this.waiting.set(id, { resolve, reject }));
+  }
+
+  private deliver(message: FromReader): void {
+    if (message.type === 'failed') {
+      this.fail(readerFailure(message));
+      return;
+    }
+    const queue = this.queues.get(message.id);
+    const waiting = this.waiting.get(message.id);
+    if (waiting !== undefined) {
+      this.waiting.delete(message.id);
+      this.settled(message.id, message);
+      waiting.resolve(message);
+      return;
+    }
+    queue?.push(message);
+  }
+
+  /** A request's last answer has been taken: its thread has one request fewer. */
+  private settled(id: number, message: FromReader): void {
+    if (!isLast(message)) return;
+    const worker = this.ownerOf.get(id);
+    if (worker !== undefined) this.pending[worker]!--;
+    this.ownerOf.delete(id);
+    this.queues.delete(id);
+  }
+
+  private fail(error: Error): void {
+    this.failure ??= error;
+    for (const waiting of this.waiting.values()) waiting.reject(this.failure);
+    this.waiting.clear();
+  }
+}
+
+function isLast(message: FromReader): boolean {
+  return message.type !== 'batch';
 }
 
 function readerFailure(message: Extract<FromReader, { type: 'failed' }>): Error {
@@ -111,53 +318,94 @@ function readerFailure(message: Extract<FromReader, { type: 'failed' }>): Error 
 }
 
 // ---------------------------------------------------------------------------------------------
-// The reading thread
+// A reading thread: answers requests one after the other.
 
-function runReadJob(job: ReadJob, port: NonNullable<typeof parentPort>): void {
-  const counter = new Int32Array(job.ahead);
-  let bytesRead = 0;
-  const post = (table: Table, firstRow: number): void => {
-    // Wait while the encoding thread has enough batches in hand. The wait is timed so that a
-    // thread being terminated (the encoding side failed) never stays blocked in it.
-    for (let ahead = Atomics.load(counter, 0); ahead >= MAX_BATCHES_AHEAD; ahead = Atomics.load(counter, 0)) Atomics.wait(counter, 0, ahead, WAIT_MS);
-    Atomics.add(counter, 0, 1);
-    port.postMessage({ type: 'batch', table, firstRow, bytesRead } satisfies FromReader, transferables(table));
-  };
-  try {
-    const reader = createTableReader({ delimiter: job.delimiter, encoding: job.encoding, batchRows: job.batchRows, onBatch: post });
-    const buffer = new Uint8Array(CHUNK_BYTES);
-    const fd = openSync(job.path, 'r');
+function serve(path: string, port: NonNullable<typeof parentPort>): void {
+  const fd = openSync(path, 'r');
+  const buffer = new Uint8Array(CHUNK_BYTES);
+  port.on('message', (request: ToReader) => {
     try {
-      for (let read = readSync(fd, buffer); read > 0; read = readSync(fd, buffer)) {
-        bytesRead += read;
-        reader.push(buffer.subarray(0, read));
-      }
-    } finally {
-      closeSync(fd);
+      if (request.type === 'start') readStart(request, fd, buffer, port);
+      else readSegment(request, fd, buffer, port);
+    } catch (error) {
+      port.postMessage(failed(error));
     }
-    const result = reader.finish();
-    port.postMessage({ type: 'done', names: result.table.names, totalRows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter } satisfies FromReader);
-  } catch (error) {
-    const failed: FromReader = isLevelwiseError(error)
-      ? { type: 'failed', code: error.code, message: error.message, hint: error.hint }
-      : { type: 'failed', code: null, message: error instanceof Error ? error.message : String(error), hint: '', ...(error instanceof Error && error.stack ? { stack: error.stack } : {}) };
-    port.postMessage(failed);
+  });
+}
+
+function readStart(request: Extract<ToReader, { type: 'start' }>, fd: number, buffer: Uint8Array, port: NonNullable<typeof parentPort>): void {
+  let bytesRead = 0;
+  const { settings } = request;
+  const reader = createTableReader({
+    delimiter: settings.delimiter,
+    encoding: settings.encoding,
+    batchRows: settings.batchRows,
+    stopAt: request.stopAt,
+    onBatch: (table, firstRow) => post(port, { type: 'batch', id: request.id, table, firstRow, bytesRead }),
+  });
+  // Chunks no larger than the stop, so that the reader can stop near it.
+  const chunk = Math.min(buffer.length, request.stopAt);
+  for (let read = readSync(fd, buffer, 0, chunk, 0); read > 0; read = readSync(fd, buffer, 0, chunk, bytesRead)) {
+    bytesRead += read;
+    reader.push(buffer.subarray(0, read));
+    if (reader.stoppedAt !== null) break;
   }
+  const result = reader.finish();
+  port.postMessage({
+    type: 'started',
+    id: request.id,
+    names: result.table.names,
+    rows: result.totalRows,
+    encoding: result.encoding,
+    encodingGuessed: result.encodingGuessed,
+    delimiter: result.delimiter,
+    stoppedAt: result.stoppedAt,
+    lineBreaks: result.lineBreaks,
+    columnHints: result.columnHints,
+  } satisfies FromReader);
 }
 
-/** The buffers of a batch's typed arrays, each its own: moved to the other thread, not copied. */
-function transferables(table: Table): ArrayBuffer[] {
-  const buffers = new Set<ArrayBuffer>();
-  const add = (array: { buffer: ArrayBufferLike }): void => {
-    if (array.buffer instanceof ArrayBuffer) buffers.add(array.buffer);
-  };
-  add(table.lineOfRow);
-  for (const column of table.columns) add(column.kind === 'text' ? column.codes : column.values);
-  return [...buffers];
+function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd: number, buffer: Uint8Array, port: NonNullable<typeof parentPort>): void {
+  const { job } = request;
+  const fileBytes = fstatSync(fd).size;
+  let position = job.firstByte;
+  const reader = createSegmentReader({
+    names: request.names,
+    delimiter: request.delimiter,
+    firstByte: job.firstByte,
+    stopAt: job.stopAt,
+    encodingGuessed: request.encodingGuessed,
+    totalBytes: Math.min(job.stopAt, fileBytes) - job.firstByte,
+    ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),
+    ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
+  });
+  let atEnd = false;
+  for (;;) {
+    const read = readSync(fd, buffer, 0, buffer.length, position);
+    if (read === 0) {
+      atEnd = true;
+      break;
+    }
+    position += read;
+    if (!reader.push(buffer.subarray(0, read))) break;
+  }
+  const { table, start, end, rows, lineBreaks, emptyLinesSkipped } = reader.finish(atEnd);
+  const message: FromReader = { type: 'segment', id, table, start, end, rows, lineBreaks, emptyLinesSkipped, bytesRead: position };
+  port.postMessage(message, tableBuffers(table));
 }
 
-function isReadJob(data: unknown): data is ReadJob {
-  return typeof data === 'object' && data !== null && (data as { job?: unknown }).job === JOB;
+function post(port: NonNullable<typeof parentPort>, message: Extract<FromReader, { type: 'batch' }>): void {
+  port.postMessage(message, tableBuffers(message.table));
 }
 
-if (!isMainThread && parentPort !== null && isReadJob(workerData)) runReadJob(workerData, parentPort);
+function failed(error: unknown): FromReader {
+  return isLevelwiseError(error)
+    ? { type: 'failed', code: error.code, message: error.message, hint: error.hint }
+    : { type: 'failed', code: null, message: error instanceof Error ? error.message : String(error), hint: '', ...(error instanceof Error && error.stack ? { stack: error.stack } : {}) };
+}
+
+function isReadingThread(data: unknown): data is { role: typeof ROLE; path: string } {
+  return typeof data === 'object' && data !== null && (data as { role?: unknown }).role === ROLE;
+}
+
+if (!isMainThread && parentPort !== null && isReadingThread(workerData)) serve(workerData.path, parentPort);

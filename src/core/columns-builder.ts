@@ -390,6 +390,26 @@ export function printsBack(text: string): boolean {
   return scanner.printsBack;
 }
 
+/** What number storage makes of a cell's text (see NumberScanner's fields). */
+export interface NumberText {
+  /** The number, or NaN for text that is not decimal number text (and for ''). */
+  readonly value: number;
+  /** Whether String(value) gives the text back (or the text is ''). */
+  readonly printsBack: boolean;
+  /** When not: the count of decimals if the text is value.toFixed(fixed), else 0 (the text is then kept as is). */
+  readonly fixed: number;
+}
+
+/**
+ * `text` read with number storage's own grammar, for code that moves cells between storages
+ * (concat-tables.ts). The result is shared and valid until the next read: copy its fields.
+ */
+export function readNumberText(text: string): NumberText {
+  const bytes = utf8Bytes(text);
+  scanner.read(bytes, 0, bytes.length);
+  return scanner;
+}
+
 const ZERO = 0x30;
 const MINUS = 0x2d;
 const PLUS = 0x2b;

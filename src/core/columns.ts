@@ -90,3 +90,23 @@ export function cellText(column: Column, row: number): string {
   const digits = column.fixedDigits?.[row] ?? 0;
   return digits > 0 ? v.toFixed(digits) : String(v);
 }
+
+/**
+ * The buffers a table's typed arrays hold, each its own: what to transfer (not copy) when the table
+ * is handed to another thread. The table must not be used on this side afterwards.
+ */
+export function tableBuffers(table: Table): ArrayBuffer[] {
+  const buffers = new Set<ArrayBuffer>();
+  const add = (array: { readonly buffer: ArrayBufferLike } | null): void => {
+    if (array !== null && array.buffer instanceof ArrayBuffer) buffers.add(array.buffer);
+  };
+  add(table.lineOfRow);
+  for (const column of table.columns) {
+    if (column.kind === 'text') add(column.codes);
+    else {
+      add(column.values);
+      add(column.fixedDigits);
+    }
+  }
+  return [...buffers];
+}

@@ -119,6 +119,7 @@ export class Utf8Chunks {
   private headLength = 0;
   private chosen: EncodingName | null = null;
   private guessed = false;
+  private skipped = 0;
   /** For encodings other than UTF-8: their text, to be written again as UTF-8. */
   private transcoder: ChunkDecoder | null = null;
 
@@ -129,6 +130,16 @@ export class Utf8Chunks {
   /** The encoding of the source; null until enough bytes were seen to choose. */
   get encoding(): EncodingName | null {
     return this.chosen;
+  }
+
+  /** Bytes of the source's start not passed on: a UTF-8 byte order mark. */
+  get skippedBytes(): number {
+    return this.skipped;
+  }
+
+  /** Whether the encoding was guessed from the bytes (not given, no byte order mark). */
+  get encodingGuessed(): boolean {
+    return this.guessed;
   }
 
   /**
@@ -153,8 +164,7 @@ export class Utf8Chunks {
 
   /** The error for bytes that are not UTF-8, found in the chunk that starts at byte `offset` (null: at the end). */
   invalidUtf8Error(offset: number | null): LevelwiseError {
-    const where = offset === null ? 'at the end of the file' : `after byte ${offset.toLocaleString('en-US')}`;
-    return invalidBytes(this.guessed && this.chosen === 'utf-8', this.chosen, where);
+    return invalidUtf8(this.guessed && this.chosen === 'utf-8', this.chosen, offset);
   }
 
   private start(whole: boolean): Uint8Array {
@@ -164,13 +174,25 @@ export class Utf8Chunks {
     const declared = this.forced ?? encodingFromByteOrderMark(bytes);
     this.guessed = declared === null;
     this.chosen = declared ?? (isValidUtf8(bytes, whole) ? 'utf-8' : 'windows-1252');
-    if (this.chosen === 'utf-8') return encodingFromByteOrderMark(bytes) === 'utf-8' ? bytes.subarray(3) : bytes;
+    if (this.chosen === 'utf-8') {
+      this.skipped = encodingFromByteOrderMark(bytes) === 'utf-8' ? 3 : 0;
+      return bytes.subarray(this.skipped);
+    }
     this.transcoder = new ChunkDecoder(this.chosen);
     return encodeUtf8(this.transcoder.decode(bytes));
   }
 }
 
 const EMPTY = new Uint8Array(0);
+
+/**
+ * The error for bytes that are not UTF-8 in a source read as `encoding`, found in the chunk that
+ * starts at byte `offset` (null: at the end): a restart as Windows-1252 when UTF-8 was only a guess.
+ */
+export function invalidUtf8(guessed: boolean, encoding: EncodingName | null, offset: number | null): LevelwiseError {
+  const where = offset === null ? 'at the end of the file' : `after byte ${offset.toLocaleString('en-US')}`;
+  return invalidBytes(guessed, encoding, where);
+}
 
 /**
  * Runs `read` on a fresh pass over the source; if the pass ends in 'encoding-restart', runs it

@@ -72,6 +72,8 @@ export interface PlainRecords {
 export interface RecordParserOptions {
   /** null or absent: chosen from the start of the text. */
   readonly delimiter?: Delimiter | null;
+  /** Absent: chosen from the start of the text (see chooseLineBreak). */
+  readonly lineBreak?: LineBreak;
 }
 
 /** Bytes collected before choosing the delimiter and line break, unless the text ends sooner. */
@@ -127,11 +129,44 @@ export class RecordParser {
     lines: new Int32Array(1 << 8),
   };
   /** Where scanPlainRecords met a record holding a quoted field; -1 when it did not. */
-  private stoppedAt = -1;
+  private quotedAt = -1;
+  /** Position in the pushed bytes of the first pending byte (input[0] of the next scan). */
+  private consumed = 0;
+  /** No record starting at or after this position in the pushed bytes is read (see stopAt). */
+  private stopLimit = Infinity;
+  /** Where reading stopped for stopAt: the position of the first record not read. */
+  private stopped: number | null = null;
+  private readonly givenLineBreak: LineBreak | null;
 
   constructor(sink: RecordSink, options: RecordParserOptions = {}) {
     this.sink = sink;
     this.delimiterChoice = options.delimiter ?? null;
+    this.givenLineBreak = options.lineBreak ?? null;
+  }
+
+  /**
+   * Reads no record that starts at or after `position` in the pushed bytes (counted from the first
+   * byte pushed): the parser stops at the first record start at or after it, or after what it has
+   * read already if that is further. For reading a file in segments: the next segment starts where
+   * this one stopped (`stoppedAt`).
+   */
+  stopAt(position: number): void {
+    this.stopLimit = position;
+  }
+
+  /** The position of the first record not read because of stopAt; null while reading on. */
+  get stoppedAt(): number | null {
+    return this.stopped;
+  }
+
+  /** The line break in use; null until enough text was seen to choose. */
+  get lineBreakInUse(): LineBreak | null {
+    return this.started ? this.lineBreak : null;
+  }
+
+  /** Line breaks read so far, those inside quoted fields included (the next record's line − 1). */
+  get lineBreaksRead(): number {
+    return this.line - 1;
   }
 
   /** The delimiter in use; null until enough text was seen to choose. */
@@ -146,7 +181,7 @@ export class RecordParser {
 
   /** The next UTF-8 bytes. They are read or copied before this returns: the caller may reuse its buffer. */
   push(bytes: Uint8Array): void {
-    if (bytes.length === 0) return;
+    if (bytes.length === 0 || this.stopped !== null) return;
     if (this.pendingLength === 0 && bytes.length >= this.parseAt) {
       this.parse(bytes, false);
       return;
@@ -157,7 +192,7 @@ export class RecordParser {
 
   /** Parses what is left, including a last record without a line break. */
   finish(): void {
-    this.parse(this.work.subarray(0, this.pendingLength), true);
+    if (this.stopped === null) this.parse(this.work.subarray(0, this.pendingLength), true);
   }
 
   private append(bytes: Uint8Array): void {
@@ -175,7 +210,8 @@ export class RecordParser {
   private parse(input: Uint8Array, final: boolean): void {
     if (!this.started) this.start(input, final);
     const consumed = this.scan(input, final);
-    const rest = final ? 0 : input.length - consumed;
+    this.consumed += consumed;
+    const rest = final || this.stopped !== null ? 0 : input.length - consumed;
     if (input.buffer === this.work.buffer) this.work.copyWithin(0, consumed, consumed + rest);
     else {
       this.pendingLength = 0;
@@ -188,8 +224,8 @@ export class RecordParser {
 
   private start(input: Uint8Array, final: boolean): void {
     // Only for choosing: a character cut at the end of the sample does no harm here.
-    const sample = new TextDecoder().decode(input);
-    this.lineBreak = chooseLineBreak(sample);
+    const sample = this.givenLineBreak !== null && this.delimiterChoice !== null ? '' : new TextDecoder().decode(input);
+    this.lineBreak = this.givenLineBreak ?? chooseLineBreak(sample);
     this.delimiterChoice ??= chooseDelimiter(sample, this.lineBreak, final);
     this.delimiterByte = this.delimiterChoice.charCodeAt(0);
     this.started = true;
@@ -198,11 +234,17 @@ export class RecordParser {
   /** Reads the complete records of `input`; returns where the unread rest starts. */
   private scan(input: Uint8Array, final: boolean): number {
     let at = 0;
+    // Positions in `input` from which no record is read (stopAt).
+    const limit = this.stopLimit - this.consumed;
     while (at < input.length) {
-      const plainEnd = this.scanPlainRecords(input, at, final);
+      if (at >= limit) {
+        this.stopped = this.consumed + at;
+        return at;
+      }
+      const plainEnd = this.scanPlainRecords(input, at, final, limit);
       if (plainEnd === INCOMPLETE) return at;
       at = plainEnd;
-      if (at === input.length || this.stoppedAt !== at) continue;
+      if (at === input.length || this.quotedAt !== at) continue;
       // The record at `at` has a field that starts with a quote.
       const quotedEnd = this.scanQuotedRecord(input, at, final);
       if (quotedEnd === INCOMPLETE) return at;
@@ -214,11 +256,11 @@ export class RecordParser {
   /**
    * Reads records without quoted fields from `at` on, for as long as they come, into the block of
    * plain records. Returns where it stopped: the end of the input, the start of a record with a
-   * quoted field (then `stoppedAt` is that position too), or the start of a record the input does
+   * quoted field (then `quotedAt` is that position too), or the start of a record the input does
    * not complete yet (when `final` is false; then, if that is `at` itself, INCOMPLETE). Hands the
    * block to the sink before returning and before anything that is not a plain record.
    */
-  private scanPlainRecords(input: Uint8Array, at: number, final: boolean): number {
+  private scanPlainRecords(input: Uint8Array, at: number, final: boolean, limit: number): number {
     const n = input.length;
     const block = this.block;
     block.bytes = input;
@@ -231,8 +273,8 @@ export class RecordParser {
     let b = 0;
     let line = this.line;
     let start = at;
-    this.stoppedAt = -1;
-    while (start < n) {
+    this.quotedAt = -1;
+    while (start < n && start < limit) {
       let i = start;
       let count = 0;
       let fieldStart = start;
@@ -261,7 +303,7 @@ export class RecordParser {
         fieldStart = ++i;
       }
       if (quoted) {
-        this.stoppedAt = start;
+        this.quotedAt = start;
         break;
       }
       if (i === n && !final) break; // the record's line break is in a later chunk
@@ -302,7 +344,7 @@ export class RecordParser {
     this.line = line;
     this.flushBlock();
     block.bytes = EMPTY_BYTES; // the block must not keep the chunk alive
-    return start === at && this.stoppedAt === -1 && start < n ? INCOMPLETE : start;
+    return start === at && this.quotedAt === -1 && start < n ? INCOMPLETE : start;
   }
 
   /** Hands the collected plain records to the sink. */

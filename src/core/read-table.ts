@@ -13,7 +13,7 @@ import { TableBuilder } from './columns-builder.ts';
 import { retryAsWindows1252, Utf8Chunks, type EncodingName } from './decode.ts';
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
 import { InvalidUtf8Error } from './utf8-text.ts';
-import { plainFields, RecordParser, uniqueColumnNames, type Delimiter, type PlainRecords, type RecordSink } from './parse.ts';
+import { plainFields, RecordParser, uniqueColumnNames, type Delimiter, type LineBreak, type PlainRecords, type RecordSink } from './parse.ts';
 
 export type { Delimiter } from './parse.ts';
 export type { EncodingName } from './decode.ts';
@@ -36,6 +36,26 @@ export interface ReadOptions {
    * big file was read.
    */
   readonly totalBytes?: number;
+  /**
+   * Stop at the first data record that starts at or after this byte of the source, so that the
+   * rest can be read in segments elsewhere (read-segment.ts); `ReadResult.stoppedAt` says where
+   * reading stopped. Honoured only where segments can be found by their line breaks (a UTF-8
+   * source with LF line breaks and at least two columns; other sources are read to the end), and
+   * only once the header is read: the first chunk parsed (at least 64 kB) is read whole, so the
+   * reader may stop further on than asked. `segmenting` says when the stop is certain.
+   */
+  readonly stopAt?: number;
+  /**
+   * What the columns were like in rows read before (ReadResult.columnHints, from another segment
+   * of the same file): the first batch, or the table, starts sized and stored like them.
+   */
+  readonly columnHints?: ColumnHints;
+}
+
+/** Per column, its distinct values in a batch and whether it ended in number storage. */
+export interface ColumnHints {
+  readonly distinct: readonly number[];
+  readonly numbers: readonly boolean[];
 }
 
 export interface ReadResult {
@@ -48,6 +68,15 @@ export interface ReadResult {
   readonly bytes: number;
   /** Data rows read, in batch mode too. */
   readonly totalRows: number;
+  /** The source byte where reading stopped for `stopAt` (the first record not read); null when read to the end. */
+  readonly stoppedAt: number | null;
+  /** Line breaks read, those inside quoted fields included: the next record starts on line `lineBreaks + 1`. */
+  readonly lineBreaks: number;
+  readonly lineBreak: LineBreak;
+  /** Whether the encoding was guessed from the bytes (see decode.ts): bad bytes later on mean a restart. */
+  readonly encodingGuessed: boolean;
+  /** In batch mode, what the columns of the last full batch were like; null otherwise. */
+  readonly columnHints: ColumnHints | null;
 }
 
 export interface TableReader {
@@ -60,14 +89,25 @@ export interface TableReader {
   finish(): ReadResult;
   /** Bytes pushed so far, for progress. */
   readonly bytesRead: number;
+  /** Where reading stopped for `stopAt` (push no more then); null while it reads on. */
+  readonly stoppedAt: number | null;
+  /** See StreamingTableReader.segmenting. */
+  readonly segmenting: SegmentingInfo | null;
+}
+
+/** What a reader of a later segment of the same file needs to know (read-segment.ts). */
+export interface SegmentingInfo {
+  readonly names: readonly string[];
+  readonly delimiter: Delimiter;
+  readonly encodingGuessed: boolean;
 }
 
 /** Slices handed to the reader by `readTable`, so no single string holds the whole file. */
 const SLICE_BYTES = 1 << 20;
 /** Rows read before the rows of the whole source are estimated from its size. */
-const ESTIMATE_AFTER_ROWS = 1000;
+export const ESTIMATE_AFTER_ROWS = 1000;
 /** Room made for this much more than the estimate (rows vary in length). */
-const ROW_ESTIMATE_MARGIN = 1.05;
+export const ROW_ESTIMATE_MARGIN = 1.05;
 
 export function readTable(bytes: Uint8Array, options: ReadOptions = {}): ReadResult {
   try {
@@ -112,9 +152,14 @@ class StreamingTableReader implements TableReader {
   private readonly totalBytes: number | null;
   private reserved = false;
   private bytes = 0;
+  private readonly stopAt: number | null;
+  private stopArmed = false;
+  /** The parser was told where to stop: the rows to expect are those before the stop. */
+  private stopping = false;
 
   constructor(options: ReadOptions) {
     this.totalBytes = options.totalBytes ?? null;
+    this.stopAt = options.stopAt ?? null;
     this.source = new Utf8Chunks(options.encoding ?? null);
     this.rows = new RowCollector(options);
     this.parser = new RecordParser(this.rows, options);
@@ -128,8 +173,41 @@ class StreamingTableReader implements TableReader {
     // Bad bytes may sit in the part of the previous chunks not parsed yet.
     const offset = Math.max(0, this.bytes - this.parser.pendingBytes);
     this.bytes += bytes.length;
-    this.read(() => this.parser.push(this.source.next(bytes)), offset);
+    this.read(() => {
+      const utf8 = this.source.next(bytes);
+      if (this.stopAt !== null && !this.stopArmed) this.armStop(this.stopAt);
+      this.parser.push(utf8);
+      // As soon as the header is known, so that `segmenting` tells the caller at once.
+      if (this.stopAt !== null && !this.stopArmed) this.armStop(this.stopAt);
+    }, offset);
     if (!this.reserved) this.reserveRows();
+  }
+
+  /** Where reading stopped for `stopAt` (a source byte), or null. */
+  get stoppedAt(): number | null {
+    const at = this.parser.stoppedAt;
+    return at === null ? null : at + this.source.skippedBytes;
+  }
+
+  /**
+   * Once the reader stops at `stopAt` for sure (the source is one that segments can split): what
+   * the readers of the other segments need to know; null before, and for sources read to the end.
+   */
+  get segmenting(): SegmentingInfo | null {
+    const names = this.rows.columnNames;
+    if (!this.stopping || names === null) return null;
+    return { names, delimiter: this.parser.delimiter ?? ',', encodingGuessed: this.source.encodingGuessed };
+  }
+
+  /** Passes `stopAt` on to the parser once the source is known to be one that segments can split. */
+  private armStop(stopAt: number): void {
+    const names = this.rows.columnNames;
+    if (names === null || this.parser.lineBreakInUse === null) return;
+    this.stopArmed = true;
+    if (this.source.encoding === 'utf-8' && this.parser.lineBreakInUse === '\n' && names.length >= 2) {
+      this.parser.stopAt(stopAt - this.source.skippedBytes);
+      this.stopping = true;
+    }
   }
 
   /**
@@ -142,7 +220,8 @@ class StreamingTableReader implements TableReader {
     if (this.totalBytes === null || rows < ESTIMATE_AFTER_ROWS) return;
     this.reserved = true;
     const bytesPerRow = (this.bytes - this.parser.pendingBytes) / rows;
-    this.rows.reserve(Math.ceil((this.totalBytes / bytesPerRow) * ROW_ESTIMATE_MARGIN));
+    const total = this.stopping && this.stopAt !== null ? Math.min(this.totalBytes, this.stopAt) : this.totalBytes;
+    this.rows.reserve(Math.ceil((total / bytesPerRow) * ROW_ESTIMATE_MARGIN));
   }
 
   finish(): ReadResult {
@@ -162,6 +241,11 @@ class StreamingTableReader implements TableReader {
       emptyLinesSkipped: this.rows.emptyLinesSkipped,
       bytes: this.bytes,
       totalRows: this.rows.totalRows,
+      stoppedAt: this.stoppedAt,
+      lineBreaks: this.parser.lineBreaksRead,
+      lineBreak: this.parser.lineBreakInUse ?? '\n',
+      encodingGuessed: this.source.encodingGuessed,
+      columnHints: this.rows.columnHints,
     };
   }
 
@@ -185,7 +269,7 @@ const EMPTY_CELL: readonly string[] = [''];
  * is written (spreadsheet programs save one-column sheets that way), so it becomes a row unless
  * only empty lines follow it up to the end of the file.
  */
-class RowCollector implements RecordSink {
+export class RowCollector implements RecordSink {
   private readonly options: ReadOptions;
   private readonly batchRows: number;
   private names: readonly string[] | null = null;
@@ -195,6 +279,7 @@ class RowCollector implements RecordSink {
   private skipped = 0;
   /** Lines of empty lines in a one-column table, waiting to see whether a record follows. */
   private blankLines: number[] = [];
+  private hints: ColumnHints | null = null;
 
   constructor(options: ReadOptions) {
     this.options = options;
@@ -202,6 +287,19 @@ class RowCollector implements RecordSink {
     if (options.batchRows !== undefined && !(options.batchRows >= 1 && options.onBatch !== undefined)) {
       throw new Error('batchRows needs to be at least 1 and to come with onBatch');
     }
+  }
+
+  /** Columns named by a header read elsewhere: every record is a data row (a segment of a file). */
+  static withNames(names: readonly string[], options: ReadOptions): RowCollector {
+    const collector = new RowCollector(options);
+    collector.names = names;
+    collector.builder = collector.newBuilder();
+    return collector;
+  }
+
+  /** The column names, once the header is read. */
+  get columnNames(): readonly string[] | null {
+    return this.names;
   }
 
   get totalRows(): number {
@@ -276,11 +374,26 @@ class RowCollector implements RecordSink {
     this.builder = this.newBuilder();
   }
 
+  /** In batch mode, what the columns of the last full batch were like. */
+  get columnHints(): ColumnHints | null {
+    return this.hints;
+  }
+
   private handOver(): void {
-    const batch = this.builder!.build();
+    const builder = this.builder!;
+    if (builder.rowCount >= this.batchRows || this.hints === null) this.hints = { distinct: builder.distinct, numbers: builder.numberColumns };
+    const batch = builder.build();
     this.options.onBatch?.(batch, this.batchStart);
     this.batchStart += batch.rowCount;
     this.builder = this.newBuilder();
+  }
+
+  /** A batch is sized like the one before it (its dictionaries, its rows), or like the hints given. */
+  private expectedBatch(previous: TableBuilder | null): { expected?: { rows: number; distinct: readonly number[]; numbers: readonly boolean[] } } {
+    const rows = this.batchRows === Infinity ? 0 : this.batchRows; // a whole table reserves its rows later
+    if (previous !== null && this.batchRows !== Infinity) return { expected: { rows, distinct: previous.distinct, numbers: previous.numberColumns } };
+    const hints = this.options.columnHints;
+    return hints === undefined || previous !== null ? {} : { expected: { rows, ...hints } };
   }
 
   /** Header issues go with the first table only. */
@@ -290,10 +403,7 @@ class RowCollector implements RecordSink {
       dictionaryCap: this.options.dictionaryCap,
       firstRowIndex: this.batchStart,
       headerIssues: this.batchStart === 0 && previous === null ? this.headerIssues : [],
-      // A batch is sized like the one before it (its dictionaries, its rows).
-      ...(previous === null || this.batchRows === Infinity
-        ? {}
-        : { expected: { rows: this.batchRows, distinct: previous.distinct, numbers: previous.numberColumns } }),
+      ...this.expectedBatch(previous),
     });
   }
 }
@@ -315,5 +425,17 @@ export function tableFromRows(rows: readonly (readonly string[])[], options: Pic
     else collector.record(row, index + 1, false);
   });
   const table = collector.finish();
-  return { table, encoding: 'utf-8', delimiter: ',', emptyLinesSkipped: collector.emptyLinesSkipped, bytes: 0, totalRows: table.rowCount };
+  return {
+    table,
+    encoding: 'utf-8',
+    delimiter: ',',
+    emptyLinesSkipped: collector.emptyLinesSkipped,
+    bytes: 0,
+    totalRows: table.rowCount,
+    stoppedAt: null,
+    lineBreaks: rows.length,
+    lineBreak: '\n',
+    encodingGuessed: false,
+    columnHints: null,
+  };
 }

@@ -6,11 +6,14 @@
  */
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import readXlsxFile from 'read-excel-file/web-worker';
-import { readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
+import { retryAsWindows1252, type EncodingName } from '../core/decode.ts';
+import { readInParallel } from '../core/parallel-read.ts';
+import { createTableReader, readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
 import { pageLimit, tooLargeForPage } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
+import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, SegmentWorkerFailure, segmentWorkerCount } from './segment-pool.ts';
 
 export interface ReadProgress {
   (done: number, total: number | null): void;
@@ -57,7 +60,53 @@ async function isSpreadsheet(file: File): Promise<boolean> {
 }
 
 function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptions): Promise<ReadResult> {
-  return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
+  const workers = file.size >= PARALLEL_FROM_BYTES ? segmentWorkerCount() - 1 : 0;
+  if (workers <= 0) return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
+  return retryAsWindows1252(
+    () => chunksOf(file, signal, onProgress),
+    (chunks, encoding) => readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, onProgress),
+    null,
+  ).catch((error: unknown) => {
+    // A segment worker that could not run (no module workers here): read on this thread instead.
+    if (error instanceof SegmentWorkerFailure && !signal.aborted) {
+      return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
+    }
+    throw error;
+  });
+}
+
+/**
+ * A big file on several cores (segment-pool.ts): its first segment here, the others in segment
+ * workers started as soon as the header is read. A file the reader cannot cut (not UTF-8, one
+ * column, lone CR line breaks) is read here to its end, as before.
+ */
+async function readInSegments(
+  file: Blob,
+  chunks: AsyncIterable<Uint8Array>,
+  settings: { delimiter: Delimiter | null; encoding: EncodingName | null },
+  workers: number,
+  signal: AbortSignal,
+  onProgress: ReadProgress,
+): Promise<ReadResult> {
+  let others = 0;
+  let here = 0;
+  const pool = openSegmentPool(file, workers, signal, (bytes) => {
+    others += bytes;
+    onProgress(Math.min(here + others, file.size), file.size);
+  });
+  try {
+    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES });
+    const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size });
+    for await (const chunk of chunks) {
+      here += chunk.length;
+      reader.push(chunk);
+      parallel.pushed(reader.segmenting);
+      if (reader.stoppedAt !== null) break;
+    }
+    return await parallel.finish(reader.finish());
+  } finally {
+    pool.close();
+  }
 }
 
 /**

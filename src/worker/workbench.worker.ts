@@ -4,8 +4,15 @@
  */
 /// <reference lib="webworker" />
 import type { ToWorker } from './protocol.ts';
+import { segmentWorkerCount, warmSegmentWorkers } from './segment-pool.ts';
 import { createSession } from './session.ts';
 
+/** How long after start the segment workers are started: after the demo's first preview. */
+const WARM_AFTER_MS = 2000;
 const scope = self as unknown as DedicatedWorkerGlobalScope; // the DOM lib types `self` as Window
 const session = createSession((message, transfer) => scope.postMessage(message, transfer ?? []));
 scope.addEventListener('message', (event: MessageEvent<ToWorker>) => session.receive(event.data));
+
+// Segment workers for big files, started once the page has settled, so that a big file's read
+// does not wait for them (segment-pool.ts).
+setTimeout(() => warmSegmentWorkers(segmentWorkerCount() - 1), WARM_AFTER_MS);

@@ -38,6 +38,7 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
   const requests: string[] = [];
   const cspByUrl = new Map<string, string | undefined>();
   const pageErrors: string[] = [];
+  const workerUrls: string[] = [];
 
   beforeAll(async () => {
     mkdirSync(RESULTS, { recursive: true });
@@ -48,6 +49,7 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     context.on('response', (response) => cspByUrl.set(response.url(), response.headers()['content-security-policy']));
     page = await context.newPage();
     page.on('pageerror', (error) => pageErrors.push(error.message));
+    page.on('worker', (worker) => workerUrls.push(worker.url()));
   });
 
   afterAll(async () => {
@@ -378,6 +380,32 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     expect(rowBox!.y + rowBox!.height).toBeLessThanOrEqual(gridBox!.y + gridBox!.height + 1);
     expect(rowBox!.y).toBeGreaterThanOrEqual(gridBox!.y);
     await shot('12-tall-table-end');
+  });
+
+  it('reads a big file on several workers, segment by segment, into the table one worker reads', async () => {
+    // 500,000 invented rows (~18 MB, past the size from which segment workers read: segment-pool.ts).
+    // Every 5th note is quoted and holds a line break, so cuts can fall inside quoted fields; every
+    // row after one such note starts a line later. Row r (1-based) starts on line
+    // 1 + r + floor((r - 1) / 5): the header, the rows before it, and their quoted line breaks.
+    const rows = 500_000;
+    const lines = ['id,kind,note,amount'];
+    for (let r = 1; r <= rows; r++) {
+      const note = r % 5 === 0 ? `"first line\nsecond, line ${r % 97}"` : `plain note ${r % 89}`;
+      lines.push(`N-${r},${['alpha', 'beta', 'gamma'][r % 3]},${note},${(r % 1000) / 4}`);
+    }
+    const text = `${lines.join('\n')}\n`;
+    expect(text.length).toBeGreaterThan(16 << 20);
+    await page.getByTestId('open-file-input').setInputFiles({ name: 'segments.csv', mimeType: 'text/csv', buffer: Buffer.from(text) });
+    await waitForFile('segments.csv', rows);
+    // The segment workers run (their script is its own file in the build); started with the page.
+    expect(workerUrls.some((url) => url.includes('segment.worker'))).toBe(true);
+    const grid = page.getByRole('grid', { name: 'Encoded output preview' });
+    await grid.evaluate((el) => el.scrollTo({ top: el.scrollHeight }));
+    const last = page.locator(`[role="row"][aria-rowindex="${rows + 2}"] [role="rowheader"]`);
+    // Row 500,000: line 1 + 500,000 + 99,999 = 600,000.
+    await expect.poll(async () => Number(await last.textContent()), { timeout: 15_000 }).toBe(600_000);
+    expect(await previewCell(rows - 1, 'id')).toBe(`N-${rows}`);
+    await shot('13-segments-end');
   });
 
   it('raised no script errors and sent nothing beyond localhost', () => {

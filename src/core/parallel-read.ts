@@ -1,0 +1,138 @@
+/**
+ * A whole table read on several threads. The file is cut into one segment per thread. The calling
+ * thread reads the first segment with the ordinary table reader and `stopAt` (it finds the header,
+ * encoding and delimiter); as soon as its reader knows them (`TableReader.segmenting`), the other
+ * segments start on the other threads (read-segment.ts), and their tables are joined to the first
+ * in file order (concat-tables.ts) once all are read.
+ *
+ * The threads themselves are the caller's: Web Workers in the page, worker threads in Node. Each
+ * is a `SegmentRunner` that reads one segment of the same source and hands back its table.
+ *
+ * The result is the table one thread reads, storage included (test/core/parallel-read.test.ts).
+ */
+import { concatTables } from './concat-tables.ts';
+import type { Table } from './columns.ts';
+import type { ColumnHints, ReadResult, SegmentingInfo } from './read-table.ts';
+import { rebaseRows, type SegmentResult } from './read-segment.ts';
+import type { Delimiter } from './parse.ts';
+import { segmentJobs, SegmentOrder, type SegmentJob } from './segment-order.ts';
+
+/** What a thread needs to read a segment (all of it can be cloned to another thread). */
+export interface SegmentRequest {
+  readonly job: SegmentJob;
+  readonly names: readonly string[];
+  readonly delimiter: Delimiter;
+  readonly encodingGuessed: boolean;
+  readonly columnHints: ColumnHints | null;
+  readonly dictionaryCap?: number;
+}
+
+/** Reads one segment on its thread; rejects with the reader's error (a LevelwiseError for bad bytes). */
+export type SegmentRunner = (request: SegmentRequest) => Promise<SegmentResult>;
+
+export interface ParallelReadOptions {
+  readonly dictionaryCap?: number;
+  /** No segment smaller than this (default 1 byte). */
+  readonly minSegmentBytes?: number;
+  /** Segments of this size instead of one per thread (more segments than runners: for tests). */
+  readonly segmentBytes?: number;
+  /** Sees the parts before they are joined, in file order, rows numbered from the file's start (for tests). */
+  readonly onPart?: (parts: readonly Table[]) => void;
+}
+
+export interface ParallelRead {
+  /** The `stopAt` for the calling thread's table reader: the end of the first segment. */
+  readonly firstStop: number;
+  /** Call after each chunk pushed to that reader: starts the other segments once it can. */
+  pushed(segmenting: SegmentingInfo | null): void;
+  /** With the first segment's result: the whole table (the first result itself when it was not cut). */
+  finish(first: ReadResult): Promise<ReadResult>;
+  /** How the segments were placed so far: joined (the first included), read again, left out. */
+  readonly placements: { readonly taken: number; readonly redone: number; readonly skipped: number };
+}
+
+/**
+ * Reading `fileBytes` on this thread and `runners`: by default one segment each; with
+ * `segmentBytes`, as many segments as that makes, each runner taking the next when it is free.
+ * Segments of less than `minSegmentBytes` are not worth a thread: fewer runners are used then.
+ */
+export function readInParallel(fileBytes: number, runners: readonly SegmentRunner[], options: ParallelReadOptions = {}): ParallelRead {
+  const threads = Math.max(1, Math.min(runners.length + 1, Math.floor(fileBytes / (options.minSegmentBytes ?? 1))));
+  const segmentBytes = options.segmentBytes ?? Math.ceil(fileBytes / threads);
+  const firstStop = threads > 1 ? segmentBytes : Infinity;
+  const jobs = threads > 1 ? segmentJobs(firstStop, fileBytes, segmentBytes) : [];
+  let started = false;
+  let request: ((job: SegmentJob) => SegmentRequest) | null = null;
+  // Runners free for the next job, and jobs waiting for one: segments read again first, then the
+  // others in file order (an index, not shift(): there may be thousands).
+  const free: SegmentRunner[] = [];
+  const again: (() => void)[] = [];
+  const backlog: (() => void)[] = [];
+  let nextInBacklog = 0;
+
+  const run = async (job: SegmentJob, readAgain = false): Promise<SegmentResult> => {
+    while (free.length === 0) await new Promise<void>((resolve) => (readAgain ? again : backlog).push(resolve));
+    const runner = free.pop()!;
+    try {
+      return await runner(request!(job));
+    } finally {
+      free.push(runner);
+      const next = again.pop() ?? (nextInBacklog < backlog.length ? backlog[nextInBacklog++] : undefined);
+      next?.();
+    }
+  };
+  let results: Promise<SegmentResult>[] = [];
+
+  const placements = { taken: 1, redone: 0, skipped: 0 };
+  return {
+    firstStop,
+    placements,
+    pushed(segmenting) {
+      if (started || segmenting === null || jobs.length === 0) return;
+      started = true;
+      request = (job) => ({
+        job,
+        names: segmenting.names,
+        delimiter: segmenting.delimiter,
+        encodingGuessed: segmenting.encodingGuessed,
+        columnHints: null,
+        ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }),
+      });
+      free.push(...runners.slice(0, threads - 1));
+      results = jobs.map((job) => run(job));
+      // Failures of segments read in vain must not go unhandled while an earlier one is awaited.
+      results.forEach((result) => result.catch(() => undefined));
+    },
+    async finish(first) {
+      if (first.stoppedAt === null) return first;
+      if (!started) throw new Error('the first segment stopped, but the others were never started');
+      const order = new SegmentOrder({ end: first.stoppedAt, rows: first.totalRows, lineBreaks: first.lineBreaks });
+      const parts: Table[] = [first.table];
+      let emptyLinesSkipped = first.emptyLinesSkipped;
+      // In file order; a segment read again goes in front of the rest.
+      const queue = jobs.map((job, i): [SegmentJob, Promise<SegmentResult>] => [job, results[i]!]).reverse();
+      results = []; // each result is let go once placed
+      while (queue.length > 0) {
+        const [job, pending] = queue.pop()!;
+        const segment = await pending;
+        const placement = order.place(job, segment);
+        if (placement.kind === 'take') {
+          placements.taken++;
+          parts.push(rebaseRows(segment.table, placement.rowOffset, placement.lineOffset));
+          emptyLinesSkipped += segment.emptyLinesSkipped;
+        } else if (placement.kind === 'skip') {
+          placements.skipped++;
+        } else {
+          // A segment read again starts where the one before it stopped: it always lines up.
+          placements.redone++;
+          const readAgain = run(placement.job, true);
+          readAgain.catch(() => undefined);
+          queue.push([placement.job, readAgain]);
+        }
+      }
+      options.onPart?.(parts);
+      const table = concatTables(parts, options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap });
+      return { ...first, table, totalRows: table.rowCount, emptyLinesSkipped, stoppedAt: null, lineBreaks: order.lineBreaks, bytes: fileBytes };
+    },
+  };
+}

@@ -1,0 +1,64 @@
+/**
+ * A worker the workbench's worker starts to read one segment of a big text file at a time
+ * (core read-segment.ts), from its own slice of the File, so that a file is read on several cores
+ * (segment-pool.ts). It answers with the segment's table, its typed arrays transferred.
+ */
+/// <reference lib="webworker" />
+import { tableBuffers } from '../core/columns.ts';
+import { isLevelwiseError } from '../core/errors.ts';
+import type { SegmentRequest } from '../core/parallel-read.ts';
+import { createSegmentReader } from '../core/read-segment.ts';
+import type { FromSegmentWorker, ToSegmentWorker } from './segment-pool.ts';
+
+const scope = self as unknown as DedicatedWorkerGlobalScope; // the DOM lib types `self` as Window
+/** Progress is told every this many bytes. */
+const PROGRESS_EVERY = 4 << 20;
+
+scope.addEventListener('message', (event: MessageEvent<ToSegmentWorker>) => {
+  readSegment(event.data.file, event.data.request).then(
+    (message) => scope.postMessage(message, message.type === 'done' ? tableBuffers(message.result.table) : []),
+    (error: unknown) => scope.postMessage(failure(error)),
+  );
+});
+
+async function readSegment(file: Blob, request: SegmentRequest): Promise<FromSegmentWorker> {
+  const { job } = request;
+  const reader = createSegmentReader({
+    names: request.names,
+    delimiter: request.delimiter,
+    firstByte: job.firstByte,
+    stopAt: job.stopAt,
+    encodingGuessed: request.encodingGuessed,
+    totalBytes: Math.min(job.stopAt, file.size) - job.firstByte,
+    ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),
+    ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
+  });
+  const stream = file.slice(job.firstByte).stream().getReader();
+  let atEnd = false;
+  let told = 0;
+  let read = 0;
+  try {
+    for (;;) {
+      const next = await stream.read();
+      if (next.done) {
+        atEnd = true;
+        break;
+      }
+      read += next.value.length;
+      if (read - told >= PROGRESS_EVERY) {
+        scope.postMessage({ type: 'progress', bytes: read - told } satisfies FromSegmentWorker);
+        told = read;
+      }
+      if (!reader.push(next.value)) break;
+    }
+  } finally {
+    void stream.cancel();
+  }
+  scope.postMessage({ type: 'progress', bytes: read - told } satisfies FromSegmentWorker);
+  return { type: 'done', result: reader.finish(atEnd) };
+}
+
+function failure(error: unknown): FromSegmentWorker {
+  if (isLevelwiseError(error)) return { type: 'failed', code: error.code, message: error.message, hint: error.hint };
+  return { type: 'failed', code: null, message: error instanceof Error ? error.message : String(error), hint: '' };
+}
