@@ -1,24 +1,27 @@
 /**
- * Reading a text file on other threads while this one encodes and writes. `levelwise apply` spends
- * longer reading rows into batches (core's table reader) than encoding and writing them, so the
- * file is read in segments (core read-segment.ts) by several reading threads at once, and this
- * thread takes their batches in file order (core segment-order.ts):
+ * Reading a text file on several threads, one per core up to four (`readingThreads`).
  *
+ * `apply` and `check` (readBatchesInThread): this thread encodes and writes while reading threads
+ * read the file in segments (core read-segment.ts), and takes their rows in file order (core
+ * segment-order.ts):
  * 1. One thread reads the file's start (header, encoding, delimiter, the first rows) with the table
  *    reader's `stopAt`, and says where it stopped. A file that cannot be cut (not UTF-8, lone CR
  *    line breaks, one column) or is small is read to the end right there, by that thread alone.
  * 2. The rest is cut into segments of SEGMENT_BYTES, handed round the threads. A segment that
  *    began inside a quoted field (it does not start where the one before stopped) is read again
  *    from the right place, so quoted line breaks cost time, never correctness.
+ * At most SEGMENTS_AHEAD segments per thread are handed out and not yet taken, so memory stays
+ * flat however long the file.
  *
- * The batches cross as Tables whose typed arrays are transferred, not copied; only dictionaries'
- * strings are cloned. At most SEGMENTS_AHEAD segments per thread are handed out and not yet taken,
- * so memory stays flat however long the file.
+ * `profile` and `draft` (readTableInThreads): the whole table, in one segment per thread, this one
+ * reading the first, joined by core parallel-read.ts as the page's worker does.
  *
+ * Tables cross as typed arrays transferred, not copied; only dictionaries' strings are cloned.
  * The threads run the same code as the rest of the command line: the bundle that bin/levelwise.js
- * loads, started again as a worker, which finds its role in `workerData`. When the command line
- * runs from its TypeScript sources (no bundle), there is no file a worker could load, and reading
- * stays on this thread (`canReadInThread`).
+ * loads, started again as a worker, which finds its role in `workerData` (from the TypeScript
+ * sources, read-thread-sources.mjs loads this file). The command line itself reads on threads only
+ * from its bundle (`canReadInThread`); from its sources it reads on one, the reference the tests
+ * compare the threads with.
  */
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';

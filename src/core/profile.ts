@@ -309,12 +309,27 @@ function textShape(levels: readonly LevelCount[], nonMissing: number): TextShape
   let length = 0;
   let withSpaces = 0;
   for (const { value, count } of levels) {
-    const t = value.trim();
+    // Most values (an identifier column's million) have no blank at all: no trimmed copy, no regex.
+    const blanks = maybeBlank(value);
+    const t = blanks ? value.trim() : value;
     if (looksLikeDate(t)) dates += count;
     length += t.length * count;
-    if (/\s/.test(t)) withSpaces += count;
+    if (blanks && /\s/.test(t)) withSpaces += count;
   }
   return { dates, meanLength: nonMissing > 0 ? length / nonMissing : 0, withSpaces };
+}
+
+/**
+ * False only when `text` surely holds no white space as `\s` and trim() see it: every character is
+ * printable ASCII other than the space. Anything else (a space, a control character, any non-ASCII
+ * character, some of which are Unicode spaces) is left to trim() and the regex.
+ */
+function maybeBlank(text: string): boolean {
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c <= 0x20 || c >= 0x7f) return true;
+  }
+  return false;
 }
 
 // ---------------------------------------------------------------------------------------------

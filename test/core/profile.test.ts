@@ -303,6 +303,15 @@ describe('flags', () => {
     expect(p.text?.withSpaces).toBe(11);
     expect(profileOf(['heat pump', 'gas boiler', 'heat pump', 'gas boiler', 'heat pump', 'gas boiler']).flags.freeText).toBe(false);
   });
+
+  it('counts values with white space inside, of any kind, and measures lengths trimmed', () => {
+    // A space, a tab, a no-break space (U+00A0) and an ideographic space (U+3000) are white space
+    // to \s (ECMAScript WhiteSpace and LineTerminator); "A-1" and "x" are not. Edge blanks are
+    // trimmed first, so " edge " is "edge": 4 characters, no space inside.
+    const p = profileOf(['a b', 'a\tb', 'a\u00a0b', 'a\u3000b', 'A-1', 'x', ' edge ']);
+    expect(p.text?.withSpaces).toBe(4);
+    expect(p.text?.meanLength).toBeCloseTo((3 + 3 + 3 + 3 + 3 + 1 + 4) / 7, 10);
+  });
 });
 
 describe('Palmer penguins (vega-datasets penguins.json, 344 rows; Gorman, Williams & Fraser 2014; palmerpenguins documentation)', () => {
