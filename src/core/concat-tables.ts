@@ -22,6 +22,13 @@ export interface ConcatOptions {
    * storage chosen for a column depends on it alone, not on the storages the parts came in.
    */
   readonly dictionaryCap?: number;
+  /**
+   * Give up the first part: where its typed arrays have room for every row (a reader that
+   * reserved storage for the whole file), they become the joined table's, filled in place. Its
+   * rows are then neither copied nor held twice: joining needs memory for the other parts only.
+   * The first part must not be used afterwards.
+   */
+  readonly reuseFirst?: boolean;
 }
 
 /**
@@ -36,14 +43,15 @@ export function concatTables(parts: readonly Table[], options: ConcatOptions = {
   checkSameNames(parts);
   const cap = options.dictionaryCap ?? DEFAULT_DICTIONARY_CAP;
   const rowCounts = parts.map((part) => part.rowCount);
-  const columns = first.names.map((_, c) => joinColumn(parts.map((part) => part.columns[c]!), rowCounts, cap));
+  const reuse = options.reuseFirst === true;
+  const columns = first.names.map((_, c) => joinColumn(parts.map((part) => part.columns[c]!), rowCounts, cap, reuse));
   const rowIssues: RowIssue[] = [];
   for (const part of parts) for (const issue of part.rowIssues) rowIssues.push(issue);
   return {
     names: first.names,
     columns,
     rowCount: sum(rowCounts),
-    lineOfRow: joinUint32(parts.map((part) => part.lineOfRow), rowCounts),
+    lineOfRow: joinUint32(parts.map((part) => part.lineOfRow), rowCounts, reuse),
     rowIssues,
     headerIssues: first.headerIssues,
   };
@@ -58,8 +66,19 @@ function checkSameNames(parts: readonly Table[]): void {
   }
 }
 
-function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap: number): Column {
-  return storageOfWhole(parts, rowCounts, cap) === 'number' ? joinAsNumbers(parts, rowCounts) : joinAsText(parts, rowCounts);
+function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap: number, reuse: boolean): Column {
+  return storageOfWhole(parts, rowCounts, cap) === 'number' ? joinAsNumbers(parts, rowCounts, reuse) : joinAsText(parts, rowCounts, reuse);
+}
+
+/**
+ * `array` itself, seen over all of its buffer from where it starts, when that holds `rows` entries
+ * (a reader's storage is made larger than its rows; `lineOfRow` is a view of its first rows).
+ */
+function withRoomFor<A extends Uint32Array | Float64Array | Uint8Array>(array: A, rows: number): A | null {
+  if (!(array.buffer instanceof ArrayBuffer)) return null;
+  const room = Math.floor((array.buffer.byteLength - array.byteOffset) / array.BYTES_PER_ELEMENT);
+  if (room < rows) return null;
+  return new (array.constructor as new (buffer: ArrayBuffer, byteOffset: number, length: number) => A)(array.buffer, array.byteOffset, room);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -204,17 +223,25 @@ class NumberCellTexts {
 // ---------------------------------------------------------------------------------------------
 // Number storage.
 
-function joinAsNumbers(parts: readonly Column[], rowCounts: readonly number[]): NumberColumn {
+function joinAsNumbers(parts: readonly Column[], rowCounts: readonly number[], reuse: boolean): NumberColumn {
   const forms = parts.map((part) => (part.kind === 'text' ? numberFormsOf(part) : null));
   const rows = sum(rowCounts);
-  const values = new Float64Array(rows);
-  const exceptions = new Map<number, string>();
+  const first = parts[0]!;
+  // The first part's arrays, filled in place (reuseFirst), or new ones.
+  const inPlace = reuse && first.kind === 'number' ? withRoomFor(first.values, rows) : null;
+  const values = inPlace ?? new Float64Array(rows);
+  const exceptions = inPlace !== null && first.kind === 'number' && first.exceptions instanceof Map ? first.exceptions : new Map<number, string>();
   const needsFixed = parts.some((part, k) => (part.kind === 'number' ? part.fixedDigits !== null : forms[k]!.anyFixed));
-  const fixedDigits = needsFixed ? new Uint8Array(rows) : null;
+  const firstFixed = inPlace !== null && first.kind === 'number' && first.fixedDigits !== null ? withRoomFor(first.fixedDigits, rows) : null;
+  const fixedDigits = needsFixed ? (firstFixed ?? new Uint8Array(rows)) : null;
   let offset = 0;
   parts.forEach((part, k) => {
     const length = rowCounts[k]!;
-    if (part.kind === 'number') {
+    if (k === 0 && inPlace !== null && part.kind === 'number') {
+      // Its values and exceptions are where they belong already; its fixed digits too, unless
+      // they had to move to a new array.
+      if (part.fixedDigits !== null && fixedDigits !== firstFixed) fixedDigits!.set(part.fixedDigits.subarray(0, length), 0);
+    } else if (part.kind === 'number') {
       values.set(part.values.subarray(0, length), offset);
       if (part.fixedDigits !== null) fixedDigits!.set(part.fixedDigits.subarray(0, length), offset);
       part.exceptions.forEach((text, row) => exceptions.set(row + offset, text));
@@ -274,17 +301,23 @@ function writeTextAsNumbers(
 /** A part's dictionary codes in the joined dictionary: `base + code`, or `remap[code]`. */
 type CodeMap = { readonly base: number } | { readonly remap: Uint32Array };
 
-function joinAsText(columns: readonly Column[], rowCounts: readonly number[]): TextColumn {
+function joinAsText(columns: readonly Column[], rowCounts: readonly number[], reuse: boolean): TextColumn {
   const parts = columns.map((column, k) => (column.kind === 'text' ? column : numbersAsText(column, rowCounts[k]!)));
   const dictionary = joinDictionaries(parts);
   const rows = sum(rowCounts);
-  const codes = new Uint32Array(rows);
+  // The first part's codes stay what they are (its values come first in the joined dictionary):
+  // with reuseFirst they are filled on in place.
+  const firstMap = dictionary.maps[0]!;
+  const inPlace = reuse && columns[0]!.kind === 'text' && 'base' in firstMap && firstMap.base === 0 ? withRoomFor(parts[0]!.codes, rows) : null;
+  const codes = inPlace ?? new Uint32Array(rows);
   let offset = 0;
   parts.forEach((part, k) => {
     const map = dictionary.maps[k]!;
     const length = rowCounts[k]!;
     const partCodes = part.codes;
-    if (!('base' in map)) {
+    if (k === 0 && inPlace !== null) {
+      // Already in place.
+    } else if (!('base' in map)) {
       const remap = map.remap;
       for (let row = 0; row < length; row++) codes[offset + row] = remap[partCodes[row]!]!;
     } else if (map.base === 0) {
@@ -484,14 +517,16 @@ function numbersAsText(column: NumberColumn, rows: number): TextColumn {
 
 // ---------------------------------------------------------------------------------------------
 
-function joinUint32(arrays: readonly Uint32Array[], lengths: readonly number[]): Uint32Array {
-  const joined = new Uint32Array(sum(lengths));
+function joinUint32(arrays: readonly Uint32Array[], lengths: readonly number[], reuse: boolean): Uint32Array {
+  const rows = sum(lengths);
+  const inPlace = reuse ? withRoomFor(arrays[0]!, rows) : null;
+  const joined = inPlace ?? new Uint32Array(rows);
   let offset = 0;
   arrays.forEach((array, k) => {
-    joined.set(array.subarray(0, lengths[k]!), offset);
+    if (k > 0 || inPlace === null) joined.set(array.subarray(0, lengths[k]!), offset);
     offset += lengths[k]!;
   });
-  return joined;
+  return inPlace === null ? joined : joined.subarray(0, rows);
 }
 
 function sum(numbers: readonly number[]): number {

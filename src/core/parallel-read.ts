@@ -131,7 +131,8 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
         }
       }
       options.onPart?.(parts);
-      const table = concatTables(parts, options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap });
+      // The first part was read into storage reserved for the whole file: the others join it there.
+      const table = concatTables(parts, { ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }), reuseFirst: true });
       return { ...first, table, totalRows: table.rowCount, emptyLinesSkipped, stoppedAt: null, lineBreaks: order.lineBreaks, bytes: fileBytes };
     },
   };

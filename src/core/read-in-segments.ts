@@ -49,7 +49,8 @@ async function readSegments(bytes: Uint8Array, segmentBytes: number, options: Se
   const runner: SegmentRunner = async (request) => readSegment(bytes, request);
   const parts: Table[] = [];
   const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, segmentBytes, onPart: (joined) => parts.push(...joined) });
-  const reader = createTableReader({ ...cap, stopAt: parallel.firstStop });
+  // Sized for the whole file, as the page and the command line do: the other parts join it in place.
+  const reader = createTableReader({ ...cap, stopAt: parallel.firstStop, totalBytes: bytes.length });
   for (let at = 0; at < bytes.length && reader.stoppedAt === null; at += PUSH_BYTES) {
     reader.push(bytes.subarray(at, at + PUSH_BYTES));
     parallel.pushed(reader.segmenting);

@@ -154,7 +154,7 @@ class StreamingTableReader implements TableReader {
   private bytes = 0;
   private readonly stopAt: number | null;
   private stopArmed = false;
-  /** The parser was told where to stop: the rows to expect are those before the stop. */
+  /** The parser was told where to stop (see `segmenting`). */
   private stopping = false;
 
   constructor(options: ReadOptions) {
@@ -220,8 +220,8 @@ class StreamingTableReader implements TableReader {
     if (this.totalBytes === null || rows < ESTIMATE_AFTER_ROWS) return;
     this.reserved = true;
     const bytesPerRow = (this.bytes - this.parser.pendingBytes) / rows;
-    const total = this.stopping && this.stopAt !== null ? Math.min(this.totalBytes, this.stopAt) : this.totalBytes;
-    this.rows.reserve(Math.ceil((total / bytesPerRow) * ROW_ESTIMATE_MARGIN));
+    // Also when stopping at `stopAt`: the other segments' rows are joined into this storage (concat-tables.ts, reuseFirst).
+    this.rows.reserve(Math.ceil((this.totalBytes / bytesPerRow) * ROW_ESTIMATE_MARGIN));
   }
 
   finish(): ReadResult {

@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from '../../src/core/columns.ts';
 import { concatTables } from '../../src/core/concat-tables.ts';
-import { readNumberText } from '../../src/core/columns-builder.ts';
+import { readNumberText, TableBuilder } from '../../src/core/columns-builder.ts';
 import { readInSegments } from '../../src/core/read-in-segments.ts';
 import { rebaseRows } from '../../src/core/read-segment.ts';
 import { readTable, tableFromRows, type ReadResult } from '../../src/core/read-table.ts';
@@ -300,5 +300,36 @@ describe('readNumberText: number storage grammar for one text', () => {
   ])('%j', (input, value, printsBack, fixed) => {
     const read = readNumberText(input);
     expect({ value: read.value, printsBack: read.printsBack, fixed: read.fixed }).toEqual({ value, printsBack, fixed });
+  });
+});
+
+describe('concatTables with reuseFirst: the first part, read into storage for the whole file, is filled in place', () => {
+  /** The first part read as a reader sized for the whole file reads it: room for every row. */
+  function roomyFirst(cells: readonly string[], cut: number, cap: number): Table[] {
+    const builder = new TableBuilder(HEADER, { dictionaryCap: cap });
+    builder.reserve(cells.length);
+    cells.slice(0, cut).forEach((cell, i) => builder.addRow([cell, `k${i}`], i + 2));
+    return [builder.build(), segment(cells.slice(cut), cut, cap)];
+  }
+
+  it.each([
+    ['dictionary + dictionary', ['red', 'blue', 'red', 'teal', 'blue', 'red'], 3, 16],
+    ['numbers + numbers, fixed decimals and an exception', ['1', '134.00', '2.5', 'n/a', '7', '8.25', '9', '10.00'], 4, 2],
+  ])('%s: same table as reading all rows at once, in the first part\'s buffers', (_, cells, cut, cap) => {
+    const parts = roomyFirst(cells, cut, cap);
+    const before = parts[0]!.columns.map((column) => (column.kind === 'text' ? column.codes.buffer : column.values.buffer));
+    const lineBuffer = parts[0]!.lineOfRow.buffer;
+    const joined = concatTables(parts, { dictionaryCap: cap, reuseFirst: true });
+    const whole = tableFromRows([HEADER, ...cells.map((cell, i) => [cell, `k${i}`])], { dictionaryCap: cap }).table;
+    sameAsWhole(joined, whole);
+    expect(joined.columns.map((column) => (column.kind === 'text' ? column.codes.buffer : column.values.buffer))).toEqual(before);
+    expect(joined.lineOfRow.buffer).toBe(lineBuffer);
+  });
+
+  it('without room in the first part, new arrays are made and the result is the same', () => {
+    const cells = ['a', 'b', 'a', 'c'];
+    const parts = [segment(cells.slice(0, 2), 0, 16), segment(cells.slice(2), 2, 16)];
+    const joined = concatTables(parts, { dictionaryCap: 16, reuseFirst: true });
+    sameAsWhole(joined, tableFromRows([HEADER, ...cells.map((cell, i) => [cell, `k${i}`])], { dictionaryCap: 16 }).table);
   });
 });
