@@ -80,6 +80,8 @@ export interface HeapFigures {
 export interface MemoryFigures {
   readonly page: HeapFigures;
   readonly worker: HeapFigures;
+  /** The segment workers the worker starts for big files (src/worker/segment-pool.ts), summed. */
+  readonly segmentWorkers: HeapFigures;
   readonly totalBytes: number;
 }
 
@@ -191,11 +193,15 @@ async function longTasksBetween(page: Page, from: number, to: number): Promise<L
 const now = (page: Page): Promise<number> => page.evaluate(() => performance.now());
 
 // ---------------------------------------------------------------------------------------------
-// Heap of the page and its worker, over CDP. The worker is reached through Target.setAutoAttach
-// without flattening: its protocol messages travel inside Target.sendMessageToTarget.
+// Heap of the page, its worker and the worker's segment workers, over CDP. The worker is reached
+// through Target.setAutoAttach without flattening: its protocol messages travel inside
+// Target.sendMessageToTarget. The segment workers are the worker's own children, so they are
+// auto-attached inside the worker's session, and reached through one more such envelope.
 
 class HeapProbe {
   private workerSession: string | null = null;
+  /** Sessions of the segment workers, inside the worker's session. */
+  private readonly segmentSessions = new Set<string>();
   private nextId = 1;
   private readonly waiting = new Map<number, (result: unknown) => void>();
 
@@ -208,6 +214,7 @@ class HeapProbe {
     await cdp.send('Target.setAutoAttach', { autoAttach: true, waitForDebuggerOnStart: false, flatten: false });
     for (let i = 0; i < 50 && probe.workerSession === null; i++) await sleep(100);
     if (probe.workerSession === null) throw new Error('The page has no worker to measure (Target.setAutoAttach found none).');
+    await probe.inWorker('Target.setAutoAttach', { autoAttach: true, waitForDebuggerOnStart: false, flatten: false });
     return probe;
   }
 
@@ -218,39 +225,79 @@ class HeapProbe {
     } else if (method === 'Target.detachedFromTarget' && params['sessionId'] === this.workerSession) {
       this.workerSession = null;
     } else if (method === 'Target.receivedMessageFromTarget' && params['sessionId'] === this.workerSession) {
-      const message = JSON.parse(String(params['message'])) as { id?: number; result?: unknown; error?: unknown };
-      if (message.id === undefined) return;
-      this.waiting.get(message.id)?.(message.result ?? message.error);
-      this.waiting.delete(message.id);
+      this.fromWorker(JSON.parse(String(params['message'])) as WorkerMessage);
     }
   }
 
+  /** A message from the worker: an answer, or an event about (or from) one of its segment workers. */
+  private fromWorker(message: WorkerMessage): void {
+    if (message.id !== undefined) {
+      this.answered(message);
+      return;
+    }
+    const params = message.params ?? {};
+    if (message.method === 'Target.attachedToTarget') this.segmentSessions.add(String(params['sessionId']));
+    else if (message.method === 'Target.detachedFromTarget') this.segmentSessions.delete(String(params['sessionId']));
+    else if (message.method === 'Target.receivedMessageFromTarget') this.answered(JSON.parse(String(params['message'])) as WorkerMessage);
+  }
+
+  private answered(message: WorkerMessage): void {
+    if (message.id === undefined) return;
+    this.waiting.get(message.id)?.(message.result ?? message.error);
+    this.waiting.delete(message.id);
+  }
+
   /** A protocol command inside the worker; answered when the worker's thread next takes messages. */
-  private inWorker(method: string): Promise<unknown> {
+  private inWorker(method: string, params: Record<string, unknown> = {}): Promise<unknown> {
     const sessionId = this.workerSession;
     if (sessionId === null) return Promise.reject(new Error('The worker went away.'));
     const id = this.nextId++;
     const answered = new Promise<unknown>((done) => this.waiting.set(id, done));
     // The non-flattened form is not in playwright's typed parameter list, hence the cast.
-    void this.cdp.send('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method }) } as never);
+    void this.cdp.send('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method, params }) } as never);
     return answered;
   }
 
+  /** A protocol command inside a segment worker: one envelope more. A worker that ends first answers nothing. */
+  private inSegmentWorker(sessionId: string, method: string): Promise<unknown> {
+    const id = this.nextId++;
+    const answered = new Promise<unknown>((done) => this.waiting.set(id, done));
+    void this.inWorker('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method }) });
+    return Promise.race([answered, sleep(SAMPLE_EVERY_MS).then(() => ({}))]);
+  }
+
   async sample(): Promise<MemoryFigures> {
-    const [page, worker] = await Promise.all([this.cdp.send('Runtime.getHeapUsage'), this.inWorker('Runtime.getHeapUsage')]);
-    const w = worker as { usedSize?: number; backingStorageSize?: number };
+    const [page, worker, ...segments] = await Promise.all([
+      this.cdp.send('Runtime.getHeapUsage'),
+      this.inWorker('Runtime.getHeapUsage'),
+      ...[...this.segmentSessions].map((session) => this.inSegmentWorker(session, 'Runtime.getHeapUsage')),
+    ]);
+    const figures = (usage: unknown): HeapFigures => {
+      const u = usage as { usedSize?: number; backingStorageSize?: number };
+      return { heapBytes: u.usedSize ?? 0, backingBytes: u.backingStorageSize ?? 0 };
+    };
     const pageFigures = { heapBytes: page.usedSize, backingBytes: page.backingStorageSize };
-    const workerFigures = { heapBytes: w.usedSize ?? NaN, backingBytes: w.backingStorageSize ?? NaN };
-    return { page: pageFigures, worker: workerFigures, totalBytes: sum(pageFigures) + sum(workerFigures) };
+    const workerFigures = figures(worker);
+    const segmentFigures = segments.map(figures).reduce((a, b) => ({ heapBytes: a.heapBytes + b.heapBytes, backingBytes: a.backingBytes + b.backingBytes }), { heapBytes: 0, backingBytes: 0 });
+    return { page: pageFigures, worker: workerFigures, segmentWorkers: segmentFigures, totalBytes: sum(pageFigures) + sum(workerFigures) + sum(segmentFigures) };
   }
 
   async settled(): Promise<MemoryFigures> {
     for (let i = 0; i < 2; i++) {
       await this.cdp.send('HeapProfiler.collectGarbage');
       await this.inWorker('HeapProfiler.collectGarbage');
+      await Promise.all([...this.segmentSessions].map((session) => this.inSegmentWorker(session, 'HeapProfiler.collectGarbage')));
     }
     return this.sample();
   }
+}
+
+interface WorkerMessage {
+  readonly id?: number;
+  readonly method?: string;
+  readonly params?: Record<string, unknown>;
+  readonly result?: unknown;
+  readonly error?: unknown;
 }
 
 const sum = (h: HeapFigures): number => h.heapBytes + h.backingBytes;
@@ -612,7 +659,7 @@ const ms = (value: number): string => `${value.toFixed(0)} ms`;
 
 function memoryText(m: MemoryFigures): string {
   const part = (h: HeapFigures): string => `${mb(h.heapBytes)} heap + ${mb(h.backingBytes)} buffers`;
-  return `${mb(m.totalBytes)} (page ${part(m.page)}; worker ${part(m.worker)})`;
+  return `${mb(m.totalBytes)} (page ${part(m.page)}; worker ${part(m.worker)}; segment workers ${part(m.segmentWorkers)})`;
 }
 
 /** One row per figure: what, the measured value, the target, pass or FAIL. */
