@@ -13,7 +13,7 @@ import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
 import { pageLimit, tooLargeForPage } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
-import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, SegmentWorkerFailure, segmentWorkerCount } from './segment-pool.ts';
+import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, SegmentWorkerFailure, readingThreadCount } from './segment-pool.ts';
 
 export interface ReadProgress {
   (done: number, total: number | null): void;
@@ -60,11 +60,25 @@ async function isSpreadsheet(file: File): Promise<boolean> {
 }
 
 function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptions): Promise<ReadResult> {
-  const workers = file.size >= PARALLEL_FROM_BYTES ? segmentWorkerCount() - 1 : 0;
+  const workers = file.size >= PARALLEL_FROM_BYTES ? readingThreadCount() - 1 : 0;
   if (workers <= 0) return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
+  // One count of the bytes read, here and in the segment workers, so that the bar only moves on.
+  const progress = { here: 0, others: 0 };
+  const report = (): void => onProgress(Math.min(progress.here + progress.others, file.size), file.size);
   return retryAsWindows1252(
-    () => chunksOf(file, signal, onProgress),
-    (chunks, encoding) => readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, onProgress),
+    () => {
+      progress.here = 0;
+      progress.others = 0;
+      return chunksOf(file, signal, (done) => {
+        progress.here = done;
+        report();
+      });
+    },
+    (chunks, encoding) =>
+      readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, (bytes) => {
+        progress.others += bytes;
+        report();
+      }),
     null,
   ).catch((error: unknown) => {
     // A segment worker that could not run (no module workers here): read on this thread instead.
@@ -86,19 +100,13 @@ async function readInSegments(
   settings: { delimiter: Delimiter | null; encoding: EncodingName | null },
   workers: number,
   signal: AbortSignal,
-  onProgress: ReadProgress,
+  onSegmentBytes: (bytes: number) => void,
 ): Promise<ReadResult> {
-  let others = 0;
-  let here = 0;
-  const pool = openSegmentPool(file, workers, signal, (bytes) => {
-    others += bytes;
-    onProgress(Math.min(here + others, file.size), file.size);
-  });
+  const pool = openSegmentPool(file, workers, signal, onSegmentBytes);
   try {
     const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES });
     const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size });
     for await (const chunk of chunks) {
-      here += chunk.length;
       reader.push(chunk);
       parallel.pushed(reader.segmenting);
       if (reader.stoppedAt !== null) break;

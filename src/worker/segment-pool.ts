@@ -22,15 +22,16 @@ export type FromSegmentWorker =
 export const PARALLEL_FROM_BYTES = 16 << 20;
 /** No segment is made smaller than this. */
 export const MIN_SEGMENT_BYTES = 8 << 20;
+/** Threads at most, the workbench's worker included. */
 const MAX_SEGMENT_WORKERS = 4;
 
 /**
- * Threads to read a big file on, the workbench's worker included: one per core, two at least,
- * four at most; 0 where workers cannot start.
+ * Threads to read a big file on, the workbench's worker included: one per core (two when the
+ * browser does not say), four at most; 0 where workers cannot start.
  */
-export function segmentWorkerCount(): number {
+export function readingThreadCount(): number {
   if (typeof Worker === 'undefined' || typeof navigator === 'undefined') return 0;
-  return Math.max(2, Math.min(MAX_SEGMENT_WORKERS, navigator.hardwareConcurrency || 2));
+  return Math.max(1, Math.min(MAX_SEGMENT_WORKERS, navigator.hardwareConcurrency || 2));
 }
 
 /** A segment worker that could not start or broke down (not a problem with the file). */

@@ -4,7 +4,7 @@
  */
 /// <reference lib="webworker" />
 import type { ToWorker } from './protocol.ts';
-import { segmentWorkerCount, warmSegmentWorkers } from './segment-pool.ts';
+import { readingThreadCount, warmSegmentWorkers } from './segment-pool.ts';
 import { createSession } from './session.ts';
 
 /** How long after start the segment workers are started: after the demo's first preview. */
@@ -15,4 +15,4 @@ scope.addEventListener('message', (event: MessageEvent<ToWorker>) => session.rec
 
 // Segment workers for big files, started once the page has settled, so that a big file's read
 // does not wait for them (segment-pool.ts).
-setTimeout(() => warmSegmentWorkers(segmentWorkerCount() - 1), WARM_AFTER_MS);
+setTimeout(() => warmSegmentWorkers(readingThreadCount() - 1), WARM_AFTER_MS);
