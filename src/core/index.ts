@@ -12,6 +12,12 @@ export { decodeBytes, ChunkDecoder, type EncodingName } from './decode.ts';
 export { readTable, createTableReader, readTableFromSource, tableFromRows, type ReadOptions, type ReadResult, type TableReader, type Delimiter } from './read-table.ts';
 export { cellText, type Column, type TextColumn, type NumberColumn, type Table, type RowIssue, type HeaderIssue } from './columns.ts';
 export { LevelwiseError, isLevelwiseError } from './errors.ts';
+// Reading on several threads: the first segment with createTableReader's `stopAt`, the others
+// with createSegmentReader on the caller's threads, put in order and joined by readInParallel.
+export { readInParallel, type ParallelRead, type SegmentRequest, type SegmentRunner } from './parallel-read.ts';
+export { createSegmentReader, rebaseRows, type SegmentResult } from './read-segment.ts';
+export { concatTables } from './concat-tables.ts';
+export { tableBuffers } from './columns.ts';
 
 // Understanding: columns → profile → proposed levels
 export { profileTable, profileColumn, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';

@@ -8,7 +8,8 @@
  * The threads themselves are the caller's: Web Workers in the page, worker threads in Node. Each
  * is a `SegmentRunner` that reads one segment of the same source and hands back its table.
  *
- * The result is the table one thread reads, storage included (test/core/parallel-read.test.ts).
+ * The result is the table one thread reads, storage included: test/core/concat-tables.property.test.ts
+ * runs this orchestration on random files cut into tiny segments (through read-in-segments.ts).
  */
 import { concatTables } from './concat-tables.ts';
 import type { Table } from './columns.ts';
