@@ -89,12 +89,17 @@ describe('reading in segments on several threads', () => {
     }
   });
 
-  it('check reports the same', () => {
-    const threaded = levelwise(['check', recipePath, input], true);
-    const single = levelwise(['check', recipePath, input], false);
-    expect(threaded.status).toBe(single.status);
-    expect(threaded.stdout.toString()).toBe(single.stdout.toString());
-    expect(threaded.stderr).toBe(single.stderr);
+  it('check reports the same, as text and as JSON (every tally, with its example lines)', () => {
+    for (const format of ['text', 'json']) {
+      const threaded = levelwise(['check', recipePath, input, '--format', format], true);
+      const single = levelwise(['check', recipePath, input, '--format', format], false);
+      expect(threaded.status).toBe(single.status);
+      expect(threaded.stdout.toString()).toBe(single.stdout.toString());
+      expect(threaded.stderr).toBe(single.stderr);
+    }
+    const report = JSON.parse(levelwise(['check', recipePath, input, '--format', 'json'], true).stdout.toString()) as { rowsRejected: number; rejected: unknown[] };
+    expect(report.rowsRejected).toBe(8);
+    expect(report.rejected).toHaveLength(8);
   });
 
   it('a byte that is not UTF-8 late in the file starts the reading over as Windows-1252, as on one thread', () => {
