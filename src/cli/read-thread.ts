@@ -377,6 +377,7 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
     delimiter: request.delimiter,
     firstByte: job.firstByte,
     stopAt: job.stopAt,
+    ...(job.afterRecord === true ? { afterRecord: true } : {}),
     encodingGuessed: request.encodingGuessed,
     totalBytes: Math.min(job.stopAt, fileBytes) - job.firstByte,
     ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),

@@ -71,6 +71,7 @@ function readSegment(bytes: Uint8Array, request: SegmentRequest): SegmentResult 
     delimiter: request.delimiter,
     firstByte: job.firstByte,
     stopAt: job.stopAt,
+    ...(job.afterRecord === true ? { afterRecord: true } : {}),
     encodingGuessed: request.encodingGuessed,
     totalBytes: Math.min(job.stopAt, bytes.length) - job.firstByte,
     ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),

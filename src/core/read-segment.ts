@@ -5,8 +5,8 @@
  * with `stopAt` (read-table.ts): it reads the header, chooses the encoding, delimiter and line
  * break, and stops at the first record that starts at or after the first cut. Every other segment
  * is read here: its bytes are pushed from one byte before its cut, it skips to just after the first
- * line break it meets (the first place a record can start) and reads records up to the first that
- * starts at or after the next cut.
+ * line break it meets outside quotes, as far as the bytes tell (likelyRecordStart), and reads
+ * records up to the first that starts at or after the next cut.
  *
  * A line break inside a quoted field looks like a record start to a segment that begins there.
  * Segments therefore say where they started and where they stopped, and the caller keeps a segment
@@ -31,6 +31,8 @@ export interface SegmentOptions {
   readonly firstByte: number;
   /** The next cut: no record starting at or after this file byte is read. */
   readonly stopAt: number;
+  /** Byte `firstByte` is known to end a record (SegmentJob.afterRecord): the segment starts right after it. */
+  readonly afterRecord?: boolean;
   /** Whether UTF-8 was a guess (bad bytes then mean reading the whole file again as Windows-1252). */
   readonly encodingGuessed: boolean;
   readonly dictionaryCap?: number;
@@ -56,6 +58,41 @@ export interface SegmentResult {
 }
 
 const LF = 0x0a;
+const CR = 0x0d;
+const QUOTE = 0x22;
+
+/**
+ * Where the first record after a cut most likely starts in `bytes`: just after the first line break
+ * outside quotes, taking the cut to fall inside a quoted field when the first quote met closes one
+ * (a delimiter or a line break follows it) and outside when it opens one (one comes before it). A
+ * doubled quote says nothing; no quote at all, outside. Returns -1 when the bytes do not tell (no
+ * line break outside quotes in them). A wrong guess costs time only: the segment does not line up
+ * with the one before it and is read again from the right place (segment-order.ts).
+ */
+export function likelyRecordStart(bytes: Uint8Array, delimiter: number): number {
+  let inside = false;
+  for (let i = 0; i < bytes.length; i++) {
+    if (bytes[i] !== QUOTE) continue;
+    if (bytes[i + 1] === QUOTE) {
+      i++;
+      continue;
+    }
+    const before = i > 0 ? bytes[i - 1] : undefined;
+    const after = bytes[i + 1];
+    const opens = before === delimiter || before === LF || before === CR;
+    const closes = after === delimiter || after === LF || after === CR;
+    if (opens !== closes) {
+      inside = closes;
+      break;
+    }
+  }
+  for (let i = 0; i < bytes.length; i++) {
+    const byte = bytes[i];
+    if (byte === QUOTE) inside = !inside;
+    else if (byte === LF && !inside) return i + 1;
+  }
+  return -1;
+}
 
 export interface SegmentReader {
   /** The file byte of the segment's first record; -1 until its bytes were pushed. */
@@ -74,6 +111,7 @@ export function createSegmentReader(options: SegmentOptions): SegmentReader {
     ...(options.columnHints === undefined ? {} : { columnHints: options.columnHints }),
   });
   const parser = new RecordParser(rows, { delimiter: options.delimiter, lineBreak: '\n' });
+  const delimiterByte = options.delimiter.charCodeAt(0);
   let pushed = 0;
   let start = -1;
   let reserved = false;
@@ -95,12 +133,14 @@ export function createSegmentReader(options: SegmentOptions): SegmentReader {
       const at = pushed;
       pushed += bytes.length;
       if (start === -1) {
-        // Before the segment's first record: skip through the first line break.
-        const lineBreak = bytes.indexOf(LF);
-        if (lineBreak === -1) return true;
-        start = options.firstByte + at + lineBreak + 1;
+        // Before the segment's first record: skip to just after a line break, outside quotes if
+        // the bytes tell; else through the first line break.
+        let skip = options.afterRecord === true ? -1 : likelyRecordStart(bytes, delimiterByte);
+        if (skip === -1) skip = bytes.indexOf(LF) + 1;
+        if (skip === 0) return true;
+        start = options.firstByte + at + skip;
         parser.stopAt(options.stopAt - start);
-        bytes = bytes.subarray(lineBreak + 1);
+        bytes = bytes.subarray(skip);
       }
       read(() => parser.push(bytes));
       if (!reserved && options.totalBytes !== undefined && rows.totalRows >= ESTIMATE_AFTER_ROWS) {

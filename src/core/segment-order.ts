@@ -12,6 +12,8 @@
 export interface SegmentJob {
   readonly firstByte: number;
   readonly stopAt: number;
+  /** Byte `firstByte` is known to end a record (a segment read again): start right after it. */
+  readonly afterRecord?: boolean;
 }
 
 /** What a segment reported (SegmentResult without its rows). */
@@ -88,7 +90,7 @@ export class SegmentOrder {
     if (start === this.nextStart) return { kind: 'take', rowOffset: this.rowsBefore, lineOffset: this.lineBreaksBefore };
     // Its records, all starting before its stop, were read by the segments before it.
     if (job.stopAt <= this.nextStart) return { kind: 'skip' };
-    return { kind: 'redo', job: { firstByte: this.nextStart - 1, stopAt: job.stopAt } };
+    return { kind: 'redo', job: { firstByte: this.nextStart - 1, stopAt: job.stopAt, afterRecord: true } };
   }
 
   /** The segment taken last ended at `end` after `rows` rows and `lineBreaks` line breaks. */

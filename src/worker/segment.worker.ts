@@ -28,6 +28,7 @@ async function readSegment(file: Blob, request: SegmentRequest): Promise<FromSeg
     delimiter: request.delimiter,
     firstByte: job.firstByte,
     stopAt: job.stopAt,
+    ...(job.afterRecord === true ? { afterRecord: true } : {}),
     encodingGuessed: request.encodingGuessed,
     totalBytes: Math.min(job.stopAt, file.size) - job.firstByte,
     ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),

@@ -9,7 +9,7 @@ import { cellText, type Column, type NumberColumn, type Table, type TextColumn }
 import { concatTables } from '../../src/core/concat-tables.ts';
 import { readNumberText, TableBuilder } from '../../src/core/columns-builder.ts';
 import { readInSegments } from '../../src/core/read-in-segments.ts';
-import { rebaseRows } from '../../src/core/read-segment.ts';
+import { likelyRecordStart, rebaseRows } from '../../src/core/read-segment.ts';
 import { readTable, tableFromRows, type ReadResult } from '../../src/core/read-table.ts';
 
 const HEADER = ['v', 'note'];
@@ -331,5 +331,28 @@ describe('concatTables with reuseFirst: the first part, read into storage for th
     const parts = [segment(cells.slice(0, 2), 0, 16), segment(cells.slice(2), 2, 16)];
     const joined = concatTables(parts, { dictionaryCap: 16, reuseFirst: true });
     sameAsWhole(joined, tableFromRows([HEADER, ...cells.map((cell, i) => [cell, `k${i}`])], { dictionaryCap: 16 }).table);
+  });
+});
+
+describe('likelyRecordStart: where a segment begins after its cut', () => {
+  const bytes = (text: string) => new TextEncoder().encode(text);
+  const comma = 0x2c;
+
+  it('outside quotes, the first line break', () => {
+    expect(likelyRecordStart(bytes('ab,c\nd,e\n'), comma)).toBe(5);
+  });
+
+  it('a first quote that closes a field (a delimiter follows it): the cut fell inside it', () => {
+    // `x\nend",7\nnext`: the line break at 1 is inside the quoted field, the one at 8 ends the record; the next starts at 9.
+    expect(likelyRecordStart(bytes('x\nend",7\nnext,1\n'), comma)).toBe(9);
+  });
+
+  it('a first quote that opens a field (a delimiter comes before it): the cut fell outside', () => {
+    expect(likelyRecordStart(bytes('7\nnext,"a\nb",1\n'), comma)).toBe(2);
+  });
+
+  it('doubled quotes say nothing; with no line break outside quotes, no answer', () => {
+    expect(likelyRecordStart(bytes('say ""hi"" now\nrest'), comma)).toBe(15);
+    expect(likelyRecordStart(bytes('x\nend",7 and no line break after'), comma)).toBe(-1);
   });
 });
