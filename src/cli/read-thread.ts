@@ -30,8 +30,8 @@ import { tableBuffers, type Table } from '../core/columns.ts';
 import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
 import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
-import { createSegmentReader, rebaseRows } from '../core/read-segment.ts';
-import { readInParallel, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
+import { rebaseRows, type SegmentResult } from '../core/read-segment.ts';
+import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
 
 const ROLE = 'levelwise-reading-thread';
@@ -77,17 +77,7 @@ type FromReader =
       readonly lineBreaks: number;
       readonly columnHints: ColumnHints | null;
     }
-  | {
-      readonly type: 'segment';
-      readonly id: number;
-      readonly table: Table;
-      readonly start: number;
-      readonly end: number;
-      readonly rows: number;
-      readonly lineBreaks: number;
-      readonly emptyLinesSkipped: number;
-      readonly bytesRead: number;
-    }
+  | ({ readonly type: 'segment'; readonly id: number; readonly bytesRead: number } & SegmentResult)
   | { readonly type: 'failed'; readonly code: string | null; readonly message: string; readonly hint: string; readonly stack?: string };
 
 export interface ThreadReadResult {
@@ -372,17 +362,7 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
   const { job } = request;
   const fileBytes = fstatSync(fd).size;
   let position = job.firstByte;
-  const reader = createSegmentReader({
-    names: request.names,
-    delimiter: request.delimiter,
-    firstByte: job.firstByte,
-    stopAt: job.stopAt,
-    ...(job.afterRecord === true ? { afterRecord: true } : {}),
-    encodingGuessed: request.encodingGuessed,
-    totalBytes: Math.min(job.stopAt, fileBytes) - job.firstByte,
-    ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),
-    ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
-  });
+  const reader = segmentReaderFor(request, fileBytes);
   let atEnd = false;
   for (;;) {
     const read = readSync(fd, buffer, 0, buffer.length, position);
@@ -393,9 +373,9 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
     position += read;
     if (!reader.push(buffer.subarray(0, read))) break;
   }
-  const { table, start, end, rows, lineBreaks, emptyLinesSkipped } = reader.finish(atEnd);
-  const message: FromReader = { type: 'segment', id, table, start, end, rows, lineBreaks, emptyLinesSkipped, bytesRead: position };
-  port.postMessage(message, tableBuffers(table));
+  const result = reader.finish(atEnd);
+  const message: FromReader = { type: 'segment', id, bytesRead: position, ...result };
+  port.postMessage(message, tableBuffers(result.table));
 }
 
 function post(port: NonNullable<typeof parentPort>, message: Extract<FromReader, { type: 'batch' }>): void {

@@ -14,7 +14,7 @@
 import { concatTables } from './concat-tables.ts';
 import type { Table } from './columns.ts';
 import type { ColumnHints, ReadResult, SegmentingInfo } from './read-table.ts';
-import { rebaseRows, type SegmentResult } from './read-segment.ts';
+import { createSegmentReader, rebaseRows, type SegmentReader, type SegmentResult } from './read-segment.ts';
 import type { Delimiter } from './parse.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from './segment-order.ts';
 
@@ -30,6 +30,22 @@ export interface SegmentRequest {
 
 /** Reads one segment on its thread; rejects with the reader's error (a LevelwiseError for bad bytes). */
 export type SegmentRunner = (request: SegmentRequest) => Promise<SegmentResult>;
+
+/** The segment reader for `request` on a thread, in a file of `fileBytes` bytes. */
+export function segmentReaderFor(request: SegmentRequest, fileBytes: number): SegmentReader {
+  const { job } = request;
+  return createSegmentReader({
+    names: request.names,
+    delimiter: request.delimiter,
+    firstByte: job.firstByte,
+    stopAt: job.stopAt,
+    ...(job.afterRecord === true ? { afterRecord: true } : {}),
+    encodingGuessed: request.encodingGuessed,
+    totalBytes: Math.min(job.stopAt, fileBytes) - job.firstByte,
+    ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),
+    ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
+  });
+}
 
 export interface ParallelReadOptions {
   readonly dictionaryCap?: number;

@@ -6,8 +6,8 @@
  */
 import type { Table } from './columns.ts';
 import { isLevelwiseError } from './errors.ts';
-import { readInParallel, type SegmentRequest, type SegmentRunner } from './parallel-read.ts';
-import { createSegmentReader, type SegmentResult } from './read-segment.ts';
+import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from './parallel-read.ts';
+import type { SegmentResult } from './read-segment.ts';
 import { createTableReader, readTable, type ReadResult } from './read-table.ts';
 
 export interface SegmentedReadOptions {
@@ -66,16 +66,7 @@ async function readSegments(bytes: Uint8Array, segmentBytes: number, options: Se
 /** Reads the segment of `request`, pushing the file's bytes until it stops or the file ends. */
 function readSegment(bytes: Uint8Array, request: SegmentRequest): SegmentResult {
   const { job } = request;
-  const reader = createSegmentReader({
-    names: request.names,
-    delimiter: request.delimiter,
-    firstByte: job.firstByte,
-    stopAt: job.stopAt,
-    ...(job.afterRecord === true ? { afterRecord: true } : {}),
-    encodingGuessed: request.encodingGuessed,
-    totalBytes: Math.min(job.stopAt, bytes.length) - job.firstByte,
-    ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
-  });
+  const reader = segmentReaderFor(request, bytes.length);
   let at = job.firstByte;
   while (at < bytes.length) {
     const end = Math.min(bytes.length, at + PUSH_BYTES);

@@ -6,8 +6,7 @@
 /// <reference lib="webworker" />
 import { tableBuffers } from '../core/columns.ts';
 import { isLevelwiseError } from '../core/errors.ts';
-import type { SegmentRequest } from '../core/parallel-read.ts';
-import { createSegmentReader } from '../core/read-segment.ts';
+import { segmentReaderFor, type SegmentRequest } from '../core/parallel-read.ts';
 import type { FromSegmentWorker, ToSegmentWorker } from './segment-pool.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope; // the DOM lib types `self` as Window
@@ -23,17 +22,7 @@ scope.addEventListener('message', (event: MessageEvent<ToSegmentWorker>) => {
 
 async function readSegment(file: Blob, request: SegmentRequest): Promise<FromSegmentWorker> {
   const { job } = request;
-  const reader = createSegmentReader({
-    names: request.names,
-    delimiter: request.delimiter,
-    firstByte: job.firstByte,
-    stopAt: job.stopAt,
-    ...(job.afterRecord === true ? { afterRecord: true } : {}),
-    encodingGuessed: request.encodingGuessed,
-    totalBytes: Math.min(job.stopAt, file.size) - job.firstByte,
-    ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),
-    ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
-  });
+  const reader = segmentReaderFor(request, file.size);
   const stream = file.slice(job.firstByte).stream().getReader();
   let atEnd = false;
   let told = 0;
