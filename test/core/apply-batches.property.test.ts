@@ -49,13 +49,20 @@ function recipeFor(fit: Table, levels: readonly MeasurementLevel[], strict: bool
   return recipe;
 }
 
+type Scenario = typeof scenario extends fc.Arbitrary<infer T> ? T : never;
+
+/** A scenario's recipe, fitted on its fitting rows, planned over the rows it applies to. */
+function planned(s: Scenario): { source: Table; plan: ReturnType<typeof compilePlan> } {
+  const recipe = recipeFor(table(s.fitRows, 4096), s.levels, s.strict);
+  const source = table(s.applyRows, s.dictionaryCap);
+  return { source, plan: compilePlan(recipe, source.names) };
+}
+
 describe('encodeBatch against one cell at a time', () => {
   it('levels, numbers, missing flags and rejections agree for any range of rows', () => {
     fc.assert(
       fc.property(scenario, (s) => {
-        const recipe = recipeFor(table(s.fitRows, 4096), s.levels, s.strict);
-        const source = table(s.applyRows, s.dictionaryCap);
-        const plan = compilePlan(recipe, source.names);
+        const { source, plan } = planned(s);
         const [a, b] = s.range.map((x) => x % (source.rowCount + 1)) as [number, number];
         const start = Math.min(a, b);
         const end = Math.max(a, b);
@@ -87,9 +94,7 @@ describe('encodeBatch against one cell at a time', () => {
   it('the report is the same whatever the batch size', () => {
     fc.assert(
       fc.property(scenario, (s) => {
-        const recipe = recipeFor(table(s.fitRows, 4096), s.levels, s.strict);
-        const source = table(s.applyRows, s.dictionaryCap);
-        const plan = compilePlan(recipe, source.names);
+        const { source, plan } = planned(s);
         const reportWith = (batchRows: number) => {
           const report = createApplyReport(plan);
           for (let start = 0; start < source.rowCount; start += batchRows) encodeBatch(plan, source, start, Math.min(source.rowCount, start + batchRows), report);
