@@ -44,8 +44,8 @@ async function sourceLocator(profiles: readonly CpuProfile[], root: string): Pro
   };
 }
 
-/** The command line's bundle, as bin/levelwise.js writes it. */
-const BUNDLE = /\/node_modules\/\.cache\/levelwise-cli\/cli-[0-9a-f]+\.mjs$/;
+/** The command line's bundles (its own and its reading threads'), as bin/levelwise.js writes them. */
+const BUNDLE = /\/node_modules\/\.cache\/levelwise-cli\/build-[0-9a-f]+\/(cli|read-thread)\.mjs$/;
 
 function bundleLocator(profiles: readonly CpuProfile[]): LocateSource {
   const maps = new Map<string, SourceMap | null>();

@@ -17,9 +17,10 @@
  * reading the first, joined by core parallel-read.ts as the page's worker does.
  *
  * Tables cross as typed arrays transferred, not copied; only dictionaries' strings are cloned.
- * The threads run the same code as the rest of the command line: the bundle that bin/levelwise.js
- * loads, started again as a worker, which finds its role in `workerData` (from the TypeScript
- * sources, read-thread-sources.mjs loads this file). The command line itself reads on threads only
+ * The threads run this file: bin/levelwise.js bundles it on its own beside the command line's
+ * bundle (a thread starts in a third of the time without the command line's packages), and the
+ * thread finds its role in `workerData` (from the TypeScript sources, read-thread-sources.mjs loads
+ * this file). The command line itself reads on threads only
  * from its bundle (`canReadInThread`); from its sources it reads on one, the reference the tests
  * compare the threads with.
  */
@@ -36,6 +37,8 @@ import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-orde
 
 const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
+/** A whole-table read's first chunk: the header and the first rows, after which the other threads start. */
+const FIRST_CHUNK_BYTES = 64 << 10;
 /** The size of a segment: several batches' worth, so a segment's start-up is paid rarely. */
 const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 8 << 20;
 /** Where the first thread stops reading the file's start alone (the others wait for it). */
@@ -178,12 +181,13 @@ export async function readTableInThreads(path: string, settings: Omit<Settings, 
   const parallel = readInParallel(fileBytes, runners);
   try {
     const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop });
-    // Chunks no larger than the first segment, so that the reader can stop near its end.
+    // Chunks no larger than the first segment, so that the reader can stop near its end; the first
+    // one small, so that the header is known and the other threads start at once.
     const buffer = new Uint8Array(Math.min(CHUNK_BYTES, parallel.firstStop));
     const fd = openSync(path, 'r');
     try {
       let position = 0;
-      for (let read = readSync(fd, buffer, 0, buffer.length, 0); read > 0; read = readSync(fd, buffer, 0, buffer.length, position)) {
+      for (let read = readSync(fd, buffer, 0, Math.min(FIRST_CHUNK_BYTES, buffer.length), 0); read > 0; read = readSync(fd, buffer, 0, buffer.length, position)) {
         position += read;
         done += read;
         reader.push(buffer.subarray(0, read));
@@ -200,10 +204,14 @@ export async function readTableInThreads(path: string, settings: Omit<Settings, 
   }
 }
 
+/**
+ * A reading thread runs this file: from the sources through read-thread-sources.mjs; from a build,
+ * its own bundle of this file, which bin/levelwise.js writes beside the command line's.
+ */
 function startReadingThread(path: string): Worker {
   const workerData = { role: ROLE, path, entry: import.meta.url };
-  if (!import.meta.url.endsWith('.ts')) return new Worker(new URL(import.meta.url), { workerData });
-  return new Worker(new URL('./read-thread-sources.mjs', import.meta.url), { workerData });
+  if (import.meta.url.endsWith('.ts')) return new Worker(new URL('./read-thread-sources.mjs', import.meta.url), { workerData });
+  return new Worker(new URL('./read-thread.mjs', import.meta.url), { workerData });
 }
 
 function fstatOf(path: string): number {

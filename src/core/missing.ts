@@ -10,10 +10,23 @@ export type MissingTest = (raw: string) => boolean;
  */
 export function missingTest(tokens: readonly string[]): MissingTest {
   const set = new Set(tokens);
+  let longest = 0;
+  for (const token of set) longest = Math.max(longest, token.length);
   return (raw) => {
+    // Most texts (an identifier column's million) start and end with a printable ASCII character
+    // other than the space: trimming leaves them as they are, and one longer than every token is
+    // none of them. No trimmed copy, no hashing of the text.
+    if (raw.length > 0 && printableEdge(raw.charCodeAt(0)) && printableEdge(raw.charCodeAt(raw.length - 1))) {
+      return raw.length <= longest && set.has(raw);
+    }
     const t = raw.trim();
     return t === '' || set.has(t);
   };
+}
+
+/** Printable ASCII other than the space: never removed by trim(), whose white space is all below 0x21 or above 0x7e. */
+function printableEdge(code: number): boolean {
+  return code > 0x20 && code < 0x7f;
 }
 
 /**

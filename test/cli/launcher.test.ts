@@ -5,10 +5,10 @@
  * copy's sources between runs: the output must always come from the sources as they are now.
  */
 import { spawnSync } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 
 const ROOT = join(import.meta.dirname, '../..');
@@ -81,7 +81,37 @@ describe('the launcher', () => {
     expect(levelwise(['--help']).stdout).toContain('Usage: levelwise VERB [options]');
   });
 
-  it('keeps only the bundle in use', () => {
-    expect(readdirSync(CACHE).filter((f) => f.endsWith('.mjs'))).toHaveLength(1);
+  it('writes the reading threads a bundle of their own beside the command line bundle, without its packages', () => {
+    const manifest = JSON.parse(readFileSync(join(CACHE, 'manifest.json'), 'utf8')) as { bundle: string };
+    const folder = dirname(join(CACHE, manifest.bundle));
+    expect(readdirSync(folder).sort()).toEqual(['cli.mjs', 'cli.mjs.map', 'read-thread.mjs', 'read-thread.mjs.map']);
+    const thread = readFileSync(join(folder, 'read-thread.mjs'), 'utf8');
+    expect(thread).toContain('levelwise-reading-thread');
+    expect(thread).not.toMatch(/from "zod"/);
+    // Threads read a file from it: three threads, 3 kB segments, the same output as one thread.
+    const rows = Array.from({ length: 3000 }, (_, i) => `ID-${String(i).padStart(5, '0')},${i % 7}`).join('\n');
+    const big = join(copy, 'big.csv');
+    writeFileSync(big, `id,n\n${rows}\n`);
+    const threads = { LEVELWISE_READING_THREADS: '3', LEVELWISE_SEGMENT_BYTES: '3000', LEVELWISE_PARALLEL_FROM_BYTES: '1000' };
+    const onThreads = levelwise(['profile', big, '--format', 'json'], threads);
+    const onOne = levelwise(['profile', big, '--format', 'json'], { LEVELWISE_NO_BUNDLE: '1' });
+    expect(onThreads.status).toBe(0);
+    expect(onThreads.stdout).toBe(onOne.stdout);
+  });
+
+  it('removes other builds once they are a few minutes old, not before (a run may still start threads from one)', () => {
+    const builds = () => readdirSync(CACHE).filter((f) => f !== 'manifest.json').sort();
+    const before = builds();
+    const old = join(CACHE, 'build-0000000000000000');
+    const recent = join(CACHE, 'build-1111111111111111');
+    for (const folder of [old, recent]) mkdirSync(folder);
+    const elevenMinutesAgo = new Date(Date.now() - 11 * 60 * 1000);
+    utimesSync(old, elevenMinutesAgo, elevenMinutesAgo);
+    for (const build of before) utimesSync(join(CACHE, build), elevenMinutesAgo, elevenMinutesAgo);
+    edit('src/cli/help.ts', 'Usage: levelwise VERB [options]', 'Usage: levelwise VERB [options] (again)');
+    expect(levelwise(['--help']).stdout).toContain('(again)');
+    edit('src/cli/help.ts', 'Usage: levelwise VERB [options] (again)', 'Usage: levelwise VERB [options]');
+    const manifest = JSON.parse(readFileSync(join(CACHE, 'manifest.json'), 'utf8')) as { bundle: string };
+    expect(builds()).toEqual([dirname(manifest.bundle), 'build-1111111111111111'].sort());
   });
 });
