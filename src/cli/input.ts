@@ -11,6 +11,7 @@ import type { Table } from '../core/columns.ts';
 import { decodeBytes, type EncodingName } from '../core/decode.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
+import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
 import { parseRecipe } from '../core/recipe-io.ts';
 import type { Recipe } from '../core/recipe.ts';
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
@@ -132,8 +133,13 @@ export interface ReadSummary {
 const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04];
 
 /** The whole table in memory (profile, draft). */
-export async function readWholeTable(source: InputSource, settings: ReadSettings): Promise<{ table: Table; summary: ReadSummary }> {
+export async function readWholeTable(
+  source: InputSource,
+  settings: ReadSettings,
+  profiling: ProfileOptions,
+): Promise<{ table: Table; summary: ReadSummary; profiles: ColumnProfile[] }> {
   let table: Table | null = null;
+  let profiles: ColumnProfile[] | null = null;
   const summary = await readBatches(source, settings, null, {
     onBatch(batch) {
       table = batch;
@@ -142,9 +148,14 @@ export async function readWholeTable(source: InputSource, settings: ReadSettings
     async restart() {
       return true;
     },
+    profiling,
+    onProfiles(made) {
+      profiles = made;
+    },
   });
   if (table === null) throw new Error('the reader handed over no table');
-  return { table, summary };
+  // Read on threads, the table was profiled there (its number columns on the reading threads).
+  return { table, summary, profiles: profiles ?? profileTable(table, profiling) };
 }
 
 export interface BatchHandlers {
@@ -157,6 +168,10 @@ export interface BatchHandlers {
    * row 0? Return false when what was written cannot be taken back (standard output).
    */
   restart(): Promise<boolean>;
+  /** A whole table read on threads is profiled with these options before the threads go… */
+  readonly profiling?: ProfileOptions;
+  /** …and its profiles handed here. */
+  onProfiles?(profiles: ColumnProfile[]): void;
 }
 
 /**
@@ -246,8 +261,9 @@ async function readTextInThread(
 /** As readText with every row in one table, read on several threads (read-thread.ts). */
 async function readWholeInThreads(path: string, delimiter: Delimiter | null, encoding: EncodingName | null, handlers: BatchHandlers): Promise<ReadSummary> {
   const taker = batchTaker(handlers);
-  const result = await readTableInThreads(path, { delimiter, encoding }, (bytes) => void handlers.afterChunk(bytes, 0));
+  const result = await readTableInThreads(path, { delimiter, encoding }, (bytes) => void handlers.afterChunk(bytes, 0), handlers.profiling ?? null);
   taker.take(result.table, 0);
+  if (result.profiles !== null) handlers.onProfiles?.(result.profiles);
   return { names: result.table.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: taker.log.findings() };
 }
 

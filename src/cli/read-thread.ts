@@ -27,13 +27,14 @@
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { tableBuffers, type Table } from '../core/columns.ts';
+import { tableBuffers, type NumberColumn, type Table } from '../core/columns.ts';
 import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
 import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { rebaseRows, type SegmentResult } from '../core/read-segment.ts';
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
+import { profileColumn, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
 
 const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
@@ -64,7 +65,8 @@ interface Settings {
 /** What a thread is asked to read. */
 type ToReader =
   | { readonly type: 'start'; readonly id: number; readonly settings: Settings; readonly stopAt: number }
-  | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest };
+  | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest }
+  | { readonly type: 'profile'; readonly id: number; readonly column: NumberColumn; readonly index: number; readonly options: ProfileOptions };
 
 type FromReader =
   | { readonly type: 'batch'; readonly id: number; readonly table: Table; readonly firstRow: number; readonly bytesRead: number }
@@ -81,6 +83,7 @@ type FromReader =
       readonly columnHints: ColumnHints | null;
     }
   | ({ readonly type: 'segment'; readonly id: number; readonly bytesRead: number } & SegmentResult)
+  | { readonly type: 'profile'; readonly id: number; readonly profile: ColumnProfile }
   | { readonly type: 'failed'; readonly code: string | null; readonly message: string; readonly hint: string; readonly stack?: string };
 
 export interface ThreadReadResult {
@@ -159,12 +162,23 @@ export async function readBatchesInThread(
   }
 }
 
+/** A whole table read on threads, and its profile when asked for. */
+export interface ThreadTableResult extends ReadResult {
+  readonly profiles: ColumnProfile[] | null;
+}
+
 /**
  * The whole table of the file at `path` (profile, draft), read on this thread and the reading
  * threads, one segment each, joined in file order (core parallel-read.ts). `onBytes` is told the
- * bytes read so far, for progress.
+ * bytes read so far, for progress. With `profiling`, the table is profiled before the threads go,
+ * its number columns on them (core profileTableSharing).
  */
-export async function readTableInThreads(path: string, settings: Omit<Settings, 'batchRows'>, onBytes: (bytes: number) => void = () => undefined): Promise<ReadResult> {
+export async function readTableInThreads(
+  path: string,
+  settings: Omit<Settings, 'batchRows'>,
+  onBytes: (bytes: number) => void = () => undefined,
+  profiling: ProfileOptions | null = null,
+): Promise<ThreadTableResult> {
   const fileBytes = fstatOf(path);
   const count = fileBytes >= PARALLEL_FROM_BYTES ? readingThreads() - 1 : 0;
   const workers = Array.from({ length: count }, () => startReadingThread(path));
@@ -198,10 +212,23 @@ export async function readTableInThreads(path: string, settings: Omit<Settings, 
     } finally {
       closeSync(fd);
     }
-    return await parallel.finish(reader.finish());
+    const result = await parallel.finish(reader.finish());
+    return { ...result, profiles: profiling === null ? null : await profileOnThreads(result.table, profiling, inbox, workers.length) };
   } finally {
     await Promise.all(workers.map((worker) => worker.terminate()));
   }
+}
+
+/** The table's profile, its number columns handed round the reading threads (none: all here). */
+function profileOnThreads(table: Table, options: ProfileOptions, inbox: Inbox, threads: number): Promise<ColumnProfile[]> {
+  let next = 0;
+  return profileTableSharing(table, options, async (column, index) => {
+    if (threads === 0) return profileColumn(column, index, options);
+    const id = inbox.send(next++ % threads, { type: 'profile', id: 0, column, index, options });
+    const answer = await inbox.next(id);
+    if (answer.type !== 'profile') throw new Error(`reading thread: unexpected ${answer.type} message`);
+    return answer.profile;
+  });
 }
 
 /**
@@ -327,7 +354,8 @@ function serve(path: string, port: NonNullable<typeof parentPort>): void {
   port.on('message', (request: ToReader) => {
     try {
       if (request.type === 'start') readStart(request, fd, buffer, port);
-      else readSegment(request, fd, buffer, port);
+      else if (request.type === 'segment') readSegment(request, fd, buffer, port);
+      else port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(request.column, request.index, request.options) } satisfies FromReader);
     } catch (error) {
       port.postMessage(failed(error));
     }

@@ -20,7 +20,7 @@ export { concatTables } from './concat-tables.ts';
 export { tableBuffers } from './columns.ts';
 
 // Understanding: columns → profile → proposed levels
-export { profileTable, profileColumn, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
+export { profileTable, profileTableSharing, profileColumn, type ColumnProfile, type ColumnProfiler, type LevelCount, type NumericSummary } from './profile.ts';
 export { inferLevel, sensitiveAttributeCaution, type Inference } from './infer.ts';
 export { parseNumber, detectNumberFormat } from './numbers.ts';
 export { missingTest } from './missing.ts';

@@ -4,9 +4,9 @@
  */
 import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
-import { missingNumbers, missingTest, type MissingTest } from './missing.ts';
+import { DEFAULT_MISSING_TOKENS, missingNumbers, missingTest, type MissingTest } from './missing.ts';
 import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
-import { DEFAULT_MISSING_TOKENS, type NumberFormat } from './recipe.ts';
+import type { NumberFormat } from './recipe.ts';
 import { sortNumbers } from './sort-numbers.ts';
 
 export interface LevelCount {
@@ -149,6 +149,24 @@ export function profileColumn(
 
 export function profileTable(table: Table, options: ProfileOptions = DEFAULT_PROFILE_OPTIONS): ColumnProfile[] {
   return table.columns.map((column, index) => withInvalidLines(profileColumn(column, index, options), table.lineOfRow));
+}
+
+/** Profiles one column elsewhere (another thread): what profileColumn gives for it. */
+export type ColumnProfiler = (column: NumberColumn, index: number, options: ProfileOptions) => Promise<ColumnProfile>;
+
+/**
+ * profileTable, with the columns in number storage handed to `elsewhere` (another thread) while
+ * this thread profiles the others. Those are the costly ones per cell (a million numbers sorted),
+ * cheap to send (typed arrays) and their profiles small to send back (no levels); text columns cost
+ * per distinct value and stay here. The result is profileTable's.
+ */
+export async function profileTableSharing(table: Table, options: ProfileOptions, elsewhere: ColumnProfiler): Promise<ColumnProfile[]> {
+  // Sent first, so that the other thread works while this one does.
+  const sent = table.columns.map((column, index) => (column.kind === 'number' ? elsewhere(column, index, options) : null));
+  for (const pending of sent) pending?.catch(() => undefined);
+  const here = table.columns.map((column, index) => (column.kind === 'number' ? null : profileColumn(column, index, options)));
+  const profiles = await Promise.all(here.map((profile, index) => profile ?? sent[index]!));
+  return profiles.map((profile) => withInvalidLines(profile, table.lineOfRow));
 }
 
 /** Invalid cells are told by the file line a person finds them on, not only by row index. */

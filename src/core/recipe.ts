@@ -224,4 +224,5 @@ export const Recipe = z
   .strict();
 export type Recipe = z.infer<typeof Recipe>;
 
-export const DEFAULT_MISSING_TOKENS: readonly string[] = ['NA', 'N/A', 'NaN', 'null', 'NULL', 'None', '.', '?', '-'];
+// Defined with the missing-value test (missing.ts), which needs no schema: the reading threads load it without zod.
+export { DEFAULT_MISSING_TOKENS } from './missing.ts';

@@ -11,7 +11,7 @@ import type { Decision } from '../../core/decisions.ts';
 import { decide } from '../../core/decisions.ts';
 import { draftRecipe } from '../../core/fit.ts';
 import { sensitiveAttributeCaution } from '../../core/infer.ts';
-import { profileTable, type ColumnProfile } from '../../core/profile.ts';
+import type { ColumnProfile } from '../../core/profile.ts';
 import { stringifyRecipe } from '../../core/recipe-io.ts';
 import { DEFAULT_MISSING_TOKENS, LEVELS, type ColumnRecipe, type MeasurementLevel, type Recipe } from '../../core/recipe.ts';
 import { optionValue, parseArgs, positionals, type ParsedArgs } from '../args.ts';
@@ -46,7 +46,7 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
   const [filePath = ''] = positionals(VERB, args, ['FILE']);
   const source = await inputSource(filePath);
   const settings = readSettings(args);
-  const { table, summary } = await readWholeTable(source, settings);
+  const { table, summary, profiles } = await readWholeTable(source, settings, { missingTokens: DEFAULT_MISSING_TOKENS });
   if (summary.rows === 0) {
     throw new CliFailure(
       `cannot draft a recipe from "${source.label}": it has a header but no data rows, so there is nothing to learn levels or numbers from. Nothing was written.`,
@@ -54,7 +54,6 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
     );
   }
   for (const line of findingsLines(source.label, summary.names, summary.findings, VERB, SHOWN_ROWS)) note(VERB, line);
-  const profiles = profileTable(table, { missingTokens: DEFAULT_MISSING_TOKENS });
   const drafted = draftRecipe(profiles, { file: source.fileName, rows: table.rowCount }, { delimiter: settings.delimiter });
   const recipe = applyChoices(drafted, args, profiles);
 

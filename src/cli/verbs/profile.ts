@@ -6,7 +6,7 @@
  */
 import { DEFAULT_MISSING_TOKENS } from '../../core/recipe.ts';
 import { inferLevel, sensitiveAttributeCaution, type Inference } from '../../core/infer.ts';
-import { profileTable, type ColumnProfile } from '../../core/profile.ts';
+import type { ColumnProfile } from '../../core/profile.ts';
 import { optionValue, parseArgs, positionals } from '../args.ts';
 import type { Table } from '../../core/columns.ts';
 import { count, linesText, note, OUTPUT_OPTION, plural, quoted, READ_OPTIONS, readSettings } from '../common.ts';
@@ -26,10 +26,9 @@ export async function profileVerb(argv: readonly string[]): Promise<ExitCode> {
   const args = parseArgs(VERB, argv, [{ name: 'format', choices: ['text', 'json'] }, OUTPUT_OPTION, ...READ_OPTIONS]);
   const [filePath = ''] = positionals(VERB, args, ['FILE']);
   const source = await inputSource(filePath);
-  const { table, summary } = await readWholeTable(source, readSettings(args));
+  const { table, summary, profiles } = await readWholeTable(source, readSettings(args), { missingTokens: DEFAULT_MISSING_TOKENS });
   for (const line of findingsLines(source.label, summary.names, summary.findings, VERB, SHOWN_ROWS)) note(VERB, line);
   if (summary.rows === 0) note(VERB, `"${source.label}" has a header but no data rows: there is nothing to profile, only the columns' names.`);
-  const profiles = profileTable(table, { missingTokens: DEFAULT_MISSING_TOKENS });
   const suggestions = profiles.map((p) => inferLevel(p));
   const output = openOutput(optionValue(args, 'output'));
   if (optionValue(args, 'format') === 'json') {
