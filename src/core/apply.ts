@@ -98,13 +98,15 @@ function encodeLevels(
   if (source?.kind === 'text') {
     // Resolve each distinct value once; the row loop is then a lookup by code.
     const levelOfCode = resolveCodes(new Int32Array(source.values.length), source, start, rows, (text) => ordinaryLevel(plan.resolve(text)));
+    // Unusual codes (a missing spelling in a tenth of the rows) keep their outcome too: no lookup by text per cell.
+    const unusual: (LevelResolution | undefined)[] = [];
     for (let r = 0; r < rows; r++) {
       const code = source.codes[start + r]!;
       const known = levelOfCode[code]!;
       if (known !== UNUSUAL) level[r] = known;
       else {
         const text = source.values[code] ?? '';
-        note(r, text, plan.resolve(text));
+        note(r, text, (unusual[code] ??= plan.resolve(text)));
       }
     }
   } else {
