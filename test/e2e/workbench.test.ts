@@ -14,6 +14,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { browserAvailable, launchChromium } from './helpers/browser.ts';
 import { RESULTS, buildAndServe, type ServedApp } from './helpers/server.ts';
 import { buildXlsx } from './helpers/xlsx.ts';
+import { draftRecipe } from '../../src/core/fit.ts';
+import { profileTable } from '../../src/core/profile.ts';
+import { readTable } from '../../src/core/read-table.ts';
+import { formatCount, formatValue } from '../../src/ui/columns/labels.ts';
 
 /** An invented ticket list: identifiers, a nominal colour, an unordered-looking priority, amounts with one gap. */
 const TICKETS_CSV =
@@ -406,6 +410,41 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await expect.poll(async () => Number(await last.textContent()), { timeout: 15_000 }).toBe(600_000);
     expect(await previewCell(rows - 1, 'id')).toBe(`N-${rows}`);
     await shot('13-segments-end');
+  });
+
+  it('shows what core finds on one thread for a column of a big file kept as numbers and read in segments', async () => {
+    // 450,000 invented meter readings (~19 MB, read in segments): most readings distinct (past the
+    // 4,096-value dictionary: number storage), every 97th missing ("NA"), every 13th with two fixed
+    // decimals, every 1000th not a number.
+    const rows = 450_000;
+    const lines = ['meter,reading,site,visit'];
+    for (let r = 1; r <= rows; r++) {
+      const reading = r % 97 === 0 ? 'NA' : r % 1000 === 0 ? `faulty ${r}` : r % 13 === 0 ? `${r}.50` : String(r * 3 + (r % 7) / 4);
+      lines.push(`M-${r},${reading},${['north', 'south'][r % 2]},reading taken on visit ${r % 53}`);
+    }
+    const text = `${lines.join('\n')}\n`;
+    expect(text.length).toBeGreaterThan(16 << 20);
+    await page.getByTestId('open-file-input').setInputFiles({ name: 'meters.csv', mimeType: 'text/csv', buffer: Buffer.from(text) });
+    await waitForFile('meters.csv', rows);
+
+    // What one thread finds: core's profile and draft of the same bytes, in Node.
+    const table = readTable(new TextEncoder().encode(text)).table;
+    expect(table.columns[1]!.kind).toBe('number');
+    const fitted = draftRecipe(profileTable(table), { file: 'meters.csv', rows }).columns[1]!;
+    if (fitted.level !== 'continuous') throw new Error(`reading drafted as ${fitted.level}`);
+    await chooseColumn('reading');
+    const shown = await page.locator('[aria-label="Learned from this file"] dt').allTextContents();
+    const values = await page.locator('[aria-label="Learned from this file"] dd').allTextContents();
+    const byTerm = Object.fromEntries(shown.map((term, i) => [term, values[i]]));
+    expect(byTerm).toMatchObject({
+      'numbers read': formatCount(fitted.fitted.count),
+      mean: formatValue(fitted.fitted.mean),
+      'standard deviation': formatValue(fitted.fitted.sd),
+      median: formatValue(fitted.fitted.median),
+    });
+    // 450,000 rows less 4,639 "NA" (every 97th) and 446 "faulty" (every 1000th, but for the four
+    // rows that are multiples of 97 000 too, which are "NA").
+    expect(fitted.fitted.count).toBe(444_915);
   });
 
   it('a big file with a Windows-1252 byte near its end, found by a segment worker, is read again as Windows-1252', async () => {
