@@ -21,7 +21,7 @@ import { stringifyRecipe, type Recipe } from '../src/core/index.ts';
 import { measuresEverything, parseBenchArguments, REFERENCE_ROWS, USAGE, type ApplyChoice, type BenchArguments } from './lib/args.ts';
 import { findResult, type MemoryResult, type TimedResult } from './lib/child-result.ts';
 import { measureInChild, PROJECT_ROOT, runCli, runNode } from './lib/children.ts';
-import { describeMachine, machineLine } from './lib/machine.ts';
+import { cpuShares, describeMachine, machineLine, readCpuTicks } from './lib/machine.ts';
 import { applyFromFile, readTableFromFile } from './lib/paths.ts';
 import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
 import {
@@ -216,8 +216,10 @@ function describeApplyPath(path: ApplyPath): string {
   return `apply measured through the command line (${path.command}), start-up ${path.startupSeconds.toFixed(2)} s included; ${match}`;
 }
 
-function loadLine({ loadAverage, machine }: BenchResults): string {
-  const line = `load average (1 min) at start ${loadAverage.start.toFixed(1)}, at end ${loadAverage.end.toFixed(1)}`;
+function loadLine({ loadAverage, machine, cpuTime }: BenchResults): string {
+  const percent = (share: number): string => `${(100 * share).toFixed(0)} %`;
+  const cpu = cpuTime ? `; of the machine's CPU time while Node was measured, ${percent(cpuTime.busy)} busy and ${percent(cpuTime.steal)} stolen by the host for other guests` : '';
+  const line = `load average (1 min) at start ${loadAverage.start.toFixed(1)}, at end ${loadAverage.end.toFixed(1)}${cpu}`;
   const busy = Math.max(loadAverage.start, loadAverage.end) > machine.cores;
   return busy ? `${line}: above the core count, so other work shared the machine and every MB/s is low; the side-by-side ratios still compare` : line;
 }
@@ -303,7 +305,9 @@ async function main(): Promise<void> {
     if (args.cpuProfile) return await whereTimeGoes(applyPath, recipeFile);
 
     const loadAtStart = loadavg()[0] ?? NaN;
+    const ticksAtStart = readCpuTicks();
     const sizes = await measureAll(args, applyPath, recipeFile);
+    const cpuTime = cpuShares(ticksAtStart, readCpuTicks());
     const notes: string[] = [];
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
     const loadAtEnd = loadavg()[0] ?? NaN;
@@ -313,6 +317,7 @@ async function main(): Promise<void> {
     const results: BenchResults = {
       machine: describeMachine(),
       loadAverage: { start: loadAtStart, end: loadAtEnd },
+      cpuTime,
       reps: args.reps,
       applyPath,
       recipe: describeRecipe(recipe),

@@ -62,6 +62,11 @@ export interface BenchResults {
   readonly machine: Machine;
   /** The 1-minute load average when the measurements started and ended: how busy the machine was. */
   readonly loadAverage: { readonly start: number; readonly end: number };
+  /**
+   * Shares of the machine's CPU time while the Node paths were measured: busy, and stolen by the
+   * host for other guests (a virtual machine's cores are not all its own); null where unknown.
+   */
+  readonly cpuTime?: { readonly busy: number; readonly steal: number } | null;
   readonly reps: number;
   readonly applyPath: ApplyPath;
   readonly recipe: string;
