@@ -8,7 +8,7 @@ import type { RowIssue } from '../../src/core/columns.ts';
 import { readTable } from '../../src/core/read-table.ts';
 import { parseRecipe } from '../../src/core/recipe-io.ts';
 import type { Recipe } from '../../src/core/recipe.ts';
-import { linesText, quoted, tallyText } from '../../src/cli/common.ts';
+import { count, linesText, quoted, tallyText } from '../../src/cli/common.ts';
 import { describeFailure } from '../../src/cli/failure.ts';
 import { createFindingsLog, describeRowShape, findingsLines, issuesByRow, shapeRejectionReason } from '../../src/cli/reading-findings.ts';
 import { recipeFailure } from '../../src/cli/recipe-problems.ts';
@@ -137,5 +137,15 @@ describe('cell texts in messages', () => {
     expect(tallyText([{ value: 'n/a', count: 6, lines: [3, 5, 8, 13, 21] }, { value: 'x', count: 1, lines: [2] }, { value: 'y', count: 1, lines: [4] }], 2)).toBe(
       '"n/a" ×6 (lines 3, 5, 8, 13, 21, …), "x" ×1 (line 2), and 1 more value',
     );
+  });
+});
+
+describe('count', () => {
+  it('groups digits in threes with commas, as en-US does', () => {
+    for (const n of [0, 7, 999, 1000, 12_345, 999_999, 1_000_000, 1_234_567_890, -1, -1000, -1_234_567, Number.MAX_SAFE_INTEGER]) {
+      expect(count(n)).toBe(n.toLocaleString('en-US'));
+    }
+    expect(count(1_000_000)).toBe('1,000,000');
+    expect(count(2.5)).toBe('2.5');
   });
 });
