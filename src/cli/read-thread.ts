@@ -20,9 +20,9 @@
  * The threads run this file: bin/levelwise.js bundles it on its own beside the command line's
  * bundle (a thread starts in a third of the time without the command line's packages), and the
  * thread finds its role in `workerData` (from the TypeScript sources, read-thread-sources.mjs loads
- * this file). The command line itself reads on threads only
- * from its bundle (`canReadInThread`); from its sources it reads on one, the reference the tests
- * compare the threads with.
+ * this file). The command line itself reads on threads only from its bundle (`canReadInThread`);
+ * from its sources it reads on one, the reference the tests compare the threads with. After a
+ * whole-table read, the threads also profile the columns kept as numbers (`profiling`).
  */
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
