@@ -54,6 +54,15 @@ const SURROGATE = /[\uD800-\uDFFF]/;
 export function utf8Bytes(text: string): Uint8Array {
   // Three bytes per UTF-16 unit is the most UTF-8 needs.
   if (scratch.length < 3 * text.length) scratch = new Uint8Array(Math.max(2 * scratch.length, 3 * text.length));
+  // ASCII (most cells) is its own UTF-8: copied unit by unit, which for short texts costs less than
+  // the surrogate check and a call into the encoder.
+  let ascii = 0;
+  while (ascii < text.length) {
+    const unit = text.charCodeAt(ascii);
+    if (unit >= 0x80) break;
+    scratch[ascii++] = unit;
+  }
+  if (ascii === text.length) return scratch.subarray(0, ascii);
   if (SURROGATE.test(text)) return scratch.subarray(0, encodeWithSurrogates(text, scratch));
   const { written } = encoder.encodeInto(text, scratch);
   return scratch.subarray(0, written);

@@ -31,6 +31,17 @@ describe('utf8Bytes', () => {
     expect(Array.from(utf8Bytes('aé'))).toEqual([0x61, 0xc3, 0xa9]);
   });
 
+  it('is what TextEncoder makes of well-formed text, ASCII first or not (WHATWG Encoding Standard, UTF-8 encoder)', () => {
+    const encoder = new TextEncoder();
+    fc.assert(
+      fc.property(fc.string({ unit: 'binary-ascii', maxLength: 8 }), fc.string({ unit: 'grapheme', maxLength: 8 }), (ascii, any) => {
+        for (const text of [ascii, any, ascii + any, any + ascii]) expect(Array.from(utf8Bytes(text))).toEqual(Array.from(encoder.encode(text)));
+      }),
+      { numRuns: 2000 },
+    );
+    expect(Array.from(utf8Bytes('ab\uD800'))).toEqual([0x61, 0x62, 0xed, 0xa0, 0x80]);
+  });
+
   it('keeps texts apart that TextEncoder would merge: a lone surrogate is not U+FFFD', () => {
     const lone = Array.from(utf8Bytes('\uD800'));
     const replacement = Array.from(utf8Bytes('\uFFFD'));
