@@ -13,8 +13,8 @@
 // ones recorded when it was made; any difference makes a new bundle. When no bundle can be made
 // (esbuild missing, a read-only install) or LEVELWISE_NO_BUNDLE=1, the sources run through tsx.
 import { createHash } from 'node:crypto';
-import { mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { extname, join, relative } from 'node:path';
+import { mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { dirname, extname, join, relative } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -24,7 +24,7 @@ const THREAD_ENTRY = 'src/cli/read-thread.ts';
 const TSCONFIG = 'tsconfig.json';
 const CACHE = join(ROOT, 'node_modules', '.cache', 'levelwise-cli');
 const MANIFEST = join(CACHE, 'manifest.json');
-/** How old another build must be before it is removed. */
+/** How long another build must have gone unused before it is removed. */
 const OLD_BUILD_MS = 10 * 60 * 1000;
 /** Source files esbuild may meet, and how it reads each. */
 const LOADERS = { '.ts': 'ts', '.tsx': 'tsx', '.mts': 'ts', '.cts': 'ts', '.js': 'js', '.mjs': 'js', '.cjs': 'js', '.json': 'json' };
@@ -36,6 +36,7 @@ async function loadCommandLine() {
   if (process.env.LEVELWISE_NO_BUNDLE !== '1') {
     const bundle = freshBundle() ?? (await makeBundle().catch(() => null));
     if (bundle !== null) {
+      markInUse(dirname(bundle));
       if (process.env.LEVELWISE_DEBUG === '1') process.setSourceMapsEnabled(true);
       try {
         return await import(pathToFileURL(bundle).href);
@@ -134,8 +135,21 @@ async function makeBundle() {
 }
 
 /**
- * Other builds (and leftovers of interrupted ones) go once they are a few minutes old: a run of the
- * command line that started from one may still start reading threads from its folder.
+ * A build's folder is stamped with the time of every run that uses it, so that another build's
+ * clean-up (removeOldBuilds) never takes a folder a run has just started from.
+ */
+function markInUse(folder) {
+  const now = new Date();
+  try {
+    utimesSync(folder, now, now);
+  } catch {
+    // Read-only install: nothing removes builds there either.
+  }
+}
+
+/**
+ * Other builds (and leftovers of interrupted ones) go once no run has used them for a few minutes:
+ * a run of the command line that started from one may still start reading threads from its folder.
  */
 function removeOldBuilds(current) {
   const now = Date.now();
