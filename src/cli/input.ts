@@ -148,9 +148,11 @@ export async function readWholeTable(
     async restart() {
       return true;
     },
-    profiling,
-    onProfiles(made) {
-      profiles = made;
+    profiling: {
+      options: profiling,
+      take(made) {
+        profiles = made;
+      },
     },
   });
   if (table === null) throw new Error('the reader handed over no table');
@@ -168,10 +170,8 @@ export interface BatchHandlers {
    * row 0? Return false when what was written cannot be taken back (standard output).
    */
   restart(): Promise<boolean>;
-  /** A whole table read on threads is profiled with these options before the threads go… */
-  readonly profiling?: ProfileOptions;
-  /** …and its profiles handed here. */
-  onProfiles?(profiles: ColumnProfile[]): void;
+  /** A whole table read on threads is profiled with `options` before the threads go, and its profiles handed to `take`. */
+  readonly profiling?: { readonly options: ProfileOptions; take(profiles: ColumnProfile[]): void };
 }
 
 /**
@@ -261,9 +261,9 @@ async function readTextInThread(
 /** As readText with every row in one table, read on several threads (read-thread.ts). */
 async function readWholeInThreads(path: string, delimiter: Delimiter | null, encoding: EncodingName | null, handlers: BatchHandlers): Promise<ReadSummary> {
   const taker = batchTaker(handlers);
-  const result = await readTableInThreads(path, { delimiter, encoding }, (bytes) => void handlers.afterChunk(bytes, 0), handlers.profiling ?? null);
+  const result = await readTableInThreads(path, { delimiter, encoding }, (bytes) => void handlers.afterChunk(bytes, 0), handlers.profiling?.options ?? null);
   taker.take(result.table, 0);
-  if (result.profiles !== null) handlers.onProfiles?.(result.profiles);
+  if (result.profiles !== null) handlers.profiling?.take(result.profiles);
   return { names: result.table.names, rows: result.totalRows, encoding: result.encoding, delimiter: result.delimiter, sheet: null, findings: taker.log.findings() };
 }
 
