@@ -3,6 +3,7 @@
  * and an exit code a scheduler can act on. Never a stack trace (LEVELWISE_DEBUG=1 shows one).
  */
 import { isLevelwiseError, type LevelwiseError } from '../core/errors.ts';
+import { count } from './common.ts';
 
 /** 0: done; 1: the data does not fit the recipe; 2: the command was wrong or the input unreadable. */
 export const EXIT = { ok: 0, doesNotFit: 1, usage: 2 } as const;
@@ -32,11 +33,13 @@ export function usageFailure(verb: string | null, message: string, hint?: string
 /** A reading problem core reported (empty file, binary file, bad bytes), said of the file it is in. */
 export function readingFailure(label: string, error: LevelwiseError): CliFailure {
   const message = error.message.charAt(0).toLowerCase() + error.message.slice(1);
-  return new CliFailure(`cannot read "${label}": ${withPlace(message, error)}`, error.hint);
+  // Bytes that are not UTF-8 in a file read as UTF-8 (not a damaged UTF-16 file): say which option reads it.
+  const hint = error.code === 'bad-encoding' && /not valid utf-8/i.test(error.message) ? 'If an older office program saved it, run again with --encoding windows-1252; otherwise save it again as UTF-8 CSV.' : error.hint;
+  return new CliFailure(`cannot read "${label}": ${withPlace(message, error)}`, hint);
 }
 
 function withPlace(message: string, error: LevelwiseError): string {
-  const where = [error.line === undefined ? '' : `line ${error.line}`, error.column === undefined ? '' : `column ${error.column}`]
+  const where = [error.line === undefined ? '' : `line ${count(error.line)}`, error.column === undefined ? '' : `column ${count(error.column)}`]
     .filter((p) => p !== '')
     .join(', ');
   return where === '' ? message : `${message.replace(/\.$/, '')} (${where}).`;

@@ -9,6 +9,7 @@ import { stat } from 'node:fs/promises';
 import { basename } from 'node:path';
 import type { Table } from '../core/columns.ts';
 import { decodeBytes, type EncodingName } from '../core/decode.ts';
+import { placeBadUtf8 } from '../core/bad-utf8.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
@@ -214,10 +215,10 @@ async function readBatchesOnce(
   try {
     return await read(settings.encoding);
   } catch (error) {
-    if (!isLevelwiseError(error, 'encoding-restart')) throw error;
+    if (!isLevelwiseError(error, 'encoding-restart')) throw source.reopenable ? await placeBadUtf8(error, () => source.chunks()) : error;
     if (!source.reopenable || !(await handlers.restart())) {
       throw new CliFailure(
-        `"${source.label}" started as UTF-8 text but holds other bytes further down (${error.message.replace(/^.*UTF-8 /, '').replace(/\.$/, '')}).`,
+        `"${source.label}" started as UTF-8 text but holds other bytes further down, and cannot be read again from the start.`,
         'Run again with --encoding windows-1252, or save the file as UTF-8.',
       );
     }

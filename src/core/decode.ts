@@ -10,6 +10,7 @@
  * 'encoding-restart' and the caller reads the source again as Windows-1252 (`retryAsWindows1252`).
  */
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
+import { placeBadUtf8 } from './bad-utf8.ts';
 import { encodeUtf8 } from './utf8-text.ts';
 
 export type EncodingName = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252';
@@ -89,16 +90,19 @@ export class ChunkDecoder {
   }
 }
 
-/** `restart`: the encoding was a guess of UTF-8, so the caller may read the source again as Windows-1252. */
-function invalidBytes(restart: boolean, encoding: EncodingName | null, where: string): LevelwiseError {
+/**
+ * `restart`: the encoding was a guess of UTF-8, so the caller may read the source again as
+ * Windows-1252. `where`: where the bytes are, when known ("after byte 1,048,576").
+ */
+function invalidBytes(restart: boolean, encoding: EncodingName | null, where: string | null): LevelwiseError {
   if (restart) {
     return new LevelwiseError(
       'encoding-restart',
-      `The file started as UTF-8 text but holds bytes that are not UTF-8 ${where}.`,
+      `The file started as UTF-8 text but holds bytes that are not UTF-8 ${where ?? 'further on'}.`,
       { hint: 'Read the file again as Windows-1252 (the readers in Levelwise do this by themselves).' },
     );
   }
-  return new LevelwiseError('bad-encoding', `The file is not valid ${encoding ?? 'text'}: bad bytes ${where}.`, {
+  return new LevelwiseError('bad-encoding', `The file is not valid ${encoding ?? 'text'}: it holds bytes that are not ${encoding ?? 'text'}${where === null ? '' : ` ${where}`}.`, {
     hint: 'Open the file in a spreadsheet or text editor and save it again as UTF-8 CSV.',
   });
 }
@@ -162,9 +166,9 @@ export class Utf8Chunks {
     return rest.length === 0 ? tail : concatBytes([rest, tail], rest.length + tail.length);
   }
 
-  /** The error for bytes that are not UTF-8, found in the chunk that starts at byte `offset` (null: at the end). */
-  invalidUtf8Error(offset: number | null): LevelwiseError {
-    return invalidUtf8(this.guessed && this.chosen === 'utf-8', this.chosen, offset);
+  /** The error for bytes that are not UTF-8, met somewhere in what was read so far. */
+  invalidUtf8Error(): LevelwiseError {
+    return invalidUtf8(this.guessed && this.chosen === 'utf-8', this.chosen);
   }
 
   private start(whole: boolean): Uint8Array {
@@ -186,17 +190,19 @@ export class Utf8Chunks {
 const EMPTY = new Uint8Array(0);
 
 /**
- * The error for bytes that are not UTF-8 in a source read as `encoding`, found in the chunk that
- * starts at byte `offset` (null: at the end): a restart as Windows-1252 when UTF-8 was only a guess.
+ * The error for bytes that are not UTF-8 in a source read as `encoding` (a restart as Windows-1252
+ * when UTF-8 was only a guess). The byte-level reader checks a value's bytes when the value first
+ * becomes text, so it cannot say where they are; callers that can read the source again add the
+ * place (bad-utf8.ts).
  */
-export function invalidUtf8(guessed: boolean, encoding: EncodingName | null, offset: number | null): LevelwiseError {
-  const where = offset === null ? 'at the end of the file' : `after byte ${offset.toLocaleString('en-US')}`;
-  return invalidBytes(guessed, encoding, where);
+export function invalidUtf8(guessed: boolean, encoding: EncodingName | null): LevelwiseError {
+  return invalidBytes(guessed, encoding, null);
 }
 
 /**
  * Runs `read` on a fresh pass over the source; if the pass ends in 'encoding-restart', runs it
- * once more forced to Windows-1252. `open` must give the same bytes each time (a File, a path).
+ * once more forced to Windows-1252; if it ends in bad bytes, finds where they are (bad-utf8.ts).
+ * `open` must give the same bytes each time (a File, a path).
  */
 export async function retryAsWindows1252<T>(
   open: () => AsyncIterable<Uint8Array>,
@@ -206,7 +212,7 @@ export async function retryAsWindows1252<T>(
   try {
     return await read(open(), encoding);
   } catch (error) {
-    if (!isLevelwiseError(error, 'encoding-restart')) throw error;
+    if (!isLevelwiseError(error, 'encoding-restart')) throw await placeBadUtf8(error, open);
     return read(open(), 'windows-1252');
   }
 }

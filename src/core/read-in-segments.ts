@@ -5,6 +5,7 @@
  * files cut into tiny segments, which is how the threaded paths' placing and joining is checked.
  */
 import type { Table } from './columns.ts';
+import { placeBadUtf8In } from './bad-utf8.ts';
 import { isLevelwiseError } from './errors.ts';
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from './parallel-read.ts';
 import type { SegmentResult } from './read-segment.ts';
@@ -36,7 +37,7 @@ export async function readInSegments(bytes: Uint8Array, segmentBytes: number, op
   try {
     return await readSegments(bytes, segmentBytes, options);
   } catch (error) {
-    if (!isLevelwiseError(error, 'encoding-restart')) throw error;
+    if (!isLevelwiseError(error, 'encoding-restart')) throw placeBadUtf8In(error, bytes);
     const whole = readTable(bytes, { ...cap, encoding: 'windows-1252' });
     options.onPart?.(whole.table);
     return { ...whole, segments: { taken: 1, redone: 0, skipped: 0 } };

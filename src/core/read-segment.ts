@@ -120,7 +120,7 @@ export function createSegmentReader(options: SegmentOptions): SegmentReader {
     try {
       return step();
     } catch (error) {
-      if (error instanceof InvalidUtf8Error) throw invalidUtf8(options.encodingGuessed, 'utf-8', start === -1 ? null : start);
+      if (error instanceof InvalidUtf8Error) throw invalidUtf8(options.encodingGuessed, 'utf-8');
       throw error;
     }
   };

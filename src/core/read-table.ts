@@ -13,6 +13,7 @@ import { TableBuilder } from './columns-builder.ts';
 import { retryAsWindows1252, Utf8Chunks, type EncodingName } from './decode.ts';
 import { LevelwiseError, isLevelwiseError } from './errors.ts';
 import { InvalidUtf8Error } from './utf8-text.ts';
+import { placeBadUtf8In } from './bad-utf8.ts';
 import { plainFields, RecordParser, uniqueColumnNames, type Delimiter, type LineBreak, type PlainRecords, type RecordSink } from './parse.ts';
 
 export type { Delimiter } from './parse.ts';
@@ -113,7 +114,7 @@ export function readTable(bytes: Uint8Array, options: ReadOptions = {}): ReadRes
   try {
     return readSlices(bytes, options);
   } catch (error) {
-    if (!isLevelwiseError(error, 'encoding-restart')) throw error;
+    if (!isLevelwiseError(error, 'encoding-restart')) throw placeBadUtf8In(error, bytes);
     return readSlices(bytes, { ...options, encoding: 'windows-1252' });
   }
 }
@@ -170,8 +171,6 @@ class StreamingTableReader implements TableReader {
   }
 
   push(bytes: Uint8Array): void {
-    // Bad bytes may sit in the part of the previous chunks not parsed yet.
-    const offset = Math.max(0, this.bytes - this.parser.pendingBytes);
     this.bytes += bytes.length;
     this.read(() => {
       const utf8 = this.source.next(bytes);
@@ -179,7 +178,7 @@ class StreamingTableReader implements TableReader {
       this.parser.push(utf8);
       // As soon as the header is known, so that `segmenting` tells the caller at once.
       if (this.stopAt !== null && !this.stopArmed) this.armStop(this.stopAt);
-    }, offset);
+    });
     if (!this.reserved) this.reserveRows();
   }
 
@@ -232,7 +231,7 @@ class StreamingTableReader implements TableReader {
       this.parser.finish();
       // Building the columns decodes their values, checking the last of the bytes.
       table = this.rows.finish();
-    }, null);
+    });
     if (table === null) throw new Error('the table was not built');
     return {
       table,
@@ -250,11 +249,11 @@ class StreamingTableReader implements TableReader {
   }
 
   /** Runs a step of reading; bytes that are not UTF-8 become the error the source's encoding calls for. */
-  private read(step: () => void, offset: number | null): void {
+  private read(step: () => void): void {
     try {
       step();
     } catch (error) {
-      if (error instanceof InvalidUtf8Error) throw this.source.invalidUtf8Error(offset);
+      if (error instanceof InvalidUtf8Error) throw this.source.invalidUtf8Error();
       throw error;
     }
   }

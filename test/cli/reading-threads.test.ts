@@ -146,4 +146,27 @@ describe('reading in segments on several threads', () => {
     expect(Buffer.compare(outputs[0]!.bytes, outputs[1]!.bytes)).toBe(0);
     expect(outputs[0]!.bytes.toString('utf8')).toContain('R-3900é');
   });
+
+  it('read as UTF-8 on request, that byte is an error naming its line and showing it, as on one thread', () => {
+    const bytes = new TextEncoder().encode(csv.replace('R-3900,', 'R-3900\u00e9,'));
+    const at = bytes.indexOf(0xc3, bytes.length - 40_000);
+    const latin = new Uint8Array(bytes.length - 1);
+    latin.set(bytes.subarray(0, at));
+    latin[at] = 0xe9;
+    latin.set(bytes.subarray(at + 2), at + 1);
+    const file = join(work, 'latin-forced (invented).csv');
+    writeFileSync(file, latin);
+    // Physical lines before row 3,900: the header, 3,899 rows, their quoted line breaks, the empty lines.
+    const line = csv.slice(0, csv.indexOf('R-3900,')).split(/\r\n|\n/).length;
+    for (const verb of [['profile'], ['apply', recipePath]]) {
+      const runs = [true, false].map((threaded) => levelwise([...verb, file, '--encoding', 'utf-8', '-o', join(work, 'forced.out')], threaded));
+      for (const run of runs) {
+        expect(run.status).toBe(2);
+        expect(run.stderr).toContain(`byte \\xE9 (offset ${at.toLocaleString('en-US')}) is not part of any UTF-8 character, in "R-3900\\xE9,`);
+        expect(run.stderr).toContain(`(line ${line.toLocaleString('en-US')})`);
+        expect(run.stderr).toContain('run again with --encoding windows-1252');
+      }
+      expect(runs[0]!.stderr).toBe(runs[1]!.stderr);
+    }
+  });
 });

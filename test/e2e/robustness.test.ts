@@ -199,6 +199,19 @@ describe.skipIf(!available)('bad input in Chromium', () => {
       await expect.poll(() => page.locator('.grid-leaf[data-output]').evaluateAll((cells) => cells.map((c) => c.getAttribute('data-output')))).toContain('city=東京');
     });
 
+    it('a file declared UTF-8 by its byte order mark but holding other bytes: refused, naming the line and showing the bytes', async () => {
+      // EF BB BF declares UTF-8; 0xFC on its own is no UTF-8 character (WHATWG Encoding Standard §4.1).
+      const ascii = (s: string): number[] => [...s].map((c) => c.charCodeAt(0));
+      const bytes = [0xef, 0xbb, 0xbf, ...ascii('town,n\nLyon,1\nZ'), 0xfc, ...ascii('rich,2\nLyon,3\n')];
+      await dropFile('declared.csv', bytes);
+      const text = await notice('Could not open declared.csv');
+      expect(text).toContain('The file is not valid UTF-8: byte \\xFC (offset 18) is not part of any UTF-8 character, in "Z\\xFCrich,2"');
+      expect(text).toContain(`"Z\\xFCrich,2" (line 3).`);
+      expect(text).toContain('save it again as UTF-8 CSV');
+      await shot('05b-not-utf8');
+      await dismissNotices();
+    });
+
     it('a file larger than the page holds: refused before reading, pointing to the command line', async () => {
       // The limit is lowered through the page's address so that a 2 MB file is over it.
       await page.goto(`${app.url}?max-file-mb=1`);

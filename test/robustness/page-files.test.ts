@@ -106,9 +106,10 @@ describe('files the page refuses', () => {
     });
   });
 
-  it('a problem with a place shows its line and column in the notice', () => {
+  it('a problem with a place shows its line and column in the notice, digits grouped', () => {
     const notice = problemNotice({ code: 'x', message: 'Something is off.', line: 12, column: 3, hint: 'Fix it.' }, 'Title');
-    expect(notice.detail).toBe('Something is off. (line 12, column 3)');
+    expect(notice.detail).toBe('Something is off (line 12, column 3).');
+    expect(problemNotice({ code: 'x', message: 'Off.', line: 250_001, hint: 'Fix it.' }).detail).toBe('Off (line 250,001).');
   });
 
   it('a good file opens after a bad one: the session is not left broken', async () => {

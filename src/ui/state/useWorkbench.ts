@@ -9,6 +9,7 @@ import type { Recipe } from '../../core/recipe.ts';
 import { DEMO_ROW_COUNT } from '../../demo/household-energy.ts';
 import { startWorkbenchWorker, type WorkbenchClient } from '../../worker/client.ts';
 import { Cancelled, WorkerProblem, type OpenedTable, type Problem, type RecipeInUse, type TableSource } from '../../worker/protocol.ts';
+import { formatCount } from '../columns/labels.ts';
 import { readingNotices } from '../files/reading-notices.ts';
 import { EMPTY_HISTORY, historyReducer } from './history.ts';
 import { browserStore, forgetDecisions, loadDecisions, saveDecisions } from './persist.ts';
@@ -53,10 +54,10 @@ export function fileLimitFromAddress(search: string = globalThis.location?.searc
 const FILE_LIMIT_OVERRIDE = fileLimitFromAddress();
 
 export function problemNotice(problem: Problem, title = 'That did not work'): Omit<Notice, 'id'> {
-  const where = [problem.line !== undefined ? `line ${problem.line}` : null, problem.column !== undefined ? `column ${problem.column}` : null]
+  const where = [problem.line !== undefined ? `line ${formatCount(problem.line)}` : null, problem.column !== undefined ? `column ${formatCount(problem.column)}` : null]
     .filter(Boolean)
     .join(', ');
-  return { tone: 'error', title, detail: where ? `${problem.message} (${where})` : problem.message, ...(problem.hint ? { hint: problem.hint } : {}) };
+  return { tone: 'error', title, detail: where ? `${problem.message.replace(/\.$/, '')} (${where}).` : problem.message, ...(problem.hint ? { hint: problem.hint } : {}) };
 }
 
 export function errorNotice(error: unknown, title: string): Omit<Notice, 'id'> {
