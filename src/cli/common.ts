@@ -1,4 +1,5 @@
 /** Options and settings several verbs share. */
+import { countText } from '../core/count-text.ts';
 import { ENCODE_BATCH_ROWS } from '../core/encode-csv.ts';
 import type { Delimiter } from '../core/read-table.ts';
 import type { EncodingName } from '../core/decode.ts';
@@ -42,9 +43,7 @@ export function note(verb: string, text: string): void {
 
 /** "1,234": grouped by hand, since a first toLocaleString call loads locale data (~13 ms of every run). */
 export function count(n: number): string {
-  if (!Number.isSafeInteger(n)) return n.toLocaleString('en-US');
-  const digits = String(Math.abs(n)).replace(/\B(?=(\d{3})+$)/g, ',');
-  return n < 0 ? `-${digits}` : digits;
+  return countText(n);
 }
 
 export function plural(n: number, one: string, many = `${one}s`): string {

@@ -9,6 +9,7 @@
 import { NO_CLEANING, cleanLevels, cleaner } from './cleaning.ts';
 
 export { cleanLevels } from './cleaning.ts';
+import { countText } from './count-text.ts';
 import { looksLikeDate } from './dates.ts';
 import { matchOrdinalScale, MAX_SCALE_LEVELS } from './ordinal-scales.ts';
 import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
@@ -71,7 +72,7 @@ const allMissing: InferenceRule = {
   test: (p) => {
     if (p.count === 0) return excluded('the column has no rows');
     if (p.missing < p.count) return null;
-    return excluded(`all ${p.count} values are missing (${spellingList(p.missingSpellings)})`);
+    return excluded(`all ${countText(p.count)} values are missing (${spellingList(p.missingSpellings)})`);
   },
 };
 
@@ -80,11 +81,11 @@ const constant: InferenceRule = {
   test: (p, ctx) => {
     const only = ctx.cleanedLevels?.[0];
     if (ctx.cleanedLevels === null || ctx.cleanedLevels.length !== 1 || only === undefined) return null;
-    const spellings = p.distinct > 1 ? ` after cleaning (${p.distinct} spellings)` : '';
-    const missing = p.missing > 0 ? `, ${p.missing} missing` : '';
+    const spellings = p.distinct > 1 ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
+    const missing = p.missing > 0 ? `, ${countText(p.missing)} missing` : '';
     return {
       level: 'excluded',
-      reason: `only one value${spellings}: ${quote(only.value)} in ${only.count} of ${p.count} rows${missing}`,
+      reason: `only one value${spellings}: ${quote(only.value)} in ${countText(only.count)} of ${countText(p.count)} rows${missing}`,
       cleaning: ctx.cleaning,
     };
   },
@@ -96,7 +97,7 @@ const date: InferenceRule = {
     if (!p.flags.date || !p.text) return null;
     const example = p.levels?.find((l) => looksLikeDate(l.value))?.value.trim() ?? '';
     return excluded(
-      `${p.text.dates} of ${ctx.nonMissing} values look like dates (e.g. ${quote(example)}): dates are left out for now`,
+      `${countText(p.text.dates)} of ${countText(ctx.nonMissing)} values look like dates (e.g. ${quote(example)}): dates are left out for now`,
     );
   },
 };
@@ -108,11 +109,11 @@ const binary: InferenceRule = {
     if (levels === null || levels.length !== 2) return null;
     const [first, second] = levels as [LevelCount, LevelCount];
     const { positive, why } = choosePositive(first, second);
-    const after = p.distinct > 2 ? ` after cleaning (${p.distinct} spellings)` : '';
+    const after = p.distinct > 2 ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
     return {
       level: 'binary',
       reason:
-        `2 values${after}: ${quote(first.value)} (${first.count}) and ${quote(second.value)} (${second.count}); ` +
+        `2 values${after}: ${quote(first.value)} (${countText(first.count)}) and ${quote(second.value)} (${countText(second.count)}); ` +
         `${quote(positive)} is the positive class ${why}`,
       cleaning: ctx.cleaning,
       positive,
@@ -151,11 +152,11 @@ const continuous: InferenceRule = {
     if (!isMostlyNumeric(n) || distinctNumbers(p, n) <= INFERENCE_THRESHOLDS.maxScaleNumbers) return null;
     const invalid =
       n.invalidCount > 0
-        ? `; ${n.invalidCount} do not (e.g. ${quote(n.invalidExamples[0]?.text ?? '')})`
+        ? `; ${countText(n.invalidCount)} do not (e.g. ${quote(n.invalidExamples[0]?.text ?? '')})`
         : '';
     return {
       level: 'continuous',
-      reason: `${n.count} of ${ctx.nonMissing} values read as numbers (${percent(n.share)}), ${distinctNumbers(p, n)} distinct${invalid}`,
+      reason: `${countText(n.count)} of ${countText(ctx.nonMissing)} values read as numbers (${percent(n.share)}), ${countText(distinctNumbers(p, n))} distinct${invalid}`,
       cleaning: NO_CLEANING,
     };
   },
@@ -166,7 +167,7 @@ const freeText: InferenceRule = {
   test: (p, ctx) => {
     if (!p.flags.freeText || !p.text) return null;
     return excluded(
-      `${p.distinct} distinct texts in ${ctx.nonMissing} values, ${Math.round(p.text.meanLength)} characters on average: ` +
+      `${countText(p.distinct)} distinct texts in ${countText(ctx.nonMissing)} values, ${Math.round(p.text.meanLength)} characters on average: ` +
         'free text is left out',
     );
   },
@@ -185,7 +186,7 @@ const numberedScale: InferenceRule = {
     const kind = n.integer === true ? 'whole numbers' : 'numbers';
     return {
       level: 'ordinal',
-      reason: `${distinct} distinct ${kind} from ${show(n.min)} to ${show(n.max)}: read as an ordered scale`,
+      reason: `${countText(distinct)} distinct ${kind} from ${show(n.min)} to ${show(n.max)}: read as an ordered scale`,
       cleaning,
       order,
     };
@@ -199,13 +200,13 @@ const nominal: InferenceRule = {
     if (levels === null) {
       const share = p.numeric === null ? '0%' : percent(p.numeric.share);
       return excluded(
-        `only ${share} of ${ctx.nonMissing} values read as numbers and ${p.distinct} distinct values are too many for categories`,
+        `only ${share} of ${countText(ctx.nonMissing)} values read as numbers and ${countText(p.distinct)} distinct values are too many for categories`,
       );
     }
-    const after = levels.length < p.distinct ? ` after cleaning (${p.distinct} spellings)` : '';
+    const after = levels.length < p.distinct ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
     return {
       level: 'nominal',
-      reason: `${levels.length} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
+      reason: `${countText(levels.length)} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
       cleaning: ctx.cleaning,
     };
   },
@@ -340,11 +341,11 @@ function numericOrder(levels: readonly LevelCount[], numeric: NumericSummary): {
 // Sentences.
 
 function identifierReason(p: ColumnProfile, nonMissing: number): string {
-  const head = `${p.distinct} of ${nonMissing} values distinct`;
+  const head = `${countText(p.distinct)} of ${countText(nonMissing)} values distinct`;
   const n = p.numeric;
   if (!isMostlyNumeric(n)) return `${head}: looks like an identifier`;
   if (countsRows(n)) return `${head}, whole numbers ${show(n.min)} to ${show(n.max)} without gaps: looks like a row number`;
-  if ((n.leadingZeros ?? 0) > 0) return `${head}, ${n.leadingZeros} written with leading zeros: looks like a code`;
+  if ((n.leadingZeros ?? 0) > 0) return `${head}, ${countText(n.leadingZeros ?? 0)} written with leading zeros: looks like a code`;
   if (oneWidth(n)) return `${head}, all ${String(n.min).length}-digit whole numbers: looks like an identifier`;
   return `${head}: looks like an identifier`;
 }
@@ -359,7 +360,7 @@ function almostNumbersHint(p: ColumnProfile): string {
   const n = p.numeric;
   if (!isMostlyNumeric(n) || n.invalidCount === 0 || distinctNumbers(p, n) > INFERENCE_THRESHOLDS.maxScaleNumbers) return '';
   const stray = [...new Set(n.invalidExamples.map((e) => e.text))].slice(0, 3).map(quote).join(', ');
-  return `; all but ${n.invalidCount} are numbers: marking ${stray} as missing would read them as an ordered scale`;
+  return `; all but ${countText(n.invalidCount)} are numbers: marking ${stray} as missing would read them as an ordered scale`;
 }
 
 function excluded(reason: string): Inference {
@@ -371,7 +372,7 @@ function isMostlyNumeric(n: NumericSummary | null): n is NumericSummary {
 }
 
 function spellingList(spellings: readonly LevelCount[]): string {
-  return spellings.map((s) => `${s.value.trim() === '' ? 'empty' : quote(s.value)} ${s.count}`).join(', ');
+  return spellings.map((s) => `${s.value.trim() === '' ? 'empty' : quote(s.value)} ${countText(s.count)}`).join(', ');
 }
 
 function quote(text: string): string {

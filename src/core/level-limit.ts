@@ -6,6 +6,7 @@
  * anything from. A column with more levels groups its rare ones first (keep the most frequent),
  * or is left out.
  */
+import { countText } from './count-text.ts';
 import { LevelwiseError } from './errors.ts';
 
 export const MAX_CATEGORICAL_LEVELS = 1000;
@@ -32,11 +33,11 @@ export function tooManyLevelsError(column: string, levels: number): LevelwiseErr
 
 /**
  * The clause a drafted column's reason gains when its rare levels were grouped to fit the limit.
- * Numbers are written plainly, as in the rest of the reason (infer.ts).
+ * Counts are grouped by threes, as in the rest of the reason (infer.ts).
  */
 export function wideDraftNote(levels: number): string {
   return (
-    `; ${levels} levels are more than one column can encode (${MAX_CATEGORICAL_LEVELS}), ` +
+    `; ${countText(levels)} levels are more than one column can encode (${countText(MAX_CATEGORICAL_LEVELS)}), ` +
     `so only the ${WIDE_DRAFT_KEEP_TOP} most frequent keep their own column and the rest are grouped`
   );
 }

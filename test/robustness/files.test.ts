@@ -129,7 +129,7 @@ describe('a column of 100,000 distinct values', () => {
     // The recipe stays complete: every value is either a level or listed as grouped.
     expect(site.grouped).toHaveLength(distinct - WIDE_DRAFT_KEEP_TOP);
     expect(site.reason).toBe(
-      '100000 distinct values with no order recognised; 100000 levels are more than one column can encode (1000), ' +
+      '100,000 distinct values with no order recognised; 100,000 levels are more than one column can encode (1,000), ' +
         'so only the 100 most frequent keep their own column and the rest are grouped',
     );
   });
@@ -178,7 +178,7 @@ describe('a column whose 100,000 values are all different', () => {
 
   it('is an identifier, copied as is', () => {
     expect(run.recipe.columns[0]?.level).toBe('identifier');
-    expect(run.recipe.columns[0]?.reason).toBe('100000 of 100000 values distinct: looks like an identifier');
+    expect(run.recipe.columns[0]?.reason).toBe('100,000 of 100,000 values distinct: looks like an identifier');
   });
 
   it('made nominal by hand, it keeps its 100 most frequent levels and says why', () => {
@@ -186,7 +186,7 @@ describe('a column whose 100,000 values are all different', () => {
     const code = nominal.columns[0];
     expect(code?.outputs).toHaveLength(101);
     expect(code?.reason).toBe(
-      'set by hand; 100000 levels are more than one column can encode (1000), so only the 100 most frequent keep their own column and the rest are grouped',
+      'set by hand; 100,000 levels are more than one column can encode (1,000), so only the 100 most frequent keep their own column and the rest are grouped',
     );
   });
 });
