@@ -2,6 +2,7 @@
  * The codebook: a readable table of every output column — its source column, level, encoding,
  * and what each value means ("1 = heating is heat pump; reference level: gas").
  */
+import { countText } from './count-text.ts';
 import { codesForColumn, codesOf } from './encoders/index.ts';
 import { transformForColumn } from './encoders/index.ts';
 import type { ColumnRecipe, Recipe } from './recipe.ts';
@@ -81,7 +82,7 @@ export function codebookMarkdown(recipe: Recipe): string {
   const lines = [
     `# Codebook${recipe.source.file ? ` for ${escapeMarkdown(recipe.source.file)}` : ''}`,
     '',
-    `Made by Levelwise from a recipe fitted on ${recipe.source.rows} rows.`,
+    `Made by Levelwise from a recipe fitted on ${countText(recipe.source.rows)} rows.`,
     '',
     '| output column | source column | level | encoding | meaning |',
     '|---|---|---|---|---|',
@@ -103,7 +104,7 @@ export function codebookHtml(recipe: Recipe): string {
 <style>body{font:14px system-ui,sans-serif;margin:2rem}table{border-collapse:collapse}td,th{border:1px solid #999;padding:4px 8px;text-align:left;vertical-align:top}</style>
 </head><body>
 <h1>Codebook${recipe.source.file ? ` for ${escapeHtml(recipe.source.file)}` : ''}</h1>
-<p>Made by Levelwise from a recipe fitted on ${recipe.source.rows} rows.</p>
+<p>Made by Levelwise from a recipe fitted on ${countText(recipe.source.rows)} rows.</p>
 <table><thead><tr><th>output column</th><th>source column</th><th>level</th><th>encoding</th><th>meaning</th></tr></thead>
 <tbody>
 ${rows}

@@ -20,6 +20,7 @@
  * column exists only when the recipe has an error policy. With `rejected: 'drop'` they are left out,
  * as the command line leaves them out of its output.
  */
+import { countText } from './count-text.ts';
 import { transformForColumn, type LevelCodes } from './encoders/index.ts';
 import { ALL_ZEROS, compilePlan, type CategoricalPlan, type ColumnPlan } from './plan.ts';
 import type { CategoricalColumn, ColumnRecipe, ContinuousColumn, NumberFormat, Recipe } from './recipe.ts';
@@ -203,7 +204,7 @@ function finalSelect(outputs: readonly OutputLine[], rejections: readonly Reject
 function headerComment(recipe: Recipe, sql: SqlDialect, canReject: boolean, mode: 'flag' | 'drop', notes: readonly string[]): string[] {
   const source = recipe.source.file === null ? 'a file' : `"${recipe.source.file}"`;
   const lines = [
-    `Levelwise recipe as SQL (dialect: ${sql.name}); fitted on ${source}, ${recipe.source.rows} rows.`,
+    `Levelwise recipe as SQL (dialect: ${sql.name}); fitted on ${source}, ${countText(recipe.source.rows)} rows.`,
     'Reads a table of text columns exactly as read from the file (DuckDB: read_csv(..., all_varchar = true)).',
   ];
   if (canReject && mode === 'flag') {

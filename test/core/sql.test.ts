@@ -573,7 +573,7 @@ describe('constants and quoting', () => {
   it('keeps a file name with a line break inside its comment line', () => {
     const recipe: Recipe = { ...demoDraft, source: { ...demoDraft.source, file: 'x\nDROP TABLE t; --' } };
     const sql = compileSql(recipe, { table: 't', dialect: 'sqlite' });
-    expect(sql.split('\n')[0]).toBe('-- Levelwise recipe as SQL (dialect: sqlite); fitted on "x DROP TABLE t; --", 2000 rows.');
+    expect(sql.split('\n')[0]).toBe('-- Levelwise recipe as SQL (dialect: sqlite); fitted on "x DROP TABLE t; --", 2,000 rows.');
   });
   it('compiles for every dialect, with the number shape in each regular-expression flavour', () => {
     for (const name of SQL_DIALECTS) expect(compileSql(demoVariety, { table: 'households', dialect: name })).toMatch(/^-- Levelwise recipe as SQL/);
