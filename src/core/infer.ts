@@ -58,8 +58,13 @@ export const INFERENCE_THRESHOLDS = {
 } as const;
 
 /** Spellings read as "yes" and as "no" when a whole column is written with them (compared in lower case). */
-export const YES_SPELLINGS: readonly string[] = ['yes', 'y', 'true', 't', '1'];
-export const NO_SPELLINGS: readonly string[] = ['no', 'n', 'false', 'f', '0'];
+export const YES_SPELLINGS: readonly string[] = [
+  'yes', 'y', 'true', 't', '1',
+  // Exports from other languages' office programs and survey tools (common practice):
+  // German, Dutch and the Nordic languages, French, Spanish and Italian, Portuguese, Polish.
+  'ja', 'j', 'oui', 'sí', 'si', 'sim', 'tak',
+];
+export const NO_SPELLINGS: readonly string[] = ['no', 'n', 'false', 'f', '0', 'nein', 'nee', 'nej', 'nei', 'non', 'não', 'nao', 'nie'];
 /** Levels taken as the positive class of a binary column (compared in lower case). */
 export const POSITIVE_SPELLINGS: readonly string[] = [...YES_SPELLINGS, 'positive', 'pos', 'present', '+'];
 const NEGATIVE_SPELLINGS: readonly string[] = [...NO_SPELLINGS, 'negative', 'neg', 'absent', '-'];

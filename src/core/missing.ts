@@ -2,7 +2,7 @@
 import { numberValue } from './columns-builder.ts';
 
 /** The spellings of a missing value a new recipe starts with (besides the empty cell). */
-export const DEFAULT_MISSING_TOKENS: readonly string[] = ['NA', 'N/A', 'NaN', 'null', 'NULL', 'None', '.', '?', '-'];
+export const DEFAULT_MISSING_TOKENS: readonly string[] = ['NA', 'N/A', 'n/a', '#N/A', 'NaN', 'null', 'NULL', 'None', '.', '?', '-'];
 
 /** A fast membership test for one recipe's or profile's missing-value tokens. */
 export type MissingTest = (raw: string) => boolean;

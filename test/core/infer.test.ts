@@ -259,6 +259,19 @@ describe('positive class', () => {
     expect(binaryOf(['present', 'present', 'absent']).positive).toBe('present'));
   it('no / other → the other', () => expect(binaryOf(['no', 'no', 'maybe', 'maybe', 'maybe']).positive).toBe('maybe'));
   it('neither reads as yes → the less frequent', () => expect(binaryOf(['red', 'red', 'blue']).positive).toBe('blue'));
+  it.each([
+    [['Ja', 'Ja', 'Nein'], 'Ja'],
+    [['nee', 'nee', 'ja'], 'ja'],
+    [['Oui', 'Non', 'Non'], 'Oui'],
+    [['sí', 'no', 'no'], 'sí'],
+    [['Não', 'Sim', 'Não'], 'Sim'],
+    [['tak', 'nie', 'nie'], 'tak'],
+    [['Nej', 'Nej', 'X'], 'X'],
+  ])('yes and no in other languages (common practice): %j → %j', (cells, positive) => expect(binaryOf(cells).positive).toBe(positive));
+  it('"Ja", "ja ", "J", "Nein", "n" become two levels, "ja" first (a survey export in German)', () => {
+    const i = binaryOf(['Ja', 'ja ', 'J', 'Nein', 'n', 'Ja']);
+    expect(i.reason).toBe('2 values after cleaning (5 spellings): "ja" (4) and "nein" (2); "ja" is the positive class (it reads as yes)');
+  });
 });
 
 describe('published data', () => {
@@ -294,15 +307,15 @@ describe('sensitive attributes', () => {
 });
 
 describe('numbers with a stray word', () => {
-  it('a 1–5 rating with one "n/a" stays nominal and says what would make it a scale', () => {
-    const cells = [...Array.from({ length: 24 }, (_, i) => String((i % 5) + 1)), 'n/a'];
+  it('a 1–5 rating with one "unknown" stays nominal and says what would make it a scale', () => {
+    const cells = [...Array.from({ length: 24 }, (_, i) => String((i % 5) + 1)), 'unknown'];
     const p = profileColumn(columnTable('rating', cells).columns[0]!, 0);
     expect(inferLevel(p)).toMatchObject({
       level: 'nominal',
       reason:
-        '6 distinct values with no order recognised; all but 1 are numbers: marking "n/a" as missing would read them as an ordered scale',
+        '6 distinct values with no order recognised; all but 1 are numbers: marking "unknown" as missing would read them as an ordered scale',
     });
-    const asMissing = profileColumn(columnTable('rating', cells).columns[0]!, 0, { missingTokens: ['n/a'] });
+    const asMissing = profileColumn(columnTable('rating', cells).columns[0]!, 0, { missingTokens: ['unknown'] });
     expect(inferLevel(asMissing)).toMatchObject({ level: 'ordinal', order: ['1', '2', '3', '4', '5'] });
   });
 });

@@ -26,6 +26,11 @@ describe('missingTest', () => {
     expect(['Na', 'na', 'NAN', 'N A', 'x', '0', 'HH-0000001', '--', 'NA.', '\u200bNA'].map(isMissing)).toEqual(Array(10).fill(false));
   });
 
+  it('knows the spreadsheet spellings "n/a" and "#N/A" (the not-available error value spreadsheet programs write; from memory)', () => {
+    expect(['n/a', ' n/a ', '#N/A', 'N/A'].map(isMissing)).toEqual([true, true, true, true]);
+    expect(['N/a', '#n/a', '#N/A!', 'n/a.'].map(isMissing)).toEqual([false, false, false, false]);
+  });
+
   it('agrees with the plain definition on any text', () => {
     const piece = fc.oneof(fc.constantFrom(...BLANKS, ...DEFAULT_MISSING_TOKENS, 'x', 'Na', '\u200b'), fc.string({ maxLength: 3 }), fc.string({ unit: 'grapheme', maxLength: 2 }));
     const tokens = fc.array(fc.oneof(fc.constantFrom(...DEFAULT_MISSING_TOKENS), fc.string({ maxLength: 6 })), { maxLength: 5 });

@@ -56,7 +56,7 @@ const RAGGED = 'ticket,colour,amount\nT-20,red\nT-21,blue,20.5,extra,more\nT-22,
 // The quote opened on line 3 is never closed: the rest of the file is that one cell.
 const UNCLOSED = 'ticket,colour,amount\nT-30,red,10\nT-31,"blue,20\nT-32,red,12\n';
 // A column of numbers with texts that are not numbers on lines 3, 5 and 6.
-const STRAY = 'ticket,colour,amount\nT-40,red,10\nT-41,blue,n/a\nT-42,red,12\nT-43,blue,x\nT-44,red,n/a\nT-45,blue,12\n';
+const STRAY = 'ticket,colour,amount\nT-40,red,10\nT-41,blue,unknown\nT-42,red,12\nT-43,blue,x\nT-44,red,unknown\nT-45,blue,12\n';
 // csv-spectrum 2.0.0 (npm), comma_in_quotes.csv: a comma inside a quoted field (RFC 4180 §2,
 // rule 6). With its quotes taken away the comma splits the field, and the row has 6 fields, not 5.
 const SPECTRUM = join(ROOT, 'node_modules/csv-spectrum/csvs');
@@ -454,19 +454,19 @@ describe('a recipe with several problems, and what to do said once', () => {
 describe('values that are not numbers, with their lines in every verb', () => {
   it('profile', async () => {
     const run = await levelwise(['profile', 'stray.csv'], dir);
-    expect(run.stdout).toContain('; 3 not numbers: "n/a" (lines 3, 6), "x" (line 5)\n');
+    expect(run.stdout).toContain('; 3 not numbers: "unknown" (lines 3, 6), "x" (line 5)\n');
   });
 
   it('apply', async () => {
     const run = await levelwise(['apply', 'tickets.recipe.json', 'stray.csv'], dir);
     expect(run.code).toBe(0);
-    expect(run.stderr).toContain(`levelwise apply: amount: 3 cells not a number, treated as missing (filled with the fitted mean ${MEAN_AMOUNT}): "n/a" ×2 (lines 3, 6), "x" ×1 (line 5).\n`);
+    expect(run.stderr).toContain(`levelwise apply: amount: 3 cells not a number, treated as missing (filled with the fitted mean ${MEAN_AMOUNT}): "unknown" ×2 (lines 3, 6), "x" ×1 (line 5).\n`);
   });
 
   it('check', async () => {
     const run = await levelwise(['check', 'tickets.recipe.json', 'stray.csv'], dir);
     expect(run.code).toBe(1);
-    expect(run.stdout).toContain(`  amount (treated as missing (filled with the fitted mean ${MEAN_AMOUNT})): "n/a" ×2 (lines 3, 6), "x" ×1 (line 5)\n`);
+    expect(run.stdout).toContain(`  amount (treated as missing (filled with the fitted mean ${MEAN_AMOUNT})): "unknown" ×2 (lines 3, 6), "x" ×1 (line 5)\n`);
   });
 });
 

@@ -1,6 +1,6 @@
 // @vitest-environment jsdom
 /**
- * Stray text in a column of numbers: "n/a", "12,5", "1 234", "$12", "45%", "1e309". Which rows hold
+ * Stray text in a column of numbers: "unknown", "12,5", "1 234", "$12", "45%", "1e309". Which rows hold
  * them (by file line), and what was done with each — read, treated as missing and filled, or the
  * row rejected — is said in the profile, in the page, in the re-use report and in the output.
  * Expected values are worked out by hand in the comments.
@@ -17,7 +17,7 @@ afterEach(cleanup);
 
 /** Data row (0-based) → stray text. The file line of data row r is r + 2 (line 1 is the header). */
 const STRAYS = new Map<number, string>([
-  [10, 'n/a'],
+  [10, 'unknown'],
   [40, '12,5'],
   [80, '1 234'],
   [120, '$12'],
@@ -49,14 +49,14 @@ describe('a column of numbers with stray text', () => {
     expect(kwh.fitted.count).toBe(201);
     expect(kwh.fitted.mean).toBe(MEAN);
     expect(kwh.fitted.max).toBe(1234);
-    expect(kwh.reason).toBe('201 of 206 values read as numbers (97.6%), 201 distinct; 5 do not (e.g. "n/a")');
+    expect(kwh.reason).toBe('201 of 206 values read as numbers (97.6%), 201 distinct; 5 do not (e.g. "unknown")');
   });
 
   it('lists each cell that is not a number with its row and file line', () => {
     const numeric = run.profiles[1]?.numeric;
     expect(numeric?.invalidCount).toBe(5);
     expect(numeric?.invalidExamples).toEqual([
-      { row: 10, text: 'n/a', line: 12 },
+      { row: 10, text: 'unknown', line: 12 },
       { row: 40, text: '12,5', line: 42 },
       { row: 120, text: '$12', line: 122 },
       { row: 160, text: '45%', line: 162 },
@@ -68,7 +68,7 @@ describe('a column of numbers with stray text', () => {
   it('fills them with the fitted mean, says so in the report with their lines, and writes the mean', () => {
     const report = run.report.columns.find((c) => c.name === 'kwh');
     expect(report?.invalid).toEqual([
-      { value: 'n/a', count: 1, lines: [12] },
+      { value: 'unknown', count: 1, lines: [12] },
       { value: '12,5', count: 1, lines: [42] },
       { value: '$12', count: 1, lines: [122] },
       { value: '45%', count: 1, lines: [162] },
@@ -88,7 +88,7 @@ describe('a column of numbers with stray text', () => {
     const { report } = encodeToCsv(strict, run.read.table);
     expect(report.rowsWritten).toBe(ROWS - 5);
     expect(report.rejected.map((r) => [r.line, r.column, r.reason])).toEqual([
-      [12, 'kwh', '"n/a" is not a number'],
+      [12, 'kwh', '"unknown" is not a number'],
       [42, 'kwh', '"12,5" is not a number'],
       [122, 'kwh', '"$12" is not a number'],
       [162, 'kwh', '"45%" is not a number'],
@@ -98,7 +98,7 @@ describe('a column of numbers with stray text', () => {
 
   it('the page shows the format, the count and the first lines, beside the choice of what to do', () => {
     render(<ContinuousOptions profile={run.profiles[1]!} column={kwh} onDecide={() => undefined} />);
-    expect(screen.getByText('5 cells do not read as numbers here, e.g. “n/a” (line 12), “12,5” (line 42), “$12” (line 122).')).toBeTruthy();
+    expect(screen.getByText('5 cells do not read as numbers here, e.g. “unknown” (line 12), “12,5” (line 42), “$12” (line 122).')).toBeTruthy();
     expect(screen.getByText('written like').nextSibling?.textContent).toBe('1 234.5');
     expect((screen.getByLabelText('Text that does not read as a number') as HTMLSelectElement).value).toBe('missing');
   });
