@@ -3,6 +3,7 @@
  * and an exit code a scheduler can act on. Never a stack trace (LEVELWISE_DEBUG=1 shows one).
  */
 import { isLevelwiseError, type LevelwiseError } from '../core/errors.ts';
+import { isNotUtf8Error } from '../core/bad-utf8.ts';
 import { count } from './common.ts';
 
 /** 0: done; 1: the data does not fit the recipe; 2: the command was wrong or the input unreadable. */
@@ -34,7 +35,7 @@ export function usageFailure(verb: string | null, message: string, hint?: string
 export function readingFailure(label: string, error: LevelwiseError): CliFailure {
   const message = error.message.charAt(0).toLowerCase() + error.message.slice(1);
   // Bytes that are not UTF-8 in a file read as UTF-8 (not a damaged UTF-16 file): say which option reads it.
-  const hint = error.code === 'bad-encoding' && /not valid utf-8/i.test(error.message) ? 'If an older office program saved it, run again with --encoding windows-1252; otherwise save it again as UTF-8 CSV.' : error.hint;
+  const hint = isNotUtf8Error(error) ? 'If an older office program saved it, run again with --encoding windows-1252; otherwise save it again as UTF-8 CSV.' : error.hint;
   return new CliFailure(`cannot read "${label}": ${withPlace(message, error)}`, hint);
 }
 

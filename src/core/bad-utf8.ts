@@ -260,18 +260,27 @@ export function badUtf8Error(place: BadUtf8Place): LevelwiseError {
 }
 
 /**
+ * Whether `error` is the readers' 'bad-encoding' for a source read as UTF-8 (not one read as UTF-16,
+ * whose bad bytes this module cannot point at). Every such message starts "The file is not valid
+ * utf-8" (decode.ts, badUtf8Error).
+ */
+export function isNotUtf8Error(error: unknown): boolean {
+  return isLevelwiseError(error, 'bad-encoding') && /^The file is not valid utf-8\b/i.test(error.message);
+}
+
+/**
  * A reader's 'bad-encoding' error said again with the place of the bad bytes, found in a second
  * pass over the source; any other error, or one whose place is not found (a UTF-16 file), as it is.
  */
 export async function placeBadUtf8(error: unknown, source: () => AsyncIterable<Uint8Array>): Promise<unknown> {
-  if (!isLevelwiseError(error, 'bad-encoding')) return error;
+  if (!isNotUtf8Error(error)) return error;
   const place = await locateBadUtf8(source());
   return place === null ? error : badUtf8Error(place);
 }
 
 /** placeBadUtf8 for a source held in memory. */
 export function placeBadUtf8In(error: unknown, bytes: Uint8Array): unknown {
-  if (!isLevelwiseError(error, 'bad-encoding')) return error;
+  if (!isNotUtf8Error(error)) return error;
   const place = findBadUtf8(bytes);
   return place === null ? error : badUtf8Error(place);
 }

@@ -168,6 +168,15 @@ describe('readers name the place of bytes that are not UTF-8', () => {
     expect(error.message).toContain(expected.excerpt);
   });
 
+  it('a file read as UTF-16 keeps its own message: its bytes are not judged as UTF-8', () => {
+    // "a,b\n1," then a lone high surrogate D800, which UTF-16 cannot end on (WHATWG Encoding Standard §14.3).
+    const utf16 = Uint8Array.from([0x61, 0, 0x2c, 0, 0x62, 0, 0x0a, 0, 0x31, 0, 0x2c, 0, 0x00, 0xd8]);
+    const error = thrown(() => readTable(utf16, { encoding: 'utf-16le' }));
+    expect(error.code).toBe('bad-encoding');
+    expect(error.message).toMatch(/^The file is not valid utf-16le/);
+    expect(error.line).toBeUndefined();
+  });
+
   it('a guessed UTF-8 file is still read again as Windows-1252, without an error', () => {
     const { table, encoding } = readTable(bytes.subarray(3));
     expect(encoding).toBe('windows-1252');
