@@ -119,14 +119,21 @@ export function draftColumn(profile: ColumnProfile, level?: MeasurementLevel, in
   }
 }
 
+/** The levels a nominal column would have: `levels` in all, one of them for missing values when `missingLevel`. */
+export interface LevelTally {
+  readonly levels: number;
+  readonly missingLevel: boolean;
+}
+
 /**
- * The number of levels a nominal column of `profile` would have with `cleaning` and no grouping
- * (its missing level included), when that is more than a column can encode; null when it fits.
+ * The levels a nominal column of `profile` would have with `cleaning` and no grouping (missing
+ * values a level of their own), when that is more than a column can encode; null when it fits.
  */
-export function levelsOverLimit(profile: ColumnProfile, cleaning: Cleaning): number | null {
+export function levelsOverLimit(profile: ColumnProfile, cleaning: Cleaning): LevelTally | null {
   if (profile.levels === null || profile.levels.length + 1 <= MAX_CATEGORICAL_LEVELS) return null;
-  const levels = cleanLevels(profile.levels, cleaning).length + (profile.missing > 0 ? 1 : 0);
-  return levels > MAX_CATEGORICAL_LEVELS ? levels : null;
+  const missingLevel = profile.missing > 0;
+  const levels = cleanLevels(profile.levels, cleaning).length + (missingLevel ? 1 : 0);
+  return levels > MAX_CATEGORICAL_LEVELS ? { levels, missingLevel } : null;
 }
 
 function categoricalDefaults(cleaning: Cleaning, hasMissing: boolean) {

@@ -35,9 +35,11 @@ export function tooManyLevelsError(column: string, levels: number): LevelwiseErr
  * The clause a drafted column's reason gains when its rare levels were grouped to fit the limit.
  * Counts are grouped by threes, as in the rest of the reason (infer.ts).
  */
-export function wideDraftNote(levels: number): string {
+export function wideDraftNote({ levels, missingLevel }: { readonly levels: number; readonly missingLevel: boolean }): string {
+  // The count differs by one from the distinct values the reason names before it: say why.
+  const counted = missingLevel ? `${countText(levels)} levels (missing values one of them)` : `${countText(levels)} levels`;
   return (
-    `; ${countText(levels)} levels are more than one column can encode (${countText(MAX_CATEGORICAL_LEVELS)}), ` +
+    `; ${counted} are more than one column can encode (${countText(MAX_CATEGORICAL_LEVELS)}), ` +
     `so only the ${WIDE_DRAFT_KEEP_TOP} most frequent keep their own column and the rest are grouped`
   );
 }

@@ -171,6 +171,25 @@ describe('a column of 100,000 distinct values', () => {
   });
 });
 
+describe('a wide column with missing values', () => {
+  // Invented town names: 1,500 of them, each on two rows, and every 100th row empty or "NA".
+  const lines = ['row,town'];
+  for (let r = 0; r < 3000; r++) lines.push(`${r + 1},${r % 100 === 0 ? (r % 200 === 0 ? '' : 'NA') : `Town ${r % 1500}`}`);
+  const run = pipeline(utf8(`${lines.join('\n')}\n`), 'towns.csv');
+  const town = run.recipe.columns[1];
+
+  it('counts missing values as one of the levels over the limit, and says so beside the distinct values', () => {
+    // Rows 0, 100, …, 2900 are missing: 30 cells. Town t sits on rows t and t + 1,500, both missing for
+    // t = 0, 100, …, 1400: those 15 towns never show, so 1,485 towns (each twice) and the missing level.
+    expect(run.profiles[1]?.missing).toBe(30);
+    expect(run.profiles[1]?.distinct).toBe(1485);
+    expect(town?.reason).toBe(
+      '1,485 distinct values with no order recognised; 1,486 levels (missing values one of them) are more than one column can encode (1,000), ' +
+        'so only the 100 most frequent keep their own column and the rest are grouped',
+    );
+  });
+});
+
 describe('a column whose 100,000 values are all different', () => {
   const lines = ['code,score'];
   for (let r = 0; r < 100_000; r++) lines.push(`K${r.toString(36)},${r % 5}`);
