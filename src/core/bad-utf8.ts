@@ -26,6 +26,18 @@ const EXCERPT_BYTES = 32;
 const LF = 0x0a;
 const CR = 0x0d;
 
+/** The bad sequence once found, and the line around it as gathered so far. */
+interface Found {
+  readonly byte: number;
+  readonly line: number;
+  readonly bytes: number[];
+  readonly before: number[];
+  readonly cutBefore: boolean;
+  /** Bytes after the sequence, up to EXCERPT_BYTES or the end of its line. */
+  readonly after: number[];
+  lineEnded: boolean;
+}
+
 /** Feed the source's bytes in order with `push` until it returns a place, then `finish` at the end. */
 export class Utf8Locator {
   private offset = 0;
@@ -40,18 +52,18 @@ export class Utf8Locator {
   private sequenceStart = 0;
   /** The current line's last bytes before the current sequence (for the excerpt). */
   private lineTail: number[] = [];
-  /** Once found: the place, and the bytes after it still wanted for the excerpt. */
-  private found: { byte: number; line: number; bytes: number[]; before: number[]; after: number[]; cutBefore: boolean; lineEnded: boolean } | null = null;
+  /** Whether the tail lost bytes from the line's start. */
   private cutBefore = false;
-  private skipBom = true;
+  private found: Found | null = null;
+  private atStart = true;
   /** The source starts with a UTF-16 byte order mark: not UTF-8 at all, nothing to point at. */
   private utf16 = false;
 
   /** The next bytes of the source. Returns the place once it is known (and complete), else null. */
   push(chunk: Uint8Array): BadUtf8Place | null {
     let i = 0;
-    if (this.skipBom && chunk.length > 0) {
-      this.skipBom = false;
+    if (this.atStart && chunk.length > 0) {
+      this.atStart = false;
       if (chunk.length >= 3 && chunk[0] === 0xef && chunk[1] === 0xbb && chunk[2] === 0xbf) i = 3;
       this.utf16 = chunk.length >= 2 && ((chunk[0] === 0xff && chunk[1] === 0xfe) || (chunk[0] === 0xfe && chunk[1] === 0xff));
     }
