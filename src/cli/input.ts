@@ -9,7 +9,7 @@ import { stat } from 'node:fs/promises';
 import { basename } from 'node:path';
 import type { Table } from '../core/columns.ts';
 import { decodeBytes, type EncodingName } from '../core/decode.ts';
-import { placeBadUtf8 } from '../core/bad-utf8.ts';
+import { isNotUtf8Error, placeBadUtf8 } from '../core/bad-utf8.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
@@ -215,7 +215,17 @@ async function readBatchesOnce(
   try {
     return await read(settings.encoding);
   } catch (error) {
-    if (!isLevelwiseError(error, 'encoding-restart')) throw source.reopenable ? await placeBadUtf8(error, () => source.chunks()) : error;
+    if (!isLevelwiseError(error, 'encoding-restart')) {
+      if (source.reopenable) throw await placeBadUtf8(error, () => source.chunks());
+      if (isNotUtf8Error(error)) {
+        // Finding the place takes a second pass, which standard input cannot give.
+        throw new CliFailure(
+          `"${source.label}" is not valid UTF-8: it holds bytes that are not UTF-8, and cannot be read a second time to find where.`,
+          'Save it to a file and run again on that to see the line; or run again with --encoding windows-1252 if an older office program saved it.',
+        );
+      }
+      throw error;
+    }
     if (!source.reopenable || !(await handlers.restart())) {
       throw new CliFailure(
         `"${source.label}" started as UTF-8 text but holds other bytes further down, and cannot be read again from the start.`,

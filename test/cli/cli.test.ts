@@ -389,6 +389,14 @@ describe('encodings', () => {
     expect(again.status).toBe(0);
     expect(text(again.stdout)).toBe(text(encodeToCsv(recipe(), table()).bytes));
   });
+  it('read as UTF-8 on request, a file names the line of the bad byte; standard input says why it cannot', () => {
+    // The byte is on line 20,002 (the header, 20,000 rows, then "q1,Orl\xE9ans"), at offset
+    // 10 + 10·8 + 90·9 + 900·10 + 9,000·11 + 10,000·12 = 228,900 bytes of lines, plus "q1,Orl".
+    const fromFile = levelwise(['profile', file('towns3.csv', bytes), '--encoding', 'utf-8']);
+    expectOneLineError(fromFile, /not valid UTF-8: byte \\xE9 \(offset 228,906\) is not part of any UTF-8 character, in "q1,Orl\\xE9ans" \(line 20,002\)\. If an older office program saved it, run again with --encoding windows-1252/);
+    const fromInput = levelwise(['profile', '-', '--encoding', 'utf-8'], { input: bytes });
+    expectOneLineError(fromInput, /"standard input" is not valid UTF-8: it holds bytes that are not UTF-8, and cannot be read a second time to find where\. Save it to a file/);
+  });
 });
 
 describe('spreadsheets', () => {
