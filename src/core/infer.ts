@@ -13,7 +13,7 @@ import { countText } from './count-text.ts';
 import { looksLikeDate } from './dates.ts';
 import { matchOrdinalScale, MAX_SCALE_LEVELS } from './ordinal-scales.ts';
 import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
-import { numberReader } from './numbers.ts';
+import { detectNumberFormat, numberReader } from './numbers.ts';
 import type { Cleaning, Merge, MeasurementLevel } from './recipe.ts';
 
 export interface Inference {
@@ -103,6 +103,24 @@ const date: InferenceRule = {
     const example = p.levels?.find((l) => looksLikeDate(l.value))?.value.trim() ?? '';
     return excluded(
       `${countText(p.text.dates)} of ${countText(ctx.nonMissing)} values look like dates (e.g. ${quote(example)}): dates are left out for now`,
+    );
+  },
+};
+
+/**
+ * Amounts written with a currency sign before them ("€ 1.234,50", "$12") or a percent or currency
+ * sign after them ("12%", "99,90 €"). The number reader takes no such signs yet (numbers.ts), so
+ * without this rule such a column, every value distinct, would pass for an identifier and its
+ * text would go into the output as it is. Left out, with the reason saying what to do.
+ */
+const signedAmounts: InferenceRule = {
+  name: 'signed amounts',
+  test: (p, ctx) => {
+    const found = amountSign(p.levels, ctx.nonMissing);
+    if (found === null) return null;
+    return excluded(
+      `${countText(found.count)} of ${countText(ctx.nonMissing)} values are numbers written with "${found.sign}" (e.g. ${quote(found.example)}): ` +
+        'numbers with currency or percent signs are not read yet, so the column is left out; remove the signs in the file to encode it as numbers',
     );
   },
 };
@@ -222,6 +240,7 @@ export const INFERENCE_RULES: readonly InferenceRule[] = [
   allMissing,
   constant,
   date,
+  signedAmounts,
   binary,
   ordinalScale,
   identifier,
@@ -340,6 +359,42 @@ function numericOrder(levels: readonly LevelCount[], numeric: NumericSummary): {
     if (from.length > 0) merges.push({ into, from });
   }
   return { order, merges };
+}
+
+/** A currency sign (and a space) before a number, or a space and a percent, per mille or currency sign after it. */
+const SIGN_BEFORE = /^(US\$|CHF|[$€£¥₹])\s?(?=[+-]?[\d.,])/u;
+const SIGN_AFTER = /(?<=\d)\s?(%|‰|€|£|¥|₹|\$|CHF|EUR|USD|GBP)$/u;
+
+/**
+ * The sign most values of a text column are written with, when nearly all of them (the share a
+ * column needs to read as numbers) are numbers once it is taken off; null otherwise. Gives up as
+ * soon as too many values have no sign, so an identifier's million levels cost little.
+ */
+function amountSign(levels: readonly LevelCount[] | null, nonMissing: number): { sign: string; count: number; example: string } | null {
+  if (levels === null || nonMissing === 0) return null;
+  const needed = INFERENCE_THRESHOLDS.numericShare * nonMissing;
+  let unsigned = 0;
+  const signs = new Map<string, number>();
+  // Each signed value as written, and as the number left once the sign is off.
+  const signed: { written: string; value: string; count: number }[] = [];
+  for (const { value, count } of levels) {
+    const written = value.trim();
+    const before = SIGN_BEFORE.exec(written)?.[0];
+    const sign = before ?? SIGN_AFTER.exec(written)?.[0];
+    if (sign === undefined) {
+      unsigned += count;
+      if (nonMissing - unsigned < needed) return null;
+      continue;
+    }
+    signs.set(sign.trim(), (signs.get(sign.trim()) ?? 0) + count);
+    signed.push({ written, value: before !== undefined ? written.slice(sign.length) : written.slice(0, written.length - sign.length), count });
+  }
+  const read = numberReader(detectNumberFormat(signed));
+  const numbers = signed.filter((s) => !Number.isNaN(read(s.value)));
+  const count = numbers.reduce((sum, s) => sum + s.count, 0);
+  if (count < needed) return null;
+  const sign = [...signs].sort((a, b) => b[1] - a[1])[0]![0];
+  return { sign, count, example: numbers[0]!.written };
 }
 
 // ---------------------------------------------------------------------------------------------

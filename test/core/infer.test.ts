@@ -81,6 +81,7 @@ describe('the rules', () => {
       'all missing',
       'constant',
       'date',
+      'signed amounts',
       'binary',
       'ordinal scale',
       'identifier',
@@ -304,6 +305,33 @@ describe('sensitive attributes', () => {
     expect(sensitiveAttributeCaution(name)).not.toBeNull());
   it.each(['usage', 'page_count', 'heating', 'average'])('%j does not', (name) =>
     expect(sensitiveAttributeCaution(name)).toBeNull());
+});
+
+describe('numbers with currency or percent signs', () => {
+  const inferOf = (cells: string[]): Inference => inferLevel(profileColumn(columnTable('c', cells).columns[0]!, 0, { missingTokens: ['NA'] }));
+  const prices = Array.from({ length: 40 }, (_, i) => `€ ${i + 1},${String(i * 7 % 100).padStart(2, '0')}`);
+
+  it('a column of amounts with a currency sign before them is left out, saying why, not taken for an identifier', () => {
+    expect(inferOf(prices)).toMatchObject({
+      level: 'excluded',
+      reason:
+        '40 of 40 values are numbers written with "€" (e.g. "€ 1,00"): numbers with currency or percent signs are not read yet, ' +
+        'so the column is left out; remove the signs in the file to encode it as numbers',
+    });
+  });
+
+  it('signs after the number ("12%", "99,90 €") and "US$" before it too; a few missing or stray values are allowed', () => {
+    const shares = [...Array.from({ length: 38 }, (_, i) => `${i / 2}%`), 'NA', 'about 5'];
+    expect(inferOf(shares).reason).toMatch(/^38 of 39 values are numbers written with "%" \(e\.g\. "0%"\)/);
+    expect(inferOf(prices.map((p) => `${p.slice(2)} €`)).reason).toMatch(/^40 of 40 values are numbers written with "€" \(e\.g\. "1,00 €"\)/);
+    expect(inferOf(prices.map((p) => `US$${p.slice(2).replace(',', '.')}`)).reason).toMatch(/^40 of 40 values are numbers written with "US\$"/);
+  });
+
+  it('leaves alone identifiers, codes with a sign inside, and numbers with only a stray signed value', () => {
+    expect(inferOf(Array.from({ length: 40 }, (_, i) => `HH-${String(i).padStart(5, '0')}`)).level).toBe('identifier');
+    expect(inferOf(Array.from({ length: 40 }, (_, i) => `$${i}-$${i + 10}`)).level).not.toBe('excluded');
+    expect(inferOf([...Array.from({ length: 39 }, (_, i) => String(i * 1.5)), '$12']).level).toBe('continuous');
+  });
 });
 
 describe('numbers with a stray word', () => {
