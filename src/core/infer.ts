@@ -366,6 +366,21 @@ const SIGN_BEFORE = /^(US\$|CHF|[$€£¥₹])\s?(?=[+-]?[\d.,])/u;
 const SIGN_AFTER = /(?<=\d)\s?(%|‰|€|£|¥|₹|\$|CHF|EUR|USD|GBP)$/u;
 
 /**
+ * Whether `value` may start or end with one of those signs, from its first and last characters
+ * alone: ASCII ones the signs begin or end with, and any other character (the non-ASCII signs, and
+ * white space that trimming would take off to bare one).
+ */
+function mayCarrySign(value: string): boolean {
+  const n = value.length;
+  if (n === 0) return false;
+  const first = value.charCodeAt(0);
+  const last = value.charCodeAt(n - 1);
+  if (first <= 0x20 || first >= 0x7f || last <= 0x20 || last >= 0x7f) return true;
+  // $ U(S$) C(HF) before; % $ (CH)F (EU)R (US)D (GB)P after.
+  return first === 0x24 || first === 0x55 || first === 0x43 || last === 0x25 || last === 0x24 || last === 0x46 || last === 0x52 || last === 0x44 || last === 0x50;
+}
+
+/**
  * The sign most values of a text column are written with, when nearly all of them (the share a
  * column needs to read as numbers) are numbers once it is taken off; null otherwise. Gives up as
  * soon as too many values have no sign, so an identifier's million levels cost little.
@@ -378,9 +393,11 @@ function amountSign(levels: readonly LevelCount[] | null, nonMissing: number): {
   // Each signed value as written, and as the number left once the sign is off.
   const signed: { written: string; value: string; count: number }[] = [];
   for (const { value, count } of levels) {
-    const written = value.trim();
-    const before = SIGN_BEFORE.exec(written)?.[0];
-    const sign = before ?? SIGN_AFTER.exec(written)?.[0];
+    // The first and last characters rule most values out before any trimming or pattern.
+    const possible = mayCarrySign(value);
+    const written = possible ? value.trim() : value;
+    const before = possible ? SIGN_BEFORE.exec(written)?.[0] : undefined;
+    const sign = before ?? (possible ? SIGN_AFTER.exec(written)?.[0] : undefined);
     if (sign === undefined) {
       unsigned += count;
       if (nonMissing - unsigned < needed) return null;
