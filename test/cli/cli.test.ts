@@ -343,6 +343,9 @@ describe('errors: one line, exit 2', () => {
     expectOneLineError(levelwise(['draft', input, '--reference', 'colour=green']), /--reference colour=green: "colour" (has no level "green"|is \w+, and --reference applies to nominal columns)/);
     expectOneLineError(levelwise(['draft', input, '--set', 'weight=continuous']), /the file has no column "weight"/);
     expectOneLineError(levelwise(['draft', input, '--set', 'colour=nominal:rank']), /"rank" is not a coding of a nominal column/);
+    // The page offers continuous only for a column with numbers in it; so does the command line.
+    expectOneLineError(levelwise(['draft', input, '--set', 'colour=continuous']), /--set colour=continuous: no value of "colour" reads as a number, so it cannot be continuous\./);
+    expect(levelwise(['draft', input, '--set', 'size=continuous']).status).toBe(0);
   });
   it('a reader that closes standard output early ends the run quietly', () => {
     const run = spawnSync('sh', ['-c', `"${process.execPath}" "${BIN}" apply "${file('epipe.recipe.json', c.recipeText)}" "${file('epipe.csv', demoLikeRows(c))}" | head -c 10`], {

@@ -97,6 +97,14 @@ export function applyChoices(start: Recipe, args: ParsedArgs, profiles: readonly
     if (!(LEVELS as readonly string[]).includes(level) || rest.length > 0) {
       throw usageFailure(VERB, `--set ${given}: "${level}" is not a level of measurement.`, `Use one of ${LEVELS.join(', ')}, e.g. --set region=nominal:dummy.`);
     }
+    // As in the page, which offers continuous only for a column with numbers in it.
+    if (level === 'continuous' && profiles.find((p) => p.name === column)?.numeric === null) {
+      throw usageFailure(
+        VERB,
+        `--set ${given}: no value of "${column}" reads as a number, so it cannot be continuous.`,
+        `See its values with "levelwise profile FILE"; numbers written with currency or percent signs are not read yet.`,
+      );
+    }
     apply({ type: 'set-level', column, level: level as MeasurementLevel });
     if (coding !== undefined) apply(codingDecision(column, level as MeasurementLevel, coding, given));
   });
