@@ -10,18 +10,10 @@ import { badUtf8Error, findBadUtf8, locateBadUtf8, showBytes, Utf8Locator, type 
 import { isLevelwiseError, type LevelwiseError } from '../../src/core/errors.ts';
 import { readInSegments } from '../../src/core/read-in-segments.ts';
 import { readTable, readTableFromSource } from '../../src/core/read-table.ts';
+import { concat } from '../robustness/helpers.ts';
 
 const encode = (text: string): Uint8Array => new TextEncoder().encode(text);
 const latin1 = (text: string): Uint8Array => Uint8Array.from(text, (c) => c.charCodeAt(0));
-const concat = (...parts: Uint8Array[]): Uint8Array => {
-  const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
-  let at = 0;
-  for (const p of parts) {
-    out.set(p, at);
-    at += p.length;
-  }
-  return out;
-};
 
 function inChunks(bytes: Uint8Array, cuts: readonly number[]): BadUtf8Place | null {
   const locator = new Utf8Locator();
