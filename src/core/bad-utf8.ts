@@ -135,14 +135,9 @@ export class Utf8Locator {
     }
     this.sequenceStart = at;
     this.sequence = [byte];
-    if (byte >= 0xc2 && byte <= 0xdf) this.expect(1, 0x80, 0xbf);
-    else if (byte === 0xe0) this.expect(2, 0xa0, 0xbf);
-    else if (byte === 0xed) this.expect(2, 0x80, 0x9f);
-    else if (byte >= 0xe1 && byte <= 0xef) this.expect(2, 0x80, 0xbf);
-    else if (byte === 0xf0) this.expect(3, 0x90, 0xbf);
-    else if (byte === 0xf4) this.expect(3, 0x80, 0x8f);
-    else if (byte >= 0xf1 && byte <= 0xf3) this.expect(3, 0x80, 0xbf);
-    else this.markBad(at);
+    const rule = leadRule(byte);
+    if (rule === null) this.markBad(at);
+    else this.expect(...rule);
   }
 
   private expect(needed: number, lower: number, upper: number): void {
@@ -231,20 +226,29 @@ export function showBytes(bytes: readonly number[]): string {
   return text;
 }
 
+/**
+ * For a lead byte of 0x80 or more: the continuation bytes it needs, and the range the first of them
+ * must fall in (the others: 0x80–0xBF); null for a byte no character starts with (WHATWG Encoding
+ * Standard §4.1, UTF-8 decoder).
+ */
+function leadRule(lead: number): [needed: number, lower: number, upper: number] | null {
+  if (lead >= 0xc2 && lead <= 0xdf) return [1, 0x80, 0xbf];
+  if (lead === 0xe0) return [2, 0xa0, 0xbf];
+  if (lead === 0xed) return [2, 0x80, 0x9f];
+  if (lead >= 0xe1 && lead <= 0xef) return [2, 0x80, 0xbf];
+  if (lead === 0xf0) return [3, 0x90, 0xbf];
+  if (lead === 0xf4) return [3, 0x80, 0x8f];
+  if (lead >= 0xf1 && lead <= 0xf3) return [3, 0x80, 0xbf];
+  return null;
+}
+
 /** Length of the UTF-8 character starting at bytes[i], or 0 when none starts there. */
 function characterLength(bytes: readonly number[], i: number): number {
   const lead = bytes[i]!;
   if (lead < 0x80) return 1;
-  const [needed, lower, upper] =
-    lead >= 0xc2 && lead <= 0xdf ? [1, 0x80, 0xbf]
-    : lead === 0xe0 ? [2, 0xa0, 0xbf]
-    : lead === 0xed ? [2, 0x80, 0x9f]
-    : lead >= 0xe1 && lead <= 0xef ? [2, 0x80, 0xbf]
-    : lead === 0xf0 ? [3, 0x90, 0xbf]
-    : lead === 0xf4 ? [3, 0x80, 0x8f]
-    : lead >= 0xf1 && lead <= 0xf3 ? [3, 0x80, 0xbf]
-    : [0, 0, 0];
-  if (needed === 0) return 0;
+  const rule = leadRule(lead);
+  if (rule === null) return 0;
+  const [needed, lower, upper] = rule;
   for (let k = 1; k <= needed; k++) {
     const next = bytes[i + k];
     const [low, high] = k === 1 ? [lower, upper] : [0x80, 0xbf];
