@@ -13,8 +13,8 @@ import { countText } from './count-text.ts';
 import { looksLikeDate } from './dates.ts';
 import { matchOrdinalScale, MAX_SCALE_LEVELS } from './ordinal-scales.ts';
 import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
-import { detectNumberFormat, numberReader } from './numbers.ts';
-import type { Cleaning, Merge, MeasurementLevel } from './recipe.ts';
+import { numberReader } from './numbers.ts';
+import type { Cleaning, Merge, MeasurementLevel, NumberFormat } from './recipe.ts';
 
 export interface Inference {
   readonly level: MeasurementLevel;
@@ -107,24 +107,6 @@ const date: InferenceRule = {
   },
 };
 
-/**
- * Amounts written with a currency sign before them ("€ 1.234,50", "$12") or a percent or currency
- * sign after them ("12%", "99,90 €"). The number reader takes no such signs yet (numbers.ts), so
- * without this rule such a column, every value distinct, would pass for an identifier and its
- * text would go into the output as it is. Left out, with the reason saying what to do.
- */
-const signedAmounts: InferenceRule = {
-  name: 'signed amounts',
-  test: (p, ctx) => {
-    const found = amountSign(p.levels, ctx.nonMissing);
-    if (found === null) return null;
-    return excluded(
-      `${countText(found.count)} of ${countText(ctx.nonMissing)} values are numbers written with "${found.sign}" (e.g. ${quote(found.example)}): ` +
-        'numbers with currency or percent signs are not read yet, so the column is left out; remove the signs in the file to encode it as numbers',
-    );
-  },
-};
-
 const binary: InferenceRule = {
   name: 'binary',
   test: (p, ctx) => {
@@ -179,7 +161,7 @@ const continuous: InferenceRule = {
         : '';
     return {
       level: 'continuous',
-      reason: `${countText(n.count)} of ${countText(ctx.nonMissing)} values read as numbers (${percent(n.share)}), ${countText(distinctNumbers(p, n))} distinct${invalid}`,
+      reason: `${countText(n.count)} of ${countText(ctx.nonMissing)} values read as numbers${symbolNote(n.format)} (${percent(n.share)}), ${countText(distinctNumbers(p, n))} distinct${invalid}`,
       cleaning: NO_CLEANING,
     };
   },
@@ -240,7 +222,6 @@ export const INFERENCE_RULES: readonly InferenceRule[] = [
   allMissing,
   constant,
   date,
-  signedAmounts,
   binary,
   ordinalScale,
   identifier,
@@ -361,59 +342,6 @@ function numericOrder(levels: readonly LevelCount[], numeric: NumericSummary): {
   return { order, merges };
 }
 
-/** A currency sign (and a space) before a number, or a space and a percent, per mille or currency sign after it. */
-const SIGN_BEFORE = /^(US\$|CHF|[$€£¥₹])\s?(?=[+-]?[\d.,])/u;
-const SIGN_AFTER = /(?<=\d)\s?(%|‰|€|£|¥|₹|\$|CHF|EUR|USD|GBP)$/u;
-
-/**
- * Whether `value` may start or end with one of those signs, from its first and last characters
- * alone: ASCII ones the signs begin or end with, and any other character (the non-ASCII signs, and
- * white space that trimming would take off to bare one).
- */
-function mayCarrySign(value: string): boolean {
-  const n = value.length;
-  if (n === 0) return false;
-  const first = value.charCodeAt(0);
-  const last = value.charCodeAt(n - 1);
-  if (first <= 0x20 || first >= 0x7f || last <= 0x20 || last >= 0x7f) return true;
-  // $ U(S$) C(HF) before; % $ (CH)F (EU)R (US)D (GB)P after.
-  return first === 0x24 || first === 0x55 || first === 0x43 || last === 0x25 || last === 0x24 || last === 0x46 || last === 0x52 || last === 0x44 || last === 0x50;
-}
-
-/**
- * The sign most values of a text column are written with, when nearly all of them (the share a
- * column needs to read as numbers) are numbers once it is taken off; null otherwise. Gives up as
- * soon as too many values have no sign, so an identifier's million levels cost little.
- */
-function amountSign(levels: readonly LevelCount[] | null, nonMissing: number): { sign: string; count: number; example: string } | null {
-  if (levels === null || nonMissing === 0) return null;
-  const needed = INFERENCE_THRESHOLDS.numericShare * nonMissing;
-  let unsigned = 0;
-  const signs = new Map<string, number>();
-  // Each signed value as written, and as the number left once the sign is off.
-  const signed: { written: string; value: string; count: number }[] = [];
-  for (const { value, count } of levels) {
-    // The first and last characters rule most values out before any trimming or pattern.
-    const possible = mayCarrySign(value);
-    const written = possible ? value.trim() : value;
-    const before = possible ? SIGN_BEFORE.exec(written)?.[0] : undefined;
-    const sign = before ?? (possible ? SIGN_AFTER.exec(written)?.[0] : undefined);
-    if (sign === undefined) {
-      unsigned += count;
-      if (nonMissing - unsigned < needed) return null;
-      continue;
-    }
-    signs.set(sign.trim(), (signs.get(sign.trim()) ?? 0) + count);
-    signed.push({ written, value: before !== undefined ? written.slice(sign.length) : written.slice(0, written.length - sign.length), count });
-  }
-  const read = numberReader(detectNumberFormat(signed));
-  const numbers = signed.filter((s) => !Number.isNaN(read(s.value)));
-  const count = numbers.reduce((sum, s) => sum + s.count, 0);
-  if (count < needed) return null;
-  const sign = [...signs].sort((a, b) => b[1] - a[1])[0]![0];
-  return { sign, count, example: numbers[0]!.written };
-}
-
 // ---------------------------------------------------------------------------------------------
 // Sentences.
 
@@ -438,6 +366,11 @@ function almostNumbersHint(p: ColumnProfile): string {
   if (!isMostlyNumeric(n) || n.invalidCount === 0 || distinctNumbers(p, n) > INFERENCE_THRESHOLDS.maxScaleNumbers) return '';
   const stray = [...new Set(n.invalidExamples.map((e) => e.text))].slice(0, 3).map(quote).join(', ');
   return `; all but ${countText(n.invalidCount)} are numbers: marking ${stray} as missing would read them as an ordered scale`;
+}
+
+/** ' written with "€"' when the numbers carry a currency or percent sign, so that the reason explains why "€ 12" counts. */
+function symbolNote(format: NumberFormat): string {
+  return format.symbol === undefined ? '' : ` written with ${quote(format.symbol.text)}`;
 }
 
 function excluded(reason: string): Inference {

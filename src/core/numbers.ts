@@ -1,10 +1,13 @@
 /**
- * Reading numbers the way a column writes them: "1,234.5", "12,5" (decimal comma), "1 234".
+ * Reading numbers the way a column writes them: "1,234.5", "12,5" (decimal comma), "1 234",
+ * "€ 1.234,50", "12%".
  *
  * Deliberately strict. A cell reads as a number only when all of it is a number in the column's
- * format: "$12", "45%", "12 kg", "n/a", "0x1F", "Infinity" and anything that overflows to
- * ±Infinity ("1e309") do not. Such cells are reported, never guessed at.
+ * format, with at most the format's symbol beside it (number-symbols.ts): with no symbol in the
+ * format "$12", "45%" and "12 kg" do not read; "n/a", "0x1F", "Infinity" and anything that
+ * overflows to ±Infinity ("1e309") never do. Such cells are reported, never guessed at.
  */
+import { commonSymbol, knownSymbolOf, withoutSymbol, withSymbol } from './number-symbols.ts';
 import type { NumberFormat } from './recipe.ts';
 
 /** Numbers as JavaScript writes them: point for decimals, no digit grouping. */
@@ -45,7 +48,7 @@ export function parseNumber(text: string, format: NumberFormat): number {
 
 /** A parser for one format, compiled once; call it once per distinct value. */
 export function numberReader(format: NumberFormat): NumberReader {
-  const key = format.decimal + format.group;
+  const key = format.decimal + format.group + (format.symbol === undefined ? '' : `${format.symbol.side} ${format.symbol.text}`);
   let reader = readers.get(key);
   if (reader === undefined) {
     reader = compileReader(format);
@@ -65,8 +68,9 @@ function compileReader(format: NumberFormat): NumberReader {
   const integer = grouped ? `(?:\\d{1,3}(?:${group}\\d{3})+|\\d+)` : '\\d+';
   const shape = new RegExp(`^[+-]?(?:${integer}(?:${decimal}\\d+)?|${decimal}\\d+)(?:[eE][+-]?\\d+)?$`);
   const groupGlobal = grouped ? new RegExp(group, 'g') : null;
+  const symbol = format.symbol;
   return (text) => {
-    const t = text.trim();
+    const t = symbol === undefined ? text.trim() : withoutSymbol(text.trim(), symbol);
     if (!shape.test(t)) return NaN;
     let js = groupGlobal === null ? t : t.replace(groupGlobal, '');
     if (format.decimal === ',') js = js.replace(',', '.');
@@ -82,17 +86,24 @@ const MIGHT_BE_NUMBER = /^\s*[+-]?[\d.,][\d.,eE+\- \u00A0\u202F]*\s*$/;
  * The format most of `values` are written in: the candidate that reads the most cells (weighted
  * by count), preferring earlier candidates on ties. A comma decimal is chosen only when it reads
  * strictly more cells than every point-decimal format, i.e. when the column is written that way.
+ * The candidates are the six formats, then the same six with the symbol most cells carry, if any
+ * does. A symbol is taken only when it makes more cells read and more than half of the cells it
+ * reads carry it: the column is written that way. One "$12" among plain numbers stays a stray
+ * cell, reported, not read (common practice: read what the column means, flag what it does not).
  * Missing cells should be left out by the caller; empty texts are ignored.
  */
 export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
-  // Texts no format can read are set aside once, instead of being tried six times.
-  const candidates = values.filter(({ value, count }) => count > 0 && MIGHT_BE_NUMBER.test(value));
+  // Texts no format can read are set aside once, instead of being tried twelve times.
+  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || knownSymbolOf(value) !== null));
+  const common = commonSymbol(candidates);
+  const formats = common === null ? CANDIDATE_NUMBER_FORMATS : [...CANDIDATE_NUMBER_FORMATS, ...CANDIDATE_NUMBER_FORMATS.map((f) => ({ ...f, symbol: common.symbol }))];
   let best = PLAIN_NUMBER_FORMAT;
   let bestScore = 0;
-  for (const format of CANDIDATE_NUMBER_FORMATS) {
+  for (const format of formats) {
     const read = numberReader(format);
     let score = 0;
     for (const { value, count } of candidates) if (!Number.isNaN(read(value))) score += count;
+    if (format.symbol !== undefined && common !== null && 2 * common.count <= score) continue;
     if (score > bestScore) {
       best = format;
       bestScore = score;
@@ -103,7 +114,8 @@ export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
 
 /**
  * Writes `value` in `format` so that `parseNumber` reads back exactly the same number
- * (including −0). Digit groups are written only when there is no exponent. Not for NaN or ±Infinity.
+ * (including −0), with the format's symbol. Digit groups are written only when there is no
+ * exponent. Not for NaN or ±Infinity.
  */
 export function formatNumber(value: number, format: NumberFormat): string {
   if (!Number.isFinite(value)) throw new RangeError(`formatNumber: ${value} is not a finite number`);
@@ -113,7 +125,7 @@ export function formatNumber(value: number, format: NumberFormat): string {
   const [, sign = '', integer = '', fraction, exponent] = match;
   const groupChar = format.group === format.decimal ? '' : format.group;
   const grouped = exponent === undefined && groupChar !== '' ? groupDigits(integer, groupChar) : integer;
-  return sign + grouped + (fraction === undefined ? '' : format.decimal + fraction) + (exponent ?? '');
+  return withSymbol(sign + grouped + (fraction === undefined ? '' : format.decimal + fraction) + (exponent ?? ''), format.symbol);
 }
 
 function groupDigits(digits: string, separator: string): string {

@@ -5,6 +5,7 @@
 import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
 import { DEFAULT_MISSING_TOKENS, missingNumbers, missingTest, type MissingTest } from './missing.ts';
+import { knownSymbolOf } from './number-symbols.ts';
 import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
 import type { NumberFormat } from './recipe.ts';
 import { sortNumbers } from './sort-numbers.ts';
@@ -272,6 +273,13 @@ function mayBeNumber(text: string): boolean {
   return (c >= 0x30 && c <= 0x39) || c === 0x2b || c === 0x2d || c === 0x2e || c === 0x2c;
 }
 
+/** mayBeNumber, widened for a symbol before the number ("$12", "CHF 5"): the known ones, or the format's own. */
+function mayBeNumberIn(format: NumberFormat | undefined): (text: string) => boolean {
+  const symbol = format?.symbol;
+  if (symbol === undefined) return format === undefined ? (text) => mayBeNumber(text) || knownSymbolOf(text) !== null : mayBeNumber;
+  return (text) => mayBeNumber(text) || text.includes(symbol.text);
+}
+
 /** `levels[i]` is the level of code `codes[i]`. */
 function summarizeTextNumbers(
   column: TextColumn,
@@ -280,9 +288,11 @@ function summarizeTextNumbers(
   nonMissing: number,
   fixedFormat: NumberFormat | undefined,
 ): NumericSummary | null {
-  const candidates = levels.filter((level) => mayBeNumber(level.value));
+  const mayBeCandidate = mayBeNumberIn(fixedFormat);
+  const candidates = levels.filter((level) => mayBeCandidate(level.value));
   const format = fixedFormat ?? detectNumberFormat(candidates);
   const read = numberReader(format);
+  const mayRead = mayBeNumberIn(format);
   // Room for the levels that may be numbers only: an identifier column's million levels need none.
   const numbers = new Float64Array(candidates.length);
   const weights = new Float64Array(candidates.length);
@@ -292,7 +302,7 @@ function summarizeTextNumbers(
   let leadingZeros = 0;
   for (let i = 0; i < levels.length; i++) {
     const { value: text, count } = levels[i]!;
-    const value = mayBeNumber(text) ? read(text) : NaN;
+    const value = mayRead(text) ? read(text) : NaN;
     if (Number.isNaN(value)) {
       invalid[codes[i] ?? 0] = 1;
       invalidCount += count;

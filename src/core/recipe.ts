@@ -15,13 +15,31 @@ export const LEVELS = ['continuous', 'nominal', 'ordinal', 'binary', 'identifier
 export const MeasurementLevel = z.enum(LEVELS).describe('Level of measurement chosen for the column.');
 export type MeasurementLevel = z.infer<typeof MeasurementLevel>;
 
+export const NumberSymbol = z
+  .object({
+    text: z
+      .string()
+      .min(1)
+      .max(8)
+      .regex(/^[^\s\d+\-.,](?:\D*[^\s\d+\-.,])?$/u, 'a symbol holds no digit, and neither starts nor ends with white space, a sign, a point or a comma')
+      .describe('The symbol exactly as written, case and all: "€", "%", "US$", "CHF".'),
+    side: z.enum(['before', 'after']).describe('before: "€ 12" and "-€12"; after: "12 %" and "12,50 €".'),
+  })
+  .strict()
+  .describe(
+    'A currency sign, percent sign or unit written beside the numbers. It is optional in each cell; spaces may ' +
+      'separate it from the number; the number is read as written ("12%" is 12).',
+  );
+export type NumberSymbol = z.infer<typeof NumberSymbol>;
+
 export const NumberFormat = z
   .object({
     decimal: z.enum(['.', ',']).describe('Decimal separator the column is written with.'),
     group: z.enum(['', ',', '.', ' ']).describe("Digit-group separator accepted and ignored; '' for none."),
+    symbol: NumberSymbol.optional(),
   })
   .strict()
-  .describe('How the numbers of a column are written, e.g. "1,234.5" or "12,5".');
+  .describe('How the numbers of a column are written, e.g. "1,234.5", "12,5" or "12,50 €".');
 export type NumberFormat = z.infer<typeof NumberFormat>;
 
 export const Merge = z

@@ -12,7 +12,9 @@
  *   (final sigma, dotted capital I); PostgreSQL follows the database's collation; SQLite's lower()
  *   folds ASCII letters only. Recipes with case-folding over non-ASCII levels can differ there.
  * - Reading numbers: the same shape as numbers.ts (groups of three, decimal point or comma, an
- *   optional exponent); values that overflow a double are not numbers, as in JavaScript.
+ *   optional exponent, a currency or percent symbol); values that overflow a double are not
+ *   numbers, as in JavaScript. The ansi dialect takes only plain spaces between a number and its
+ *   symbol.
  */
 
 export type SqlDialectName = 'duckdb' | 'postgres' | 'sqlite' | 'ansi';
@@ -41,6 +43,12 @@ export interface SqlDialect {
   lower(expr: string): string;
   /** A number literal the engine reads back as exactly `value`. */
   number(value: number): string;
+  /** Characters `from` (1-based) on, or `count` of them: substr() or the standard SUBSTRING. */
+  substring(expr: string, from: string, count?: string): string;
+  /** Length in characters. */
+  length(expr: string): string;
+  /** Removes the spaces that may stand between a number and its symbol (space, no-break, narrow no-break) at one end. */
+  trimSymbolSpaces(expr: string, end: 'leading' | 'trailing'): string;
   /** 1 when `expr` (already trimmed, not null) matches `pattern`, else 0 — where the engine has regular expressions. */
   readonly regex: ((expr: string, pattern: RegexPattern) => string) | null;
   /** The double `expr` (a well-formed number text with a point decimal) holds, or NULL when it overflows. */
@@ -124,8 +132,17 @@ function castNumber(typeName: string) {
 
 const chrList = (codePoints: readonly number[]) => codePoints.map((c) => `chr(${c})`).join(' || ');
 
+/** substr() and length(), which DuckDB, PostgreSQL and SQLite all have, counting characters. */
+const substr = (expr: string, from: string, count?: string): string => `substr(${expr}, ${from}${count === undefined ? '' : `, ${count}`})`;
+const length = (expr: string): string => `length(${expr})`;
+/** ltrim/rtrim with a set of characters, as DuckDB, PostgreSQL and SQLite have them. */
+const trimSet = (set: string) => (expr: string, end: 'leading' | 'trailing'): string => `${end === 'leading' ? 'ltrim' : 'rtrim'}(${expr}, ${set})`;
+
 const duckdb: SqlDialect = {
   name: 'duckdb',
+  substring: substr,
+  length,
+  trimSymbolSpaces: trimSet(chrList(SPACE_GROUP_CODE_POINTS)),
   text: textWith((c) => `chr(${c})`),
   trim: (expr) => `trim(${expr}, ${quoteIdentifier(SETUP_CTE)}.${BLANK})`,
   lower: (expr) => `lower(${expr})`,
@@ -143,6 +160,9 @@ function plainText(value: string): string {
 
 const postgres: SqlDialect = {
   name: 'postgres',
+  substring: substr,
+  length,
+  trimSymbolSpaces: trimSet(chrList(SPACE_GROUP_CODE_POINTS)),
   text: (value) => {
     if (value.includes('\u0000')) throw new Error(`PostgreSQL text cannot hold the NUL character found in ${JSON.stringify(value)}.`);
     return textWith((c) => `chr(${c})`)(value);
@@ -169,6 +189,9 @@ const postgres: SqlDialect = {
 
 const sqlite: SqlDialect = {
   name: 'sqlite',
+  substring: substr,
+  length,
+  trimSymbolSpaces: trimSet(`char(${SPACE_GROUP_CODE_POINTS.join(', ')})`),
   text: textWith((c) => `char(${c})`),
   trim: (expr) => `trim(${expr}, char(${JS_TRIM_CODE_POINTS.join(', ')}))`,
   lower: (expr) => `lower(${expr})`,
@@ -183,6 +206,10 @@ const sqlite: SqlDialect = {
 
 const ansi: SqlDialect = {
   name: 'ansi',
+  substring: (expr, from, count) => `SUBSTRING(${expr} FROM ${from}${count === undefined ? '' : ` FOR ${count}`})`,
+  length: (expr) => `CHAR_LENGTH(${expr})`,
+  // Standard TRIM takes one character: the plain space only (as for trimming, see the limits above).
+  trimSymbolSpaces: (expr, end) => `TRIM(${end === 'leading' ? 'LEADING' : 'TRAILING'} ' ' FROM ${expr})`,
   // Standard SQL has no chr(): control characters stay literal inside the quotes.
   text: textWith(null),
   trim: (expr) => `TRIM(BOTH ' ' FROM ${expr})`,

@@ -23,7 +23,7 @@
 import { countText } from './count-text.ts';
 import { transformForColumn, type LevelCodes } from './encoders/index.ts';
 import { ALL_ZEROS, compilePlan, type CategoricalPlan, type ColumnPlan } from './plan.ts';
-import type { CategoricalColumn, ColumnRecipe, ContinuousColumn, NumberFormat, Recipe } from './recipe.ts';
+import type { CategoricalColumn, ColumnRecipe, ContinuousColumn, NumberFormat, NumberSymbol, Recipe } from './recipe.ts';
 import {
   dialect as dialectNamed,
   quoteIdentifier,
@@ -413,12 +413,35 @@ interface ReadNumber {
 
 /** Recognises and normalises a number as numbers.ts does: regular expressions where the engine has them. */
 function readNumber(trimmed: string, format: NumberFormat, alias: Alias, { sql, steps }: Context): ReadNumber {
-  const text = steps.add(1, alias('number_text'), normalisedNumber(trimmed, format, sql));
+  // A symbol ("€ 12", "12 %") comes off first, in a stage of its own; the number is read from what is left.
+  const first = format.symbol === undefined ? 1 : 2;
+  const bare = format.symbol === undefined ? trimmed : steps.add(1, alias('amount'), withoutSymbol(trimmed, format.symbol, sql));
+  const text = steps.add(first, alias('number_text'), normalisedNumber(bare, format, sql));
   if (sql.regex !== null) {
-    const ok = steps.add(1, alias('number_shape'), sql.regex(trimmed, numberPattern(format)));
-    return { ok, text, stage: 2 };
+    const ok = steps.add(first, alias('number_shape'), sql.regex(bare, numberPattern(format)));
+    return { ok, text, stage: first + 1 };
   }
-  return { ok: shapeByParts(trimmed, format, alias, sql, steps), text, stage: 5 };
+  return { ok: shapeByParts(bare, format, alias, sql, steps, first), text, stage: first + 4 };
+}
+
+/**
+ * number-symbols.ts's withoutSymbol: the symbol taken off its side of the trimmed text (a sign may
+ * stand before a leading symbol: "-€5"), and the spaces between it and the number.
+ */
+function withoutSymbol(trimmed: string, symbol: NumberSymbol, sql: SqlDialect): string {
+  const s = sql.text(symbol.text);
+  const k = String(symbol.text.length);
+  if (symbol.side === 'after') {
+    const length = sql.length(trimmed);
+    const rest = sql.substring(trimmed, '1', `${length} - ${k}`);
+    return `CASE WHEN ${length} >= ${k} AND ${sql.substring(trimmed, `${length} - ${k} + 1`, k)} = ${s} THEN ${sql.trimSymbolSpaces(rest, 'trailing')} ELSE ${trimmed} END`;
+  }
+  const sign = sql.substring(trimmed, '1', '1');
+  return (
+    `CASE WHEN ${sql.substring(trimmed, '1', k)} = ${s} THEN ${sql.trimSymbolSpaces(sql.substring(trimmed, `${k} + 1`), 'leading')} ` +
+    `WHEN ${sign} IN ('+', '-') AND ${sql.substring(trimmed, '2', k)} = ${s} THEN ${sign} || ${sql.trimSymbolSpaces(sql.substring(trimmed, `${k} + 2`), 'leading')} ` +
+    `ELSE ${trimmed} END`
+  );
 }
 
 /** Whether digit groups are read at all: a group equal to the decimal separator cannot be told apart (numbers.ts). */
@@ -460,7 +483,7 @@ export function numberPattern(format: NumberFormat): RegexPattern {
  * The same shape without regular expressions (SQLite has none built in), from string functions
  * and GLOB: split off the sign, the exponent and the decimal part, and check each part's characters.
  */
-function shapeByParts(trimmed: string, format: NumberFormat, alias: Alias, sql: SqlDialect, steps: Steps): string {
+function shapeByParts(trimmed: string, format: NumberFormat, alias: Alias, sql: SqlDialect, steps: Steps, first: number): string {
   const grouped = isGrouped(format);
   // Space-like groups become plain spaces first, so one GLOB class covers them.
   let spaced = trimmed;
@@ -468,26 +491,26 @@ function shapeByParts(trimmed: string, format: NumberFormat, alias: Alias, sql: 
     for (const ch of groupCharacters(format).slice(1)) spaced = `replace(${spaced}, ${sql.text(ch)}, ' ')`;
   }
   const unsigned = steps.add(
-    1,
+    first,
     alias('unsigned'),
     `CASE WHEN substr(${spaced}, 1, 1) IN ('+', '-') THEN substr(${spaced}, 2) ELSE ${spaced} END`,
   );
   const e = `instr(lower(${unsigned}), 'e')`;
-  const mantissa = steps.add(2, alias('mantissa'), `CASE WHEN ${e} > 0 THEN substr(${unsigned}, 1, ${e} - 1) ELSE ${unsigned} END`);
-  const exponent = steps.add(2, alias('exponent'), `CASE WHEN ${e} > 0 THEN substr(${unsigned}, ${e} + 1) END`);
+  const mantissa = steps.add(first + 1, alias('mantissa'), `CASE WHEN ${e} > 0 THEN substr(${unsigned}, 1, ${e} - 1) ELSE ${unsigned} END`);
+  const exponent = steps.add(first + 1, alias('exponent'), `CASE WHEN ${e} > 0 THEN substr(${unsigned}, ${e} + 1) END`);
   const d = `instr(${mantissa}, ${sql.text(format.decimal)})`;
-  const integer = steps.add(3, alias('integer'), `CASE WHEN ${d} > 0 THEN substr(${mantissa}, 1, ${d} - 1) ELSE ${mantissa} END`);
-  const fraction = steps.add(3, alias('fraction'), `CASE WHEN ${d} > 0 THEN substr(${mantissa}, ${d} + 1) END`);
+  const integer = steps.add(first + 2, alias('integer'), `CASE WHEN ${d} > 0 THEN substr(${mantissa}, 1, ${d} - 1) ELSE ${mantissa} END`);
+  const fraction = steps.add(first + 2, alias('fraction'), `CASE WHEN ${d} > 0 THEN substr(${mantissa}, ${d} + 1) END`);
   const digits = (x: string) => `(${x} GLOB '[0-9]*' AND ${x} NOT GLOB '*[^0-9]*')`;
   const exponentOk = steps.add(
-    3,
+    first + 2,
     alias('exponent_ok'),
     `CASE WHEN ${exponent} IS NULL OR ${digits(exponent)} OR (${exponent} GLOB '[+-][0-9]*' AND substr(${exponent}, 2) NOT GLOB '*[^0-9]*') THEN 1 ELSE 0 END`,
   );
   const integerForms = [digits(integer), `(${integer} = '' AND ${fraction} IS NOT NULL)`];
   if (grouped) integerForms.push(groupedDigits(integer, format.group));
   const condition = [`${exponentOk} = 1`, `(${fraction} IS NULL OR ${digits(fraction)})`, `(${integerForms.join(' OR ')})`];
-  return steps.add(4, alias('number_shape'), `CASE WHEN ${condition.join(' AND ')} THEN 1 ELSE 0 END`);
+  return steps.add(first + 3, alias('number_shape'), `CASE WHEN ${condition.join(' AND ')} THEN 1 ELSE 0 END`);
 }
 
 /** `d{1,3}(G d{3})+` in GLOB terms: starts with a digit, ends "G ddd", every G followed by exactly three digits. */

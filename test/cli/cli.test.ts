@@ -265,6 +265,34 @@ describe('draft and apply on the invented demo survey', () => {
   });
 });
 
+describe('amounts written with currency and percent signs', () => {
+  // An invented price list: euro prices with decimal commas, and "%" after the discount.
+  const prices = file('prices (invented).csv', 'item;price;discount\r\nP1;€ 1.234,50;10 %\r\nP2;-€ 4,50;0 %\r\nP3;€ 19,99;12,5 %\r\nP4;€ 7;5 %\r\nP5;€ 30,10;\r\nP6;€ 2,00;20 %\r\nP7;€ 250;15 %\r\nP8;€ 99,90;7,5 %\r\nP9;€ 12;25 %\r\nP10;€ 5,25;30 %\r\nP11;€ 8;35 %\r\nP12;€ 61,75;40 %\r\nP13;€ 3,30;45 %\r\n');
+  const recipePath = join(work, 'prices.recipe.json');
+
+  it('draft reads them as numbers in their format, and apply writes the numbers', () => {
+    const draft = levelwise(['draft', prices, '-o', recipePath]);
+    expect(draft.status).toBe(0);
+    const recipe = parsed(readFileSync(recipePath, 'utf8'));
+    expect(recipe.columns.map((c) => [c.name, c.level, c.level === 'continuous' ? c.format : null])).toEqual([
+      ['item', 'identifier', null],
+      ['price', 'continuous', { decimal: ',', group: '.', symbol: { text: '€', side: 'before' } }],
+      ['discount', 'continuous', { decimal: ',', group: '', symbol: { text: '%', side: 'after' } }],
+    ]);
+    const out = levelwise(['apply', recipePath, prices]);
+    expect(out.status).toBe(0);
+    // The discounts 10 … 45 (12 of them) sum to 245: the empty one is filled with the mean, 245 / 12.
+    expect(text(out.stdout).split('\r\n').slice(0, 6)).toEqual([
+      'item,price,discount,discount (missing)',
+      'P1,1234.5,10,0',
+      'P2,-4.5,0,0',
+      'P3,19.99,12.5,0',
+      'P4,7,5,0',
+      `P5,30.1,${245 / 12},1`,
+    ]);
+  });
+});
+
 describe('check', () => {
   const cases = goldenCases();
   it('exit 0 and one line when the file fits', () => {

@@ -81,7 +81,6 @@ describe('the rules', () => {
       'all missing',
       'constant',
       'date',
-      'signed amounts',
       'binary',
       'ordinal scale',
       'identifier',
@@ -308,29 +307,53 @@ describe('sensitive attributes', () => {
 });
 
 describe('numbers with currency or percent signs', () => {
-  const inferOf = (cells: string[]): Inference => inferLevel(profileColumn(columnTable('c', cells).columns[0]!, 0, { missingTokens: ['NA'] }));
+  const profileOf = (cells: string[]): ColumnProfile => profileColumn(columnTable('c', cells).columns[0]!, 0, { missingTokens: ['NA'] });
+  const inferOf = (cells: string[]): Inference => inferLevel(profileOf(cells));
+  // Euros and cents: i + 1 euros and (7i mod 100) cents, for i = 0…39. The euros sum to 820; the
+  // cents to 735 (i = 0…14) + 707 (i = 15…28, less a euro each) + 418 (i = 29…39, less two) = 1,860.
   const prices = Array.from({ length: 40 }, (_, i) => `€ ${i + 1},${String(i * 7 % 100).padStart(2, '0')}`);
 
-  it('a column of amounts with a currency sign before them is left out, saying why, not taken for an identifier', () => {
-    expect(inferOf(prices)).toMatchObject({
-      level: 'excluded',
-      reason:
-        '40 of 40 values are numbers written with "€" (e.g. "€ 1,00"): numbers with currency or percent signs are not read yet, ' +
-        'so the column is left out; remove the signs in the file to encode it as numbers',
+  it('a column of amounts with a currency sign before them is continuous, read in its own format, not an identifier', () => {
+    const profile = profileOf(prices);
+    expect(profile.numeric?.format).toEqual({ decimal: ',', group: '', symbol: { text: '€', side: 'before' } });
+    expect(profile.numeric?.count).toBe(40);
+    expect(profile.numeric?.mean).toBeCloseTo(838.6 / 40, 12);
+    expect(profile.numeric?.min).toBe(1);
+    expect(profile.numeric?.max).toBe(40.73);
+    expect(inferLevel(profile)).toMatchObject({
+      level: 'continuous',
+      reason: '40 of 40 values read as numbers written with "€" (100%), 40 distinct',
     });
   });
 
   it('signs after the number ("12%", "99,90 €") and "US$" before it too; a few missing or stray values are allowed', () => {
     const shares = [...Array.from({ length: 38 }, (_, i) => `${i / 2}%`), 'NA', 'about 5'];
-    expect(inferOf(shares).reason).toMatch(/^38 of 39 values are numbers written with "%" \(e\.g\. "0%"\)/);
-    expect(inferOf(prices.map((p) => `${p.slice(2)} €`)).reason).toMatch(/^40 of 40 values are numbers written with "€" \(e\.g\. "1,00 €"\)/);
-    expect(inferOf(prices.map((p) => `US$${p.slice(2).replace(',', '.')}`)).reason).toMatch(/^40 of 40 values are numbers written with "US\$"/);
+    expect(inferOf(shares)).toMatchObject({
+      level: 'continuous',
+      reason: '38 of 39 values read as numbers written with "%" (97.4%), 38 distinct; 1 do not (e.g. "about 5")',
+    });
+    // "12%" is read as written: 12, not 0.12. The shares are 0, 0.5, …, 18.5.
+    expect(profileOf(shares).numeric).toMatchObject({ min: 0, max: 18.5, format: { decimal: '.', group: '', symbol: { text: '%', side: 'after' } } });
+    expect(profileOf(prices.map((p) => `${p.slice(2)} €`)).numeric?.format).toEqual({ decimal: ',', group: '', symbol: { text: '€', side: 'after' } });
+    const dollars = profileOf(prices.map((p) => `US$${p.slice(2).replace(',', '.')}`)).numeric;
+    expect(dollars).toMatchObject({ count: 40, max: 40.73, format: { decimal: '.', group: '', symbol: { text: 'US$', side: 'before' } } });
+  });
+
+  it('a sign before the symbol makes a negative amount: "-€5", "€-5" and "€ -5" are all −5', () => {
+    const refunds = [...prices.slice(0, 30), '-€5', '€-5', '€ -5', '-€ 5,50'];
+    const n = profileOf(refunds).numeric!;
+    expect(n.count).toBe(34);
+    expect(n.min).toBe(-5.5);
+    expect(n.invalidCount).toBe(0);
   });
 
   it('leaves alone identifiers, codes with a sign inside, and numbers with only a stray signed value', () => {
     expect(inferOf(Array.from({ length: 40 }, (_, i) => `HH-${String(i).padStart(5, '0')}`)).level).toBe('identifier');
-    expect(inferOf(Array.from({ length: 40 }, (_, i) => `$${i}-$${i + 10}`)).level).not.toBe('excluded');
-    expect(inferOf([...Array.from({ length: 39 }, (_, i) => String(i * 1.5)), '$12']).level).toBe('continuous');
+    expect(profileOf(Array.from({ length: 40 }, (_, i) => `$${i}-$${i + 10}`)).numeric).toBeNull();
+    // One "$12" among plain numbers is a stray cell, reported, not a reason to read dollars.
+    const stray = profileOf([...Array.from({ length: 39 }, (_, i) => String(i * 1.5)), '$12']);
+    expect(inferLevel(stray).level).toBe('continuous');
+    expect(stray.numeric).toMatchObject({ format: { decimal: '.', group: '' }, invalidCount: 1, invalidExamples: [{ row: 39, text: '$12' }] });
   });
 });
 

@@ -108,6 +108,53 @@ describe('parseNumber, grouped and decimal-comma formats', () => {
   });
 });
 
+const EURO_BEFORE: NumberFormat = { decimal: ',', group: '.', symbol: { text: '€', side: 'before' } };
+const PERCENT: NumberFormat = { decimal: '.', group: '', symbol: { text: '%', side: 'after' } };
+const FRANCS: NumberFormat = { decimal: '.', group: ',', symbol: { text: 'CHF', side: 'before' } };
+const KILOGRAMS: NumberFormat = { decimal: '.', group: '', symbol: { text: 'kg', side: 'after' } };
+/** The formats with a symbol the tests go through, beside the six without. */
+const SYMBOL_FORMATS: readonly NumberFormat[] = [
+  EURO_BEFORE,
+  PERCENT,
+  FRANCS,
+  { decimal: ',', group: ' ', symbol: { text: '€', side: 'after' } },
+  { decimal: '.', group: ',', symbol: { text: 'US$', side: 'before' } },
+];
+
+describe('parseNumber, formats with a symbol', () => {
+  it.each([
+    ['€ 1.234,50', 1234.5],
+    ['€1.234,50', 1234.5],
+    [`€\u00a012`, 12],
+    ['  € 5  ', 5],
+    ['-€5', -5],
+    ['€-5', -5],
+    ['€ -5', -5],
+    ['+€ 5', 5],
+    ['7,25', 7.25],
+  ])('with "€" before: reads %j as %d', (text, expected) => expect(parseNumber(text, EURO_BEFORE)).toBe(expected));
+
+  it.each(['5 €', '€', '€ ', '--€5', '-€-5', '- €5', 'EUR 5', '€€5', '€ 1,234.50', '€ 5 %'])('with "€" before: does not read %j', (text) =>
+    expect(parseNumber(text, EURO_BEFORE)).toBeNaN());
+
+  it('with "%" after: the number as written ("12%" is 12, not 0.12), with or without the sign, spaces allowed', () => {
+    expect(parseNumber('12%', PERCENT)).toBe(12);
+    expect(parseNumber('12.5 %', PERCENT)).toBe(12.5);
+    expect(parseNumber(`-0.5\u202f%`, PERCENT)).toBe(-0.5);
+    expect(parseNumber('40', PERCENT)).toBe(40);
+    for (const text of ['%12', '12%%', '12 %%', '%', '12‰', '12 percent']) expect(parseNumber(text, PERCENT)).toBeNaN();
+  });
+
+  it('a letter symbol is matched as written, case and all, and any unit a recipe names is read the same way', () => {
+    expect(parseNumber('CHF 1,250.75', FRANCS)).toBe(1250.75);
+    expect(parseNumber('-CHF 3', FRANCS)).toBe(-3);
+    expect(parseNumber('chf 3', FRANCS)).toBeNaN();
+    expect(parseNumber('12.5 kg', KILOGRAMS)).toBe(12.5);
+    expect(parseNumber('12.5kg', KILOGRAMS)).toBe(12.5);
+    expect(parseNumber('12.5 g', KILOGRAMS)).toBeNaN();
+  });
+});
+
 describe('detectNumberFormat', () => {
   it('defaults to plain numbers', () => {
     expect(detectNumberFormat(once('1.5', '2', '-3.25'))).toEqual(PLAIN);
@@ -136,6 +183,24 @@ describe('detectNumberFormat', () => {
     expect(detectNumberFormat([{ value: '1,5', count: 10 }, { value: '1,234.5', count: 3 }])).toEqual(DECIMAL_COMMA);
     expect(detectNumberFormat([{ value: '1,5', count: 2 }, { value: '1,234.5', count: 3 }])).toEqual(COMMA_GROUPS);
   });
+
+  it('takes a currency or percent sign when the column is written with it', () => {
+    expect(detectNumberFormat(once('€ 1.234,50', '€ 2,00', '€ 5', '7,5'))).toEqual(EURO_BEFORE);
+    expect(detectNumberFormat(once('12%', '5.5%', '100%', '0'))).toEqual(PERCENT);
+    expect(detectNumberFormat(once('CHF 1,250.75', 'CHF 3', '-CHF 12'))).toEqual(FRANCS);
+    expect(detectNumberFormat(once('US$5', 'US$ 1,200.50'))).toEqual({ decimal: '.', group: ',', symbol: { text: 'US$', side: 'before' } });
+    expect(detectNumberFormat(once('99,90 €', '1 299,00 €'))).toEqual({ decimal: ',', group: ' ', symbol: { text: '€', side: 'after' } });
+  });
+
+  it('leaves a symbol out when only a few cells carry it: one "$12" among numbers stays a stray cell', () => {
+    expect(detectNumberFormat(once('1.5', '2', '3.25', '$12'))).toEqual(PLAIN);
+    // Carried by exactly half the cells it would read: not the column's way of writing.
+    expect(detectNumberFormat(once('1', '2', '3%', '4%'))).toEqual(PLAIN);
+    expect(detectNumberFormat(once('1', '2%', '3%', '4%'))).toEqual({ ...PLAIN, symbol: { text: '%', side: 'after' } });
+  });
+
+  it('finds only the known signs on its own: a unit such as "kg" is for a recipe to name', () =>
+    expect(detectNumberFormat(once('12 kg', '3.5 kg'))).toEqual(PLAIN));
 
   it('ignores values with a zero count and empty texts', () =>
     expect(detectNumberFormat([{ value: '12,5', count: 0 }, { value: '', count: 9 }, { value: '3.5', count: 1 }])).toEqual(PLAIN));
@@ -172,6 +237,24 @@ describe('formatNumber', () => {
         },
       ),
       { numRuns: 2000 },
+    );
+  });
+
+  it('writes the symbol on its side, a letter symbol apart from the number', () => {
+    expect(formatNumber(1234.5, EURO_BEFORE)).toBe('€1.234,5');
+    expect(formatNumber(12.5, PERCENT)).toBe('12.5%');
+    expect(formatNumber(-1250.75, FRANCS)).toBe('CHF -1,250.75');
+    expect(formatNumber(3, KILOGRAMS)).toBe('3 kg');
+  });
+
+  it('property: with a symbol too, writing then reading gives the same number back', () => {
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), fc.constantFrom(...SYMBOL_FORMATS, KILOGRAMS), (value, format) => {
+        expect(Object.is(parseNumber(formatNumber(value, format), format), value)).toBe(true);
+        // The symbol is optional in each cell: the bare number reads the same.
+        expect(Object.is(parseNumber(formatNumber(value, { decimal: format.decimal, group: format.group }), format), value)).toBe(true);
+      }),
+      { numRuns: 1000 },
     );
   });
 

@@ -396,11 +396,21 @@ const oneColumn = (name: string, cells: readonly string[]): Table =>
 
 const NBSP = '\u00a0';
 const NNBSP = '\u202f';
-const NUMBER_CHARS = ['0', '1', '5', '9', '+', '-', '.', ',', ' ', NBSP, NNBSP, 'e', 'E', '\t', 'x', '_'];
+const NUMBER_CHARS = ['0', '1', '5', '9', '+', '-', '.', ',', ' ', NBSP, NNBSP, 'e', 'E', '\t', 'x', '_', '€', '%', 'CHF'];
+/** Formats with a currency or percent symbol (number-symbols.ts), on both sides, one a letter code. */
+const SYMBOL_FORMATS: readonly NumberFormat[] = [
+  { decimal: ',', group: '.', symbol: { text: '€', side: 'before' } },
+  { decimal: '.', group: '', symbol: { text: '%', side: 'after' } },
+  { decimal: '.', group: ',', symbol: { text: 'CHF', side: 'before' } },
+  { decimal: ',', group: ' ', symbol: { text: '€', side: 'after' } },
+];
 
 describe('numbers are read as numbers.ts reads them', () => {
-  const formats = CANDIDATE_NUMBER_FORMATS;
+  const formats = [...CANDIDATE_NUMBER_FORMATS, ...SYMBOL_FORMATS];
+  const formatName = (f: NumberFormat): string => `decimal "${f.decimal}" group "${f.group}"${f.symbol ? ` symbol "${f.symbol.text}" ${f.symbol.side}` : ''}`;
   const cellsFor = (format: NumberFormat): string[] => [
+    '€ 1.234,50', '€1.234,50', `€${NBSP}12`, '-€5', '€-5', '€ -5', '+€ 5', '- €5', '--€5', '-€-5', '€€5', '€', '€ ', '5 €', `1 234,5${NNBSP}€`,
+    '12%', '12 %', `-0.5${NNBSP}%`, '%12', '12%%', '%', 'CHF 1,250.75', '-CHF 3', 'chf 3', 'CHF', 'CHF-', 'CHF 3 %',
     '1,234.5', '1.234,5', '1 234,5', `1${NBSP}234`, `1${NNBSP}234.25`, '12,5', '1,23', '1234,567', '12 34',
     '.5', ',5', '5.', '+5', '-5', '--5', '+-5', '1e3', '1E-3', '1e', 'e5', '1e+3', '1.5e3', '1,5e3', ' 7 ', '\t8\n',
     '1e309', '-1e309', '1e-400', '4.9e-324', '2.4703282292062328e-324', '179769313486231580793728971405303415079934132710037826936173778980444968292764750946649017977587207096330286416692887910946555547851940402630657488671505820681908902000708383676273854845817711531764475730270069855571366959622842914819860834936475292719074168444365510704342711559699508093042880177904174497791',
@@ -409,7 +419,7 @@ describe('numbers are read as numbers.ts reads them', () => {
   ];
   for (const engineName of ENGINE_NAMES) {
     for (const format of formats) {
-      it(`${engineName}: hand-picked cells, format decimal "${format.decimal}" group "${format.group}"`, async () => {
+      it(`${engineName}: hand-picked cells, format ${formatName(format)}`, async () => {
         const { cells } = await compareOnEngine(engineNamed(engineName), numberRecipe(format), oneColumn('x', cellsFor(format)));
         expect(cells).toBe(cellsFor(format).length * 2);
       });

@@ -9,9 +9,10 @@ import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
 import { decide } from '../../src/core/decisions.ts';
 import { encodeToCsv } from '../../src/core/encode-csv.ts';
+import { readTable } from '../../src/core/read-table.ts';
 import type { ContinuousColumn } from '../../src/core/recipe.ts';
 import { ContinuousOptions } from '../../src/ui/columns/ContinuousOptions.tsx';
-import { pipeline, utf8 } from './helpers.ts';
+import { pipeline, utf8, windows1252 } from './helpers.ts';
 
 afterEach(cleanup);
 
@@ -111,5 +112,77 @@ describe('a column written with decimal commas', () => {
     const column = comma.recipe.columns[0] as ContinuousColumn;
     expect(column.format).toEqual({ decimal: ',', group: '' });
     expect(comma.csv.split('\r\n').slice(1, 4)).toEqual(['12.5', '3.25', '7']);
+  });
+});
+
+describe('a shop export with prices and discounts written with their signs', () => {
+  // An invented order list, saved by a spreadsheet in Windows-1252 (its "€" is the byte 0x80):
+  // prices with a euro sign before them, decimal commas and point groups; discounts with "%" after.
+  const ORDERS = [
+    'order;price;discount',
+    'A-101;€ 1.234,50;10%',
+    'A-102;€ 19,99;0%',
+    'A-103;€ 5;12,5 %',
+    'A-104;-€ 4,50;',
+    'A-105;€ 250,00;5%',
+    'A-106;€ 99,90;NA',
+    'A-107;€ 12,00;20%',
+    'A-108;€ 7,25;15%',
+    'A-109;€ 1.000;0%',
+    'A-110;€ 30;5%',
+    'A-111;€ 45,10;7,5%',
+    'A-112;€ 2,00;10%',
+  ].join('\r\n');
+  const shop = pipeline(windows1252(`${ORDERS}\r\n`), 'orders.csv');
+  const price = shop.recipe.columns[1] as ContinuousColumn;
+  // Seven distinct discounts in twelve rows draft as an ordered scale; a person would take them as numbers.
+  const recipe = decide(shop.recipe, { type: 'set-level', column: 'discount', level: 'continuous' }, shop.profiles);
+  const discount = recipe.columns[2] as ContinuousColumn;
+  const csv = new TextDecoder().decode(encodeToCsv(recipe, shop.read.table).bytes);
+
+  it('reads the prices as continuous in their own format, sign and all, and says so', () => {
+    expect(price.level).toBe('continuous');
+    expect(price.format).toEqual({ decimal: ',', group: '.', symbol: { text: '€', side: 'before' } });
+    expect(price.reason).toBe('12 of 12 values read as numbers written with "€" (100%), 12 distinct');
+  });
+
+  it('orders the few discounts by their numbers, "%" and decimal comma read', () => {
+    const drafted = shop.recipe.columns[2]!;
+    expect(drafted.level).toBe('ordinal');
+    expect(drafted.reason).toBe('7 distinct numbers from 0 to 20: read as an ordered scale');
+    expect(drafted.level === 'ordinal' && drafted.levels.map((l) => l.value)).toEqual(['0%', '5%', '7,5%', '10%', '12,5 %', '15%', '20%']);
+    expect(discount.format).toEqual({ decimal: ',', group: '', symbol: { text: '%', side: 'after' } });
+  });
+
+  it('fits on the amounts as written: prices sum to 2,701.24 with the refund, discounts to 85 (percent points)', () => {
+    // 1234.5 + 19.99 + 5 − 4.5 + 250 + 99.9 + 12 + 7.25 + 1000 + 30 + 45.1 + 2 = 2,701.24 over 12 prices.
+    expect(price.fitted.count).toBe(12);
+    expect(price.fitted.mean).toBeCloseTo(2701.24 / 12, 10);
+    expect(price.fitted.min).toBe(-4.5);
+    expect(price.fitted.max).toBe(1234.5);
+    // 10 + 0 + 12.5 + 5 + 20 + 15 + 0 + 5 + 7.5 + 10 = 85 over 10 discounts ("" and "NA" are missing).
+    expect(discount.fitted.count).toBe(10);
+    expect(discount.fitted.mean).toBe(8.5);
+  });
+
+  it('writes the numbers, not the signs; a missing discount is filled with the mean and flagged', () => {
+    const out = csv.split('\r\n');
+    expect(out[0]).toBe('order,price,discount,discount (missing)');
+    expect(out[1]).toBe('A-101,1234.5,10,0');
+    expect(out[3]).toBe('A-103,5,12.5,0');
+    expect(out[4]).toBe('A-104,-4.5,8.5,1');
+    expect(out[12]).toBe('A-112,2,10,0');
+    expect(shop.report.rowsWritten).toBe(12);
+  });
+
+  it('a price in another spelling ("EUR 5") is a cell that does not read, reported with its line', () => {
+    const bytes = windows1252(`${ORDERS}\r\nA-113;EUR 5;0%\r\n`);
+    const { report } = encodeToCsv(recipe, readTable(bytes).table);
+    expect(report.columns.find((c) => c.name === 'price')?.invalid).toEqual([{ value: 'EUR 5', count: 1, lines: [14] }]);
+  });
+
+  it('the page shows how the numbers are written, sign and all', () => {
+    render(<ContinuousOptions profile={shop.profiles[1]!} column={price} onDecide={() => undefined} />);
+    expect(screen.getByText('written like').nextSibling?.textContent).toBe('€1.234,5');
   });
 });

@@ -150,6 +150,22 @@ describe('unknown and missing fields', () => {
       'columns[0] ("ticket").level: expected one of "continuous", "nominal", "ordinal", "binary", "identifier", "excluded", found "interval".',
     ]);
   });
+
+  it('a number symbol that would eat into the number (a digit, a sign, a separator, a space at its end) is refused', () => {
+    const amount = (symbol: unknown) =>
+      edited((d) => {
+        const column = d.columns.find((c) => c['name'] === 'amount')!;
+        column['format'] = { decimal: '.', group: '', symbol };
+      });
+    expect(parseRecipe(amount({ text: '€', side: 'before' })).ok).toBe(true);
+    expect(parseRecipe(amount({ text: 'US$', side: 'after' })).ok).toBe(true);
+    for (const text of ['', '5', 'EUR1', '-', '€ ', ' %', '.', 'kg,', 'much too long']) {
+      expect(parseRecipe(amount({ text, side: 'after' })).ok, text).toBe(false);
+    }
+    expect(errorsOf(amount({ text: '€', side: 'left' }))).toEqual([
+      'columns[2] ("amount").format.symbol.side: expected one of "before", "after", found "left".',
+    ]);
+  });
 });
 
 describe('a recipe made for another file', () => {

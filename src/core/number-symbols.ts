@@ -1,0 +1,131 @@
+/**
+ * Currency and percent signs written beside numbers in exports: "€ 1.234,50", "12%", "US$5",
+ * "99,90 €", "CHF 12.50". Finding which one a column uses, so that its format can carry it
+ * (recipe.ts NumberSymbol) and numbers.ts can read past it.
+ *
+ * Only the signs listed here are ever found on their own; a recipe may name any other symbol or
+ * unit ("kg"), and numbers.ts reads it the same way. The list is common practice (the ISO 4217
+ * codes of the most traded currencies and the signs shop and bank exports print), not a standard.
+ */
+import type { NumberSymbol } from './recipe.ts';
+
+/** Longest first, so "US$" is found before "$". */
+const KNOWN_SYMBOLS: readonly string[] = [
+  'US$', 'CA$', 'AU$', 'NZ$', 'HK$', 'R$', 'A$', 'C$',
+  'CHF', 'EUR', 'USD', 'GBP', 'JPY', 'SEK', 'NOK', 'DKK', 'PLN', 'CZK',
+  'kr', 'zł', 'Kč', 'Ft',
+  '$', '€', '£', '¥', '₹', '₩', '₽', '₺', '₪', '₫', '₴', '₦', '฿', '₱',
+  '%', '‰',
+];
+
+/**
+ * The known symbols by their first and by their last character (longest first within each): one
+ * lookup rules most texts out. ASCII characters index an array, the others a map.
+ */
+const BY_FIRST = bySymbolCharacter((s) => s.charCodeAt(0));
+const BY_LAST = bySymbolCharacter((s) => s.charCodeAt(s.length - 1));
+const NONE: readonly string[] = [];
+
+interface SymbolIndex {
+  readonly ascii: readonly (readonly string[])[];
+  readonly other: ReadonlyMap<number, readonly string[]>;
+}
+
+function bySymbolCharacter(characterOf: (symbol: string) => number): SymbolIndex {
+  const ascii: string[][] = Array.from({ length: 128 }, () => []);
+  const other = new Map<number, string[]>();
+  for (const symbol of KNOWN_SYMBOLS) {
+    const code = characterOf(symbol);
+    if (code < 128) ascii[code]!.push(symbol);
+    else other.set(code, [...(other.get(code) ?? []), symbol]);
+  }
+  return { ascii, other };
+}
+
+function symbolsAt(index: SymbolIndex, code: number): readonly string[] {
+  return code < 128 ? index.ascii[code]! : (index.other.get(code) ?? NONE);
+}
+
+/** Spaces allowed between a symbol and its number: space, no-break space, narrow no-break space. */
+export function isSymbolSpace(code: number): boolean {
+  return code === 0x20 || code === 0xa0 || code === 0x202f;
+}
+
+/** What may stand right next to a symbol for it to be a number's: a digit, a sign or a separator. */
+function isNumberEdge(code: number): boolean {
+  return (code >= 0x30 && code <= 0x39) || code === 0x2b || code === 0x2d || code === 0x2e || code === 0x2c;
+}
+
+/**
+ * The known symbol `text` is written with, and on which side of the number, or null. Looks at the
+ * first and last characters before anything else, so that a column of a million identifiers costs
+ * little. Only says where a symbol stands beside something number-like; whether the rest reads
+ * as a number is for numbers.ts.
+ */
+export function knownSymbolOf(text: string): NumberSymbol | null {
+  const first = text.charCodeAt(0);
+  const last = text.charCodeAt(text.length - 1);
+  const padded = !(first > 0x20 && first < 0x7f) || !(last > 0x20 && last < 0x7f);
+  const t = padded ? text.trim() : text;
+  if (t.length < 2) return null;
+  const head = t.charCodeAt(0);
+  const signed = head === 0x2b || head === 0x2d ? 1 : 0;
+  for (const symbol of symbolsAt(BY_FIRST, t.charCodeAt(signed))) {
+    if (t.startsWith(symbol, signed)) {
+      let at = signed + symbol.length;
+      while (at < t.length && isSymbolSpace(t.charCodeAt(at))) at++;
+      if (at < t.length && isNumberEdge(t.charCodeAt(at))) return { text: symbol, side: 'before' };
+    }
+  }
+  for (const symbol of symbolsAt(BY_LAST, t.charCodeAt(t.length - 1))) {
+    if (t.endsWith(symbol)) {
+      let at = t.length - symbol.length - 1;
+      while (at >= 0 && isSymbolSpace(t.charCodeAt(at))) at--;
+      if (at >= 0 && isNumberEdge(t.charCodeAt(at))) return { text: symbol, side: 'after' };
+    }
+  }
+  return null;
+}
+
+/** The symbol most cells of `values` carry (weighted by count) and how many carry it, or null when none carries one. */
+export function commonSymbol(values: readonly { readonly value: string; readonly count: number }[]): { symbol: NumberSymbol; count: number } | null {
+  const tally = new Map<string, { symbol: NumberSymbol; count: number }>();
+  for (const { value, count } of values) {
+    const symbol = knownSymbolOf(value);
+    if (symbol === null) continue;
+    const key = `${symbol.side} ${symbol.text}`;
+    const entry = tally.get(key);
+    if (entry === undefined) tally.set(key, { symbol, count });
+    else entry.count += count;
+  }
+  let best: { symbol: NumberSymbol; count: number } | null = null;
+  for (const entry of tally.values()) if (best === null || entry.count > best.count) best = entry;
+  return best;
+}
+
+/** `text` (trimmed) without the format's symbol, when it carries it: what is left must read as a number. */
+export function withoutSymbol(text: string, symbol: NumberSymbol): string {
+  const s = symbol.text;
+  if (symbol.side === 'after') {
+    if (!text.endsWith(s)) return text;
+    let end = text.length - s.length;
+    while (end > 0 && isSymbolSpace(text.charCodeAt(end - 1))) end--;
+    return text.slice(0, end);
+  }
+  let signEnd = 0;
+  if (!text.startsWith(s)) {
+    const head = text.charCodeAt(0);
+    if (!((head === 0x2b || head === 0x2d) && text.startsWith(s, 1))) return text;
+    signEnd = 1;
+  }
+  let at = signEnd + s.length;
+  while (at < text.length && isSymbolSpace(text.charCodeAt(at))) at++;
+  return text.slice(0, signEnd) + text.slice(at);
+}
+
+/** How a number is shown with its symbol: "€1,234.5", "12.5%", "12,50 EUR" (a letter symbol keeps a space). */
+export function withSymbol(number: string, symbol: NumberSymbol | undefined): string {
+  if (symbol === undefined) return number;
+  const space = /\p{L}/u.test(symbol.text) ? ' ' : '';
+  return symbol.side === 'before' ? symbol.text + space + number : number + space + symbol.text;
+}
