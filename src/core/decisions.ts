@@ -7,7 +7,10 @@ import { draftColumn, levelsOverLimit, refitColumn, SET_BY_HAND } from './fit.ts
 import { inferLevel } from './infer.ts';
 import { wideDraftNote } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
+import { LevelwiseError } from './errors.ts';
+import { sameNumberFormat } from './numbers.ts';
 import type { ColumnProfile } from './profile.ts';
+import { NumberFormat } from './recipe.ts';
 import type {
   CategoricalMissing,
   ContinuousMissing,
@@ -40,6 +43,7 @@ export type Decision =
   | { readonly type: 'set-continuous-missing'; readonly column: string; readonly missing: ContinuousMissing }
   | { readonly type: 'set-unseen'; readonly column: string; readonly unseen: UnseenPolicy }
   | { readonly type: 'set-invalid'; readonly column: string; readonly invalid: 'missing' | 'error' }
+  | { readonly type: 'set-number-format'; readonly column: string; readonly format: NumberFormat }
   | { readonly type: 'set-other-label'; readonly column: string; readonly label: string }
   | { readonly type: 'set-naming'; readonly naming: Recipe['naming'] };
 
@@ -99,9 +103,33 @@ function changeColumn(column: ColumnRecipe, d: Exclude<Decision, { type: 'set-na
       return column.level === 'binary' && d.unseen === 'other' ? column : { ...column, unseen: d.unseen };
     case 'set-invalid':
       return column.level === 'continuous' ? { ...column, invalid: d.invalid } : column;
+    case 'set-number-format':
+      return column.level === 'continuous' ? { ...column, format: numberFormatFor(d.format, profile) } : column;
     case 'set-other-label':
       return isCategorical(column) && d.label.trim() !== '' ? { ...column, otherLabel: d.label } : column;
   }
+}
+
+/**
+ * A format the column's profile can be read again in: a text column's levels can be, in any
+ * format; a column stored as numbers (every cell plain decimal text) keeps no levels, so only the
+ * format it was profiled in fits it.
+ */
+function numberFormatFor(format: NumberFormat, profile: ColumnProfile): NumberFormat {
+  const parsed = NumberFormat.safeParse(format);
+  if (!parsed.success) {
+    const symbol = format.symbol?.text ?? '';
+    throw new LevelwiseError('bad-number-format', `“${symbol}” cannot be the symbol of “${profile.name}”'s numbers: ${parsed.error.issues[0]?.message ?? 'not a number format'}.`, {
+      hint: 'Give the sign or unit as it is written beside the numbers, without the number or spaces: “€”, “%”, “kg”.',
+    });
+  }
+  const profiled = profile.numeric?.format;
+  if (profile.levels === null && (profiled === undefined || !sameNumberFormat(profiled, format))) {
+    throw new LevelwiseError('number-format-fixed', `The numbers of “${profile.name}” are all plain decimal numbers; they cannot be read in another format.`, {
+      hint: 'Only a column with text among its numbers (“1.234,5”, “12 %”, “€ 5”) has a format to choose.',
+    });
+  }
+  return parsed.data;
 }
 
 function isCategorical(column: ColumnRecipe): column is Extract<ColumnRecipe, { level: 'nominal' | 'ordinal' | 'binary' }> {

@@ -7,7 +7,8 @@ import { cleanLevels } from './cleaning.ts';
 import { inferLevel, type Inference } from './infer.ts';
 import { MAX_CATEGORICAL_LEVELS, WIDE_DRAFT_KEEP_TOP, tooManyLevelsError, wideDraftNote } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
-import type { ColumnProfile, LevelCount } from './profile.ts';
+import { sameNumberFormat } from './numbers.ts';
+import { numericSummaryIn, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
 import {
   DEFAULT_MISSING_TOKENS,
   RECIPE_KIND,
@@ -20,6 +21,7 @@ import {
   type FittedLevel,
   type MeasurementLevel,
   type NominalColumn,
+  type NumberFormat,
   type OrdinalColumn,
   type Recipe,
 } from './recipe.ts';
@@ -165,11 +167,32 @@ export function refitColumn<C extends ColumnRecipe>(column: C, profile: ColumnPr
 }
 
 function refitContinuous(column: ContinuousColumn, profile: ColumnProfile): ContinuousColumn {
-  const n = profile.numeric;
+  const n = numbersInFormat(profile, column.format);
   const fitted = n
     ? { count: n.count, mean: n.mean, sd: n.sd, min: n.min, max: n.max, median: n.median }
     : { count: 0, mean: 0, sd: 0, min: 0, max: 0, median: 0 };
-  return { ...column, format: n?.format ?? column.format, fitted };
+  return { ...column, fitted };
+}
+
+/**
+ * The profile as a column's decisions read it: a continuous column's numbers in the format the
+ * person chose, for the page to show what the recipe will read.
+ */
+export function profileAsDecided(profile: ColumnProfile, column: ColumnRecipe): ColumnProfile {
+  if (column.level !== 'continuous') return profile;
+  const numeric = numbersInFormat(profile, column.format);
+  return numeric === profile.numeric ? profile : { ...profile, numeric };
+}
+
+/**
+ * The profile's numbers in the column's format: as profiled when the formats agree, read again
+ * from the levels when the person chose another format (a column stored as numbers keeps no
+ * levels; decisions.ts refuses another format for it).
+ */
+export function numbersInFormat(profile: ColumnProfile, format: NumberFormat): NumericSummary | null {
+  const n = profile.numeric;
+  if (profile.levels === null || (n !== null && sameNumberFormat(n.format, format))) return n;
+  return numericSummaryIn(profile, format);
 }
 
 

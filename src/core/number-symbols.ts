@@ -123,9 +123,11 @@ export function withoutSymbol(text: string, symbol: NumberSymbol): string {
   return text.slice(0, signEnd) + text.slice(at);
 }
 
-/** How a number is shown with its symbol: "€1,234.5", "12.5%", "12,50 EUR" (a letter symbol keeps a space). */
+/** How a number is shown with its symbol: "€1,234.5", "-€5", "12.5%", "12,50 EUR" (a letter symbol keeps a space). */
 export function withSymbol(number: string, symbol: NumberSymbol | undefined): string {
   if (symbol === undefined) return number;
   const space = /\p{L}/u.test(symbol.text) ? ' ' : '';
-  return symbol.side === 'before' ? symbol.text + space + number : number + space + symbol.text;
+  if (symbol.side === 'after') return number + space + symbol.text;
+  const signed = number.startsWith('-') || number.startsWith('+');
+  return signed ? number[0] + symbol.text + space + number.slice(1) : symbol.text + space + number;
 }

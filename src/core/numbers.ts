@@ -46,6 +46,11 @@ export function parseNumber(text: string, format: NumberFormat): number {
   return numberReader(format)(text);
 }
 
+/** Whether two formats read every text alike: same separators, same symbol on the same side. */
+export function sameNumberFormat(a: NumberFormat, b: NumberFormat): boolean {
+  return a.decimal === b.decimal && a.group === b.group && a.symbol?.text === b.symbol?.text && a.symbol?.side === b.symbol?.side;
+}
+
 /** A parser for one format, compiled once; call it once per distinct value. */
 export function numberReader(format: NumberFormat): NumberReader {
   const key = format.decimal + format.group + (format.symbol === undefined ? '' : `${format.symbol.side} ${format.symbol.text}`);

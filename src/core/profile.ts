@@ -33,8 +33,9 @@ export interface NumericSummary {
   /**
    * The first of them (at most 100): 0-based data row and raw text; `line` is the 1-based line of
    * the file the row starts on, filled in by profileTable (a lone column does not know its lines).
+   * No row when the summary was read again from the levels in another format (numericSummaryIn).
    */
-  readonly invalidExamples: readonly { readonly row: number; readonly text: string; readonly line?: number }[];
+  readonly invalidExamples: readonly { readonly row?: number; readonly text: string; readonly line?: number }[];
   /**
    * Equal-width histogram over [min, max]: HISTOGRAM_BINS bins (edges has one more entry), the
    * last bin closed on the right. When min = max there is a single bin holding every number.
@@ -175,7 +176,7 @@ function withInvalidLines(profile: ColumnProfile, lineOfRow: Uint32Array): Colum
   const numeric = profile.numeric;
   if (numeric === null || numeric.invalidExamples.length === 0) return profile;
   const invalidExamples = numeric.invalidExamples.map((e) => {
-    const line = lineOfRow[e.row];
+    const line = e.row === undefined ? undefined : lineOfRow[e.row];
     return line === undefined ? e : { ...e, line };
   });
   return { ...profile, numeric: { ...numeric, invalidExamples } };
@@ -291,12 +292,54 @@ function summarizeTextNumbers(
   const mayBeCandidate = mayBeNumberIn(fixedFormat);
   const candidates = levels.filter((level) => mayBeCandidate(level.value));
   const format = fixedFormat ?? detectNumberFormat(candidates);
+  const read = readLevelNumbers(levels, format, candidates.length);
+  if (read.found === 0) return null;
+  let invalidRows: NumericSummary['invalidExamples'] = [];
+  if (read.invalidCount > 0) {
+    const invalid = new Uint8Array(column.values.length);
+    for (let i = 0; i < levels.length; i++) if (read.isInvalid[i] === 1) invalid[codes[i] ?? 0] = 1;
+    invalidRows = firstInvalidRows(column, invalid);
+  }
+  return summarizeLevelNumbers(read, format, nonMissing, invalidRows);
+}
+
+/**
+ * The numeric summary of a text column's profile read in another format, from its levels alone
+ * (pure: no table needed), as profileColumn with that format gives it, except for the examples of
+ * cells that do not read: one per distinct text, most frequent first, naming no row (the levels
+ * do not know their rows).
+ * For a profile without levels (a column stored as numbers) there is nothing to read again: throws.
+ */
+export function numericSummaryIn(profile: ColumnProfile, format: NumberFormat): NumericSummary | null {
+  const levels = profile.levels;
+  if (levels === null) throw new Error(`numericSummaryIn: the profile of "${profile.name}" keeps no levels to read again`);
+  const read = readLevelNumbers(levels, format, levels.length);
+  if (read.found === 0) return null;
+  const examples: { row?: number; text: string }[] = [];
+  for (let i = 0; i < levels.length && examples.length < MAX_INVALID_EXAMPLES; i++) {
+    if (read.isInvalid[i] === 1) examples.push({ text: levels[i]!.value });
+  }
+  return summarizeLevelNumbers(read, format, profile.count - profile.missing, examples);
+}
+
+/** The numbers a column's levels hold in one format, weighted by their counts, and which levels hold none. */
+interface LevelNumbers {
+  readonly numbers: Float64Array;
+  readonly weights: Float64Array;
+  readonly found: number;
+  readonly invalidCount: number;
+  readonly leadingZeros: number;
+  /** 1 for each level (by index) that does not read as a number. */
+  readonly isInvalid: Uint8Array;
+}
+
+/** `capacity`: at least the levels that may read (room for those only: an identifier column's million levels need none). */
+function readLevelNumbers(levels: readonly LevelCount[], format: NumberFormat, capacity: number): LevelNumbers {
   const read = numberReader(format);
   const mayRead = mayBeNumberIn(format);
-  // Room for the levels that may be numbers only: an identifier column's million levels need none.
-  const numbers = new Float64Array(candidates.length);
-  const weights = new Float64Array(candidates.length);
-  const invalid = new Uint8Array(column.values.length);
+  const numbers = new Float64Array(capacity);
+  const weights = new Float64Array(capacity);
+  const isInvalid = new Uint8Array(levels.length);
   let found = 0;
   let invalidCount = 0;
   let leadingZeros = 0;
@@ -304,7 +347,7 @@ function summarizeTextNumbers(
     const { value: text, count } = levels[i]!;
     const value = mayRead(text) ? read(text) : NaN;
     if (Number.isNaN(value)) {
-      invalid[codes[i] ?? 0] = 1;
+      isInvalid[i] = 1;
       invalidCount += count;
     } else {
       numbers[found] = value;
@@ -312,14 +355,14 @@ function summarizeTextNumbers(
       if (hasLeadingZero(text)) leadingZeros += count;
     }
   }
-  if (found === 0) return null;
-  return summarize(runsFromPairs(numbers.subarray(0, found), weights.subarray(0, found)), {
-    format,
-    nonMissing,
-    invalidCount,
-    invalidExamples: invalidCount > 0 ? firstInvalidRows(column, invalid) : [],
-    leadingZeros,
-  });
+  return { numbers, weights, found, invalidCount, leadingZeros, isInvalid };
+}
+
+function summarizeLevelNumbers(
+  read: LevelNumbers, format: NumberFormat, nonMissing: number, invalidExamples: NumericSummary['invalidExamples'],
+): NumericSummary {
+  const { numbers, weights, found, invalidCount, leadingZeros } = read;
+  return summarize(runsFromPairs(numbers.subarray(0, found), weights.subarray(0, found)), { format, nonMissing, invalidCount, invalidExamples, leadingZeros });
 }
 
 /** The first invalid cells in row order: one scan over the codes, stopping at the cap. */
@@ -581,7 +624,7 @@ interface SummaryContext {
   readonly format: NumberFormat;
   readonly nonMissing: number;
   readonly invalidCount: number;
-  readonly invalidExamples: readonly { readonly row: number; readonly text: string }[];
+  readonly invalidExamples: NumericSummary['invalidExamples'];
   readonly leadingZeros: number;
 }
 

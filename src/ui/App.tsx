@@ -5,6 +5,7 @@
  */
 import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import type { ApplyReport } from '../core/apply-report.ts';
+import { profileAsDecided } from '../core/fit.ts';
 import { forecastWidth } from '../core/width.ts';
 import { DEMO_NOTE } from '../demo/household-energy.ts';
 import { AboutBox } from './about/AboutBox.tsx';
@@ -47,7 +48,16 @@ export function App() {
   const showReport = useCallback((report: ApplyReport, fileName: string) => setShownReport({ report, fileName }), []);
   const takeAway = useTakeAway({ client: wb.client, run: wb.run, notify: wb.notify, showReport });
 
-  const profile = table?.profiles.find((p) => p.name === selected) ?? null;
+  // Profiles as the recipe reads them: a continuous column's numbers in the format chosen for it.
+  const profiles = useMemo(() => {
+    if (!table) return [];
+    const byName = new Map(recipe?.columns.map((c) => [c.name, c]));
+    return table.profiles.map((p) => {
+      const decided = byName.get(p.name);
+      return decided ? profileAsDecided(p, decided) : p;
+    });
+  }, [table, recipe]);
+  const profile = profiles.find((p) => p.name === selected) ?? null;
   const column = recipe?.columns.find((c) => c.name === selected) ?? null;
   const forecast = useMemo(() => (recipe ? forecastWidth(recipe) : null), [recipe]);
   const isDemo = table !== null && wb.lastFile === null;
@@ -116,7 +126,7 @@ export function App() {
           </h2>
           <div className="pane-scroll">
             {table && recipe ? (
-              <ColumnList profiles={[...table.profiles]} recipe={recipe} selected={selected} onSelect={(name) => (setSelected(name), setTab('column'))} />
+              <ColumnList profiles={profiles} recipe={recipe} selected={selected} onSelect={(name) => (setSelected(name), setTab('column'))} />
             ) : (
               <p className="muted pane-empty">{wb.task ? 'Reading…' : 'Open a file to see its columns.'}</p>
             )}

@@ -243,7 +243,8 @@ describe('formatNumber', () => {
   it('writes the symbol on its side, a letter symbol apart from the number', () => {
     expect(formatNumber(1234.5, EURO_BEFORE)).toBe('€1.234,5');
     expect(formatNumber(12.5, PERCENT)).toBe('12.5%');
-    expect(formatNumber(-1250.75, FRANCS)).toBe('CHF -1,250.75');
+    expect(formatNumber(-1250.75, FRANCS)).toBe('-CHF 1,250.75');
+    expect(formatNumber(-5, EURO_BEFORE)).toBe('-€5');
     expect(formatNumber(3, KILOGRAMS)).toBe('3 kg');
   });
 

@@ -464,6 +464,29 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await expect.poll(() => previewCell(rows - 1, 'id'), { timeout: 15_000 }).toBe(`S-${rows}`);
   });
 
+  it('reads prices written with a euro sign, and a misread number format is corrected in the page', async () => {
+    // An invented price list: euro prices with decimal commas; weights with decimal commas too, the
+    // first two of which ("1,234", "5,678") the draft reads as thousands (numbers.ts: ties go to the point).
+    const weights = ['1,234', '5,678', '12', '7', '3', '9', '4', '8', '6', '10', '11', '2'];
+    const prices = ['€ 1.234,50', '€ 19,99', '-€ 4,50', '€ 7', '€ 250', '€ 99,90', '€ 12,00', '€ 7,25', '€ 1.000', '€ 30', '€ 45,10', '€ 2'];
+    const rows = prices.map((price, i) => `P${i + 1};${price};${weights[i]}`);
+    await dropFile('prices (invented).csv', `item;price;weight\n${rows.join('\n')}\n`);
+    await waitForFile('prices (invented).csv', 12);
+    await chooseColumn('price');
+    await expect.poll(() => page.locator('.lw-editor').textContent()).toContain('12 of 12 values read as numbers written with "€" (100%)');
+    expect(await previewCell(0, 'price')).toBe('1234.5');
+    expect(await previewCell(2, 'price')).toBe('-4.5');
+    await chooseColumn('weight');
+    expect(await previewCell(0, 'weight')).toBe('1234');
+    await page.getByLabel('Decimal separator').selectOption(',');
+    await page.getByLabel('Digit groups').selectOption('');
+    await page.getByRole('button', { name: 'Read in this format' }).click();
+    await expect.poll(() => previewCell(0, 'weight')).toBe('1.234');
+    expect(await previewCell(1, 'weight')).toBe('5.678');
+    expect(await page.getByRole('button', { name: /Undo/ }).getAttribute('title')).toMatch(/weight: numbers written like 1234,5/);
+    await shot('number-format');
+  });
+
   it('raised no script errors and sent nothing beyond localhost', () => {
     expect(pageErrors).toEqual([]);
     const outside = requests.filter((url) => !url.startsWith(app.url) && !url.startsWith('blob:') && !url.startsWith('data:'));

@@ -72,10 +72,10 @@ function numbersLine(p: ColumnProfile, table: Table): string {
  * '"n/a" (lines 5, 9), "x" (line 7), …': the first texts that are not numbers, each with the lines
  * it was seen on (core keeps the first few cells; the dots say there are more).
  */
-function strayText(examples: readonly { row: number; text: string; line?: number }[], total: number, table: Table): string {
+function strayText(examples: readonly { row?: number; text: string; line?: number }[], total: number, table: Table): string {
   const byText = new Map<string, number[]>();
   for (const e of examples) {
-    const line = e.line ?? table.lineOfRow[e.row];
+    const line = e.line ?? (e.row === undefined ? undefined : table.lineOfRow[e.row]);
     const lines = byText.get(e.text) ?? [];
     if (line !== undefined) lines.push(line);
     byText.set(e.text, lines);

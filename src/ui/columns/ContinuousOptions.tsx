@@ -5,6 +5,7 @@ import { formatNumber } from '../../core/numbers.ts';
 import type { ContinuousColumn } from '../../core/recipe.ts';
 import { ChoiceGroup, Panel, SelectField, ToggleField } from './fields.tsx';
 import { formatCount, formatValue } from './labels.ts';
+import { NumberFormatForm } from './NumberFormatForm.tsx';
 
 export interface ContinuousOptionsProps {
   readonly profile: ColumnProfile;
@@ -38,6 +39,10 @@ export function ContinuousOptions({ profile, column, onDecide }: ContinuousOptio
           <Stat term="median" value={formatValue(fitted.median)} />
           <Stat term="maximum" value={formatValue(fitted.max)} />
         </dl>
+      </Panel>
+      <Panel title="Number format">
+        {/* Keyed by the format, so an undo or another column starts the form from the recipe again. */}
+        <NumberFormatForm key={`${name} ${JSON.stringify(column.format)}`} profile={profile} column={column} onDecide={onDecide} />
       </Panel>
       <Panel title="Missing and unreadable cells">
         <SelectField
@@ -87,8 +92,14 @@ function invalidHint(profile: ColumnProfile): string {
   if (!numeric || numeric.invalidCount === 0) return 'Every filled cell of this file reads as a number.';
   const examples = numeric.invalidExamples
     .slice(0, 3)
-    .map((e) => `“${e.text}” (${e.line === undefined ? `row ${formatCount(e.row + 1)}` : `line ${formatCount(e.line)}`})`)
+    .map((e) => `“${e.text}”${placeOf(e)}`)
     .join(', ');
   const cells = numeric.invalidCount === 1 ? 'cell does' : 'cells do';
   return `${formatCount(numeric.invalidCount)} ${cells} not read as numbers here, e.g. ${examples}.`;
+}
+
+/** " (line 12)", or " (row 12)" for a lone column; nothing when read again in another format (no rows known). */
+function placeOf(example: { readonly row?: number; readonly line?: number }): string {
+  if (example.line !== undefined) return ` (line ${formatCount(example.line)})`;
+  return example.row === undefined ? '' : ` (row ${formatCount(example.row + 1)})`;
 }

@@ -1,5 +1,6 @@
 /** A decision in a few words, for the undo/redo buttons and the list of replayed decisions. */
 import type { Decision } from '../../core/decisions.ts';
+import { formatNumber } from '../../core/numbers.ts';
 
 const NOMINAL_CODING = { 'one-hot': 'one-hot', dummy: 'dummy coding', effect: 'effect coding', frequency: 'frequency coding' } as const;
 const ORDINAL_CODING = { rank: 'ranks', scores: 'custom scores', cumulative: 'cumulative coding' } as const;
@@ -49,6 +50,8 @@ function whatChanged(decision: Exclude<Decision, { type: 'set-naming' }>): strin
       return `unreadable numbers: ${decision.invalid === 'missing' ? 'treated as missing' : 'rejected'}`;
     case 'set-other-label':
       return `other level named “${decision.label}”`;
+    case 'set-number-format':
+      return `numbers written like ${formatNumber(1234.5, decision.format)}`;
   }
 }
 

@@ -1,0 +1,138 @@
+/**
+ * How a continuous column's numbers are written: decimal separator, digit groups, and a currency
+ * or percent sign beside them. The draft detects it; a person corrects it here when the numbers
+ * were misread ("1.234" meant one thousand two hundred thirty-four) or a unit was not recognised.
+ */
+import { useId, useState, type FormEvent } from 'react';
+import type { Decision } from '../../core/decisions.ts';
+import { formatNumber } from '../../core/numbers.ts';
+import { NumberFormat, type ContinuousColumn } from '../../core/recipe.ts';
+import type { ColumnProfile } from '../../core/profile.ts';
+import './NumberFormatForm.css';
+
+export interface NumberFormatFormProps {
+  readonly profile: ColumnProfile;
+  readonly column: ContinuousColumn;
+  readonly onDecide: (d: Decision) => void;
+}
+
+type Decimal = NumberFormat['decimal'];
+type Group = NumberFormat['group'];
+type Side = 'before' | 'after';
+
+interface Draft {
+  readonly decimal: Decimal;
+  readonly group: Group;
+  readonly symbol: string;
+  readonly side: Side;
+}
+
+const DECIMALS: readonly { value: Decimal; label: string }[] = [
+  { value: '.', label: 'point (12.5)' },
+  { value: ',', label: 'comma (12,5)' },
+];
+const GROUPS: readonly { value: Group; label: string }[] = [
+  { value: '', label: 'none (1234)' },
+  { value: ',', label: 'comma (1,234)' },
+  { value: '.', label: 'point (1.234)' },
+  { value: ' ', label: 'space (1 234)' },
+];
+
+function draftOf(format: NumberFormat): Draft {
+  return { decimal: format.decimal, group: format.group, symbol: format.symbol?.text ?? '', side: format.symbol?.side ?? 'after' };
+}
+
+/** The draft as a format, or the reason it is not one. */
+function formatOf(draft: Draft): { ok: true; format: NumberFormat } | { ok: false; message: string } {
+  const symbol = draft.symbol.trim();
+  const candidate = { decimal: draft.decimal, group: draft.group, ...(symbol === '' ? {} : { symbol: { text: symbol, side: draft.side } }) };
+  const parsed = NumberFormat.safeParse(candidate);
+  if (parsed.success) return { ok: true, format: parsed.data };
+  return { ok: false, message: `“${symbol}” cannot stand beside the numbers: ${parsed.error.issues[0]?.message ?? 'not a symbol'}.` };
+}
+
+export function NumberFormatForm({ profile, column, onDecide }: NumberFormatFormProps) {
+  const id = useId();
+  const [draft, setDraft] = useState<Draft>(() => draftOf(column.format));
+  const [error, setError] = useState<string | null>(null);
+  // A column stored as plain numbers keeps no levels to read again (core decisions.ts refuses it).
+  const fixed = profile.levels === null;
+  const chosen = formatOf(draft);
+
+  const submit = (event: FormEvent) => {
+    event.preventDefault();
+    if (!chosen.ok) {
+      setError(chosen.message);
+      return;
+    }
+    setError(null);
+    onDecide({ type: 'set-number-format', column: column.name, format: chosen.format });
+  };
+
+  const select = <T extends string>(key: 'decimal' | 'group' | 'side', label: string, choices: readonly { value: T; label: string }[]) => (
+    <div className="lw-numfmt__field">
+      <label htmlFor={`${id}-${key}`} className="lw-field__label">
+        {label}
+      </label>
+      <select
+        id={`${id}-${key}`}
+        className="lw-field__select"
+        value={draft[key]}
+        disabled={fixed}
+        onChange={(event) => setDraft({ ...draft, [key]: event.target.value })}
+      >
+        {choices.map((choice) => (
+          <option key={choice.value} value={choice.value}>
+            {choice.label}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+
+  if (fixed) {
+    return <p className="lw-field__hint">Every filled cell is a plain decimal number (“1234.5”): there is no other format to read it in.</p>;
+  }
+  return (
+    <form className="lw-numfmt" onSubmit={submit} aria-label="Number format" noValidate>
+      <div className="lw-numfmt__fields">
+        {select('decimal', 'Decimal separator', DECIMALS)}
+        {select('group', 'Digit groups', GROUPS)}
+        <div className="lw-numfmt__field">
+          <label htmlFor={`${id}-symbol`} className="lw-field__label">
+            Sign or unit
+          </label>
+          <input
+            id={`${id}-symbol`}
+            className="lw-field__input lw-numfmt__symbol"
+            type="text"
+            placeholder="none"
+            maxLength={8}
+            value={draft.symbol}
+            aria-invalid={error !== null}
+            aria-describedby={error !== null ? `${id}-error` : undefined}
+            onChange={(event) => setDraft({ ...draft, symbol: event.target.value })}
+          />
+        </div>
+        {select('side', 'Written', [
+          { value: 'before' as const, label: 'before the number' },
+          { value: 'after' as const, label: 'after the number' },
+        ])}
+      </div>
+      <p className="lw-field__hint">
+        {chosen.ok ? `Read like ${formatNumber(-1234.5, chosen.format)}. ` : ''}
+        The sign or unit may be left out in a cell; “12 %” is read as 12.
+      </p>
+      {error !== null ? (
+        <p className="lw-field__error" id={`${id}-error`} role="alert">
+          {error}
+        </p>
+      ) : null}
+      <div className="lw-numfmt__actions">
+        <button type="submit" className="lw-button lw-button--primary">
+          Read in this format
+        </button>
+      </div>
+    </form>
+  );
+}
