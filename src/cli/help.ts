@@ -43,13 +43,15 @@ Profiles FILE and writes the recipe Levelwise proposes, changed by your choices,
   --set COLUMN=LEVEL[:CODING]  level: continuous, nominal, ordinal, binary, identifier, excluded;
                                coding: nominal one-hot|dummy|effect|frequency,
                                ordinal rank|scores|cumulative, continuous none|z-score|min-max
+  --numbers COLUMN=EXAMPLE     how a continuous column writes its numbers, shown by writing 1234.5
+                               that way: "1.234,5", "1 234.5", "€ 1.234,50", "1234.5 %", "1234.5 kg"
   --reference COLUMN=LEVEL     reference level of a nominal column (dummy and effect coding)
   --positive COLUMN=LEVEL      the level coded 1 in a binary column
   --order COLUMN=A,B,C         order of an ordinal column's levels, lowest first (\\, for a comma)
   --keep-top COLUMN=N          keep the N most frequent levels; the rest join the other level
   --naming readable|safe       output names like "heating=heat pump" or "heating__heat_pump"
 Options that name a column may be given several times. They apply in this order:
---set, --keep-top, --order, --reference, --positive, --naming.
+--set, --numbers, --keep-top, --order, --reference, --positive, --naming.
 
 ${READING}
 ${EXIT_CODES}

@@ -9,6 +9,18 @@
  */
 import type { NumberSymbol } from './recipe.ts';
 
+/**
+ * What a symbol may be: no digit, and no white space, sign, point or comma at either end (they
+ * would eat into the number beside it); at most SYMBOL_MAX_LENGTH characters. recipe.ts's schema
+ * uses the same rule (kept here so the readers need not load the schema library).
+ */
+export const SYMBOL_TEXT = /^[^\s\d+\-.,](?:\D*[^\s\d+\-.,])?$/u;
+export const SYMBOL_MAX_LENGTH = 8;
+
+export function isSymbolText(text: string): boolean {
+  return text.length <= SYMBOL_MAX_LENGTH && SYMBOL_TEXT.test(text);
+}
+
 /** Longest first, so "US$" is found before "$". */
 const KNOWN_SYMBOLS: readonly string[] = [
   'US$', 'CA$', 'AU$', 'NZ$', 'HK$', 'R$', 'A$', 'C$',

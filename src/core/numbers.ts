@@ -7,7 +7,7 @@
  * format "$12", "45%" and "12 kg" do not read; "n/a", "0x1F", "Infinity" and anything that
  * overflows to ±Infinity ("1e309") never do. Such cells are reported, never guessed at.
  */
-import { commonSymbol, knownSymbolOf, withoutSymbol, withSymbol } from './number-symbols.ts';
+import { commonSymbol, isSymbolText, knownSymbolOf, withoutSymbol, withSymbol } from './number-symbols.ts';
 import type { NumberFormat } from './recipe.ts';
 
 /** Numbers as JavaScript writes them: point for decimals, no digit grouping. */
@@ -145,4 +145,37 @@ function groupDigits(digits: string, separator: string): string {
 /** True when a number's text starts with a zero followed by more digits ("007", "-01"): a code, not a quantity. */
 export function hasLeadingZero(text: string): boolean {
   return /^[+-]?0\d/.test(text.trim());
+}
+
+/** One thousand two hundred thirty-four and a half as a format writes it: 1, a group, 234, the decimal, 5 (or 50). */
+const EXAMPLE_NUMBER = /^1([,. \u00a0\u202f]?)234([.,])50?$/u;
+
+/**
+ * The format in which `example` writes 1234.5, for a person to say how a column writes its
+ * numbers by writing that one number: "1.234,5", "1 234.5", "€ 1.234,50", "1234.5 %". A sign or
+ * unit may stand before or after it (not both). Null when `example` is not 1234.5 in any format,
+ * or its symbol could not be one (number-symbols.ts isSymbolText).
+ */
+export function formatFromExample(example: string): NumberFormat | null {
+  const t = example.trim();
+  const first = t.search(/\d/u);
+  if (first === -1) return null;
+  let last = t.length - 1;
+  while (last > first && !/\d/u.test(t[last]!)) last--;
+  const match = EXAMPLE_NUMBER.exec(t.slice(first, last + 1));
+  if (match === null) return null;
+  const [, groupMark = '', decimal = '.'] = match;
+  const group = groupMark === '' ? '' : /\s/u.test(groupMark) ? ' ' : groupMark;
+  if (group === decimal) return null;
+  const before = trimSymbolSpaces(t.slice(0, first));
+  const after = trimSymbolSpaces(t.slice(last + 1));
+  if (before !== '' && after !== '') return null;
+  const format = { decimal: decimal as NumberFormat['decimal'], group: group as NumberFormat['group'] };
+  if (before === '' && after === '') return format;
+  const text = before || after;
+  return isSymbolText(text) ? { ...format, symbol: { text, side: before !== '' ? 'before' : 'after' } } : null;
+}
+
+function trimSymbolSpaces(text: string): string {
+  return text.replace(/^[ \u00a0\u202f]+|[ \u00a0\u202f]+$/gu, '');
 }

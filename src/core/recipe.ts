@@ -7,6 +7,7 @@
  * explains every field. The `describe()` texts double as schema documentation.
  */
 import { z } from 'zod';
+import { SYMBOL_MAX_LENGTH, SYMBOL_TEXT } from './number-symbols.ts';
 
 export const RECIPE_KIND = 'levelwise.recipe';
 export const RECIPE_VERSION = 1;
@@ -20,8 +21,8 @@ export const NumberSymbol = z
     text: z
       .string()
       .min(1)
-      .max(8)
-      .regex(/^[^\s\d+\-.,](?:\D*[^\s\d+\-.,])?$/u, 'a symbol holds no digit, and neither starts nor ends with white space, a sign, a point or a comma')
+      .max(SYMBOL_MAX_LENGTH)
+      .regex(SYMBOL_TEXT, 'a symbol holds no digit, and neither starts nor ends with white space, a sign, a point or a comma')
       .describe('The symbol exactly as written, case and all: "€", "%", "US$", "CHF".'),
     side: z.enum(['before', 'after']).describe('before: "€ 12" and "-€12"; after: "12 %" and "12,50 €".'),
   })

@@ -19,7 +19,7 @@ import { draftRecipe } from '../../src/core/fit.ts';
 import { profileTable } from '../../src/core/profile.ts';
 import { readTable } from '../../src/core/read-table.ts';
 import { parseRecipe, stringifyRecipe } from '../../src/core/recipe-io.ts';
-import { DEFAULT_MISSING_TOKENS, type Recipe } from '../../src/core/recipe.ts';
+import { DEFAULT_MISSING_TOKENS, type ContinuousColumn, type Recipe } from '../../src/core/recipe.ts';
 import { compileSql } from '../../src/core/sql.ts';
 import { generateHouseholdEnergyCsv } from '../../src/demo/household-energy.ts';
 import { buildXlsx } from '../e2e/helpers/xlsx.ts';
@@ -85,7 +85,7 @@ describe('help', () => {
   });
   const options: Record<string, string[]> = {
     profile: ['--format text|json', '--output OUT', '--delimiter', '--encoding', '--sheet'],
-    draft: ['--set COLUMN=LEVEL[:CODING]', '--reference COLUMN=LEVEL', '--positive COLUMN=LEVEL', '--order COLUMN=A,B,C', '--keep-top COLUMN=N', '--naming readable|safe'],
+    draft: ['--set COLUMN=LEVEL[:CODING]', '--numbers COLUMN=EXAMPLE', '--reference COLUMN=LEVEL', '--positive COLUMN=LEVEL', '--order COLUMN=A,B,C', '--keep-top COLUMN=N', '--naming readable|safe'],
     apply: ['--output OUT', '--rejects FILE'],
     check: ['--format text|json'],
     sql: ['--table NAME', '--dialect D', 'duckdb (default), postgres, sqlite or ansi', '--rejected flag', '--rejected drop'],
@@ -290,6 +290,33 @@ describe('amounts written with currency and percent signs', () => {
       'P4,7,5,0',
       `P5,30.1,${245 / 12},1`,
     ]);
+  });
+});
+
+describe('draft --numbers: the number format shown by example', () => {
+  // An invented lab sheet: weights with their unit, which the draft does not know, and one bare number.
+  const sheet = file('weights (invented).csv', 'sample,weight\nS1,12 kg\nS2,3.5 kg\nS3,7\nS4,10 kg\nS5,2.5 kg\nS6,1 kg\nS7,4 kg\nS8,8 kg\nS9,6 kg\nS10,9 kg\nS11,11 kg\nS12,5 kg\n');
+
+  it('names a unit the draft does not know, so the column reads as numbers', () => {
+    const run = levelwise(['draft', sheet, '--set', 'weight=continuous', '--numbers', 'weight=1234.5 kg']);
+    expect(run.status).toBe(0);
+    const weight = parsed(text(run.stdout)).columns[1] as ContinuousColumn;
+    expect(weight.format).toEqual({ decimal: '.', group: '', symbol: { text: 'kg', side: 'after' } });
+    // 12 + 3.5 + 7 + 10 + 2.5 + 1 + 4 + 8 + 6 + 9 + 11 + 5 = 79 over 12 samples.
+    expect(weight.fitted).toMatchObject({ count: 12, min: 1, max: 12 });
+    expect(weight.fitted.mean).toBeCloseTo(79 / 12, 12);
+  });
+
+  it('says so when the format given reads fewer numbers than the one detected', () => {
+    const prices = file('euro prices (invented).csv', `item;price\n${Array.from({ length: 12 }, (_, i) => `P${i};€ ${i + 1},50`).join('\n')}\n`);
+    const run = levelwise(['draft', prices, '--numbers', 'price=1234,5']);
+    expect(run.status).toBe(0);
+    expect(run.stderr).toContain('levelwise draft: --numbers price=1234,5: only 0 values read as numbers in this format, against 12 in the format detected.');
+  });
+
+  it('refuses an example that is not 1234.5, and a column that is not continuous, saying what to write', () => {
+    expectOneLineError(levelwise(['draft', sheet, '--numbers', 'weight=12,5']), /--numbers weight=12,5: "12,5" is not the number 1234\.5 written in some format\./);
+    expectOneLineError(levelwise(['draft', sheet, '--numbers', 'sample=1234.5']), /--numbers sample=1234\.5: "sample" is identifier, and --numbers applies to continuous columns\./);
   });
 });
 

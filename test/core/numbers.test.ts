@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   CANDIDATE_NUMBER_FORMATS,
   detectNumberFormat,
+  formatFromExample,
   formatNumber,
   hasLeadingZero,
   parseNumber,
@@ -291,5 +292,27 @@ describe('hasLeadingZero', () => {
     expect(hasLeadingZero('0')).toBe(false);
     expect(hasLeadingZero('0.5')).toBe(false);
     expect(hasLeadingZero('10')).toBe(false);
+  });
+});
+
+describe('formatFromExample: a person writes 1234.5 the way the column does', () => {
+  it.each([
+    ['1234.5', PLAIN],
+    ['1,234.5', COMMA_GROUPS],
+    ['1 234.5', SPACE_GROUPS],
+    [`1\u202f234,5`, DECIMAL_COMMA_SPACE_GROUPS],
+    ['1234,50', DECIMAL_COMMA],
+    ['1.234,5', DECIMAL_COMMA_DOT_GROUPS],
+    ['€ 1.234,50', EURO_BEFORE],
+    ['1234.5%', PERCENT],
+    ['CHF 1,234.5', FRANCS],
+    ['1234.5 kg', KILOGRAMS],
+  ])('%j', (example, format) => expect(formatFromExample(example)).toEqual(format));
+
+  it.each(['12,5', '1234', '1.234.5', '1,234,5', '€ 1234.5 %', '1234.5 5', 'kg', '', '1 2345'])('refuses %j', (example) =>
+    expect(formatFromExample(example)).toBeNull());
+
+  it('property: the example formatNumber writes for 1234.5 gives its format back, in every format', () => {
+    for (const format of [...CANDIDATE_NUMBER_FORMATS, ...SYMBOL_FORMATS, KILOGRAMS]) expect(formatFromExample(formatNumber(1234.5, format))).toEqual(format);
   });
 });

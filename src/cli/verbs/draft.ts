@@ -1,21 +1,24 @@
 /**
- * levelwise draft FILE [-o RECIPE] [--set column=level[:coding]]... [--reference column=level]...
- *   [--positive column=level]... [--order column=a,b,c]... [--keep-top column=N]... [--naming readable|safe]
+ * levelwise draft FILE [-o RECIPE] [--set column=level[:coding]]... [--numbers column=example]...
+ *   [--reference column=level]... [--positive column=level]... [--order column=a,b,c]...
+ *   [--keep-top column=N]... [--naming readable|safe]
  *
  * Profiles FILE, proposes a recipe (core's draftRecipe) and applies the person's choices as core
  * decisions (decide), the same decisions the page makes. The options are applied in a fixed order:
- * --set, --keep-top, --order, --reference, --positive, --naming. A file with a header but no data
+ * --set, --numbers, --keep-top, --order, --reference, --positive, --naming. A file with a header but no data
  * rows is refused: there is nothing to learn from.
  */
 import type { Decision } from '../../core/decisions.ts';
 import { decide } from '../../core/decisions.ts';
-import { draftRecipe } from '../../core/fit.ts';
+import { isLevelwiseError } from '../../core/errors.ts';
+import { draftRecipe, numbersInFormat } from '../../core/fit.ts';
+import { formatFromExample } from '../../core/numbers.ts';
 import { sensitiveAttributeCaution } from '../../core/infer.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import { stringifyRecipe } from '../../core/recipe-io.ts';
-import { DEFAULT_MISSING_TOKENS, LEVELS, type ColumnRecipe, type MeasurementLevel, type Recipe } from '../../core/recipe.ts';
+import { DEFAULT_MISSING_TOKENS, LEVELS, type ColumnRecipe, type ContinuousColumn, type MeasurementLevel, type NumberFormat, type Recipe } from '../../core/recipe.ts';
 import { optionValue, parseArgs, positionals, type ParsedArgs } from '../args.ts';
-import { note, OUTPUT_OPTION, plural, READ_OPTIONS, readSettings } from '../common.ts';
+import { count, note, OUTPUT_OPTION, plural, READ_OPTIONS, readSettings } from '../common.ts';
 import { CliFailure, EXIT, usageFailure, type ExitCode } from '../failure.ts';
 import { inputSource, readWholeTable } from '../input.ts';
 import { openOutput } from '../output.ts';
@@ -36,6 +39,7 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
   const args = parseArgs(VERB, argv, [
     OUTPUT_OPTION,
     { name: 'set', repeatable: true },
+    { name: 'numbers', repeatable: true },
     { name: 'reference', repeatable: true },
     { name: 'positive', repeatable: true },
     { name: 'order', repeatable: true },
@@ -92,22 +96,52 @@ export function applyChoices(start: Recipe, args: ParsedArgs, profiles: readonly
     }
   };
 
+  // The number formats first: a column whose numbers only read in its own format ("12 kg") may be made continuous.
+  const formats = new Map<string, { format: NumberFormat; given: string }>();
+  each('numbers', (column, value, given) => {
+    const format = formatFromExample(value);
+    if (format === null) {
+      throw usageFailure(
+        VERB,
+        `--numbers ${given}: "${value}" is not the number 1234.5 written in some format.`,
+        `Write one thousand two hundred thirty-four and a half the way the column writes its numbers, e.g. --numbers ${column}="1.234,5" or --numbers ${column}="€ 1,234.50" or --numbers ${column}="1234.5 %".`,
+      );
+    }
+    formats.set(column, { format, given });
+  });
+
   each('set', (column, value, given) => {
     const [level = '', coding, ...rest] = value.split(':');
     if (!(LEVELS as readonly string[]).includes(level) || rest.length > 0) {
       throw usageFailure(VERB, `--set ${given}: "${level}" is not a level of measurement.`, `Use one of ${LEVELS.join(', ')}, e.g. --set region=nominal:dummy.`);
     }
     // As in the page, which offers continuous only for a column with numbers in it.
-    if (level === 'continuous' && profiles.find((p) => p.name === column)?.numeric === null) {
+    const profile = profiles.find((p) => p.name === column);
+    const chosen = formats.get(column)?.format;
+    const numbers = profile === undefined ? null : chosen === undefined ? profile.numeric : numbersInFormat(profile, chosen);
+    if (level === 'continuous' && numbers === null) {
       throw usageFailure(
         VERB,
-        `--set ${given}: no value of "${column}" reads as a number, so it cannot be continuous.`,
-        `See its values with "levelwise profile FILE"; numbers written with currency or percent signs are not read yet.`,
+        `--set ${given}: no value of "${column}" reads as a number${chosen === undefined ? '' : ' in the format --numbers gives'}, so it cannot be continuous.`,
+        `See its values with "levelwise profile FILE"; for numbers written with a unit ("12 kg"), give it with --numbers ${column}="1234.5 kg".`,
       );
     }
     apply({ type: 'set-level', column, level: level as MeasurementLevel });
     if (coding !== undefined) apply(codingDecision(column, level as MeasurementLevel, coding, given));
   });
+  for (const [column, { format, given }] of formats) {
+    const current = columnNamed(recipe, column);
+    if (current.level !== 'continuous') throw notLevel('--numbers', given, current, 'continuous');
+    try {
+      apply({ type: 'set-number-format', column, format });
+    } catch (error) {
+      if (isLevelwiseError(error)) throw usageFailure(VERB, `--numbers ${given}: ${error.message}`, error.hint);
+      throw error;
+    }
+    const read = (columnNamed(recipe, column) as ContinuousColumn).fitted.count;
+    const detected = profiles.find((p) => p.name === column)?.numeric?.count ?? 0;
+    if (read < detected) note(VERB, `--numbers ${given}: only ${count(read)} values read as numbers in this format, against ${count(detected)} in the format detected.`);
+  }
   each('keep-top', (column, value, given) => {
     const current = columnNamed(recipe, column);
     const n = Number(value);
