@@ -3,9 +3,10 @@
  * "99,90 €", "CHF 12.50". Finding which one a column uses, so that its format can carry it
  * (recipe.ts NumberSymbol) and numbers.ts can read past it.
  *
- * Only the signs listed here are ever found on their own; a recipe may name any other symbol or
- * unit ("kg"), and numbers.ts reads it the same way. The list is common practice (the ISO 4217
- * codes of the most traded currencies and the signs shop and bank exports print), not a standard.
+ * The signs listed here are found before or after a number; any other unit is found only after
+ * it, by its shape ("12 kg", unitOf); a recipe may name any symbol, and numbers.ts reads it the
+ * same way. The list is common practice (the ISO 4217 codes of the most traded currencies and the
+ * signs shop and bank exports print), not a standard.
  */
 import type { NumberSymbol } from './recipe.ts';
 
@@ -99,11 +100,42 @@ export function knownSymbolOf(text: string): NumberSymbol | null {
   return null;
 }
 
+/**
+ * A unit written after a number ("12 kg", "30 min", "21 °C", "5 km/h", "3 m²"): letters (and
+ * °, ², ³, /) after a digit and optional spaces; or null. Found by shape, not from a list, since
+ * lab sheets and shop exports use any unit; a lone "e" or "E" is an exponent's start, not a unit.
+ */
+export function unitOf(text: string): NumberSymbol | null {
+  const t = text.trim();
+  let start = t.length;
+  while (start > 0 && isUnitCharacter(t.charCodeAt(start - 1), t[start - 1]!)) start--;
+  if (start === t.length || t.length - start > SYMBOL_MAX_LENGTH) return null;
+  const unit = t.slice(start);
+  if (unit === 'e' || unit === 'E' || !isSymbolText(unit)) return null;
+  let at = start - 1;
+  while (at >= 0 && isSymbolSpace(t.charCodeAt(at))) at--;
+  const before = t.charCodeAt(at);
+  return at >= 0 && before >= 0x30 && before <= 0x39 ? { text: unit, side: 'after' } : null;
+}
+
+/** ASCII letters at a glance; other characters by their Unicode category (letters, µ), and ° ² ³ /. */
+function isUnitCharacter(code: number, character: string): boolean {
+  const lower = code | 0x20;
+  if (lower >= 0x61 && lower <= 0x7a) return true;
+  if (code === 0x2f || code === 0xb0 || code === 0xb2 || code === 0xb3) return true;
+  return code >= 0x80 && /\p{L}/u.test(character);
+}
+
+/** A known currency or percent sign (knownSymbolOf), or else a unit after the number (unitOf). */
+export function symbolOf(text: string): NumberSymbol | null {
+  return knownSymbolOf(text) ?? unitOf(text);
+}
+
 /** The symbol most cells of `values` carry (weighted by count) and how many carry it, or null when none carries one. */
 export function commonSymbol(values: readonly { readonly value: string; readonly count: number }[]): { symbol: NumberSymbol; count: number } | null {
   const tally = new Map<string, { symbol: NumberSymbol; count: number }>();
   for (const { value, count } of values) {
-    const symbol = knownSymbolOf(value);
+    const symbol = symbolOf(value);
     if (symbol === null) continue;
     const key = `${symbol.side} ${symbol.text}`;
     const entry = tally.get(key);

@@ -7,7 +7,7 @@
  * format "$12", "45%" and "12 kg" do not read; "n/a", "0x1F", "Infinity" and anything that
  * overflows to ±Infinity ("1e309") never do. Such cells are reported, never guessed at.
  */
-import { commonSymbol, isSymbolText, knownSymbolOf, withoutSymbol, withSymbol } from './number-symbols.ts';
+import { commonSymbol, isSymbolText, symbolOf, withoutSymbol, withSymbol } from './number-symbols.ts';
 import type { NumberFormat } from './recipe.ts';
 
 /** Numbers as JavaScript writes them: point for decimals, no digit grouping. */
@@ -99,7 +99,7 @@ const MIGHT_BE_NUMBER = /^\s*[+-]?[\d.,][\d.,eE+\- \u00A0\u202F]*\s*$/;
  */
 export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
   // Texts no format can read are set aside once, instead of being tried twelve times.
-  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || knownSymbolOf(value) !== null));
+  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || symbolOf(value) !== null));
   const common = commonSymbol(candidates);
   const formats = common === null ? CANDIDATE_NUMBER_FORMATS : [...CANDIDATE_NUMBER_FORMATS, ...CANDIDATE_NUMBER_FORMATS.map((f) => ({ ...f, symbol: common.symbol }))];
   let best = PLAIN_NUMBER_FORMAT;

@@ -294,14 +294,14 @@ describe('amounts written with currency and percent signs', () => {
 });
 
 describe('draft --numbers: the number format shown by example', () => {
-  // An invented lab sheet: weights with their unit, which the draft does not know, and one bare number.
-  const sheet = file('weights (invented).csv', 'sample,weight\nS1,12 kg\nS2,3.5 kg\nS3,7\nS4,10 kg\nS5,2.5 kg\nS6,1 kg\nS7,4 kg\nS8,8 kg\nS9,6 kg\nS10,9 kg\nS11,11 kg\nS12,5 kg\n');
+  // An invented lab sheet: estimated weights written "≈12" (a sign the draft does not know), and one bare number.
+  const sheet = file('weights (invented).csv', 'sample,weight\nS1,≈12\nS2,≈3.5\nS3,7\nS4,≈10\nS5,≈2.5\nS6,≈1\nS7,≈4\nS8,≈8\nS9,≈6\nS10,≈9\nS11,≈11\nS12,≈5\n');
 
-  it('names a unit the draft does not know, so the column reads as numbers', () => {
-    const run = levelwise(['draft', sheet, '--set', 'weight=continuous', '--numbers', 'weight=1234.5 kg']);
+  it('names a sign the draft does not know, so the column reads as numbers', () => {
+    const run = levelwise(['draft', sheet, '--set', 'weight=continuous', '--numbers', 'weight=≈1234.5']);
     expect(run.status).toBe(0);
     const weight = parsed(text(run.stdout)).columns[1] as ContinuousColumn;
-    expect(weight.format).toEqual({ decimal: '.', group: '', symbol: { text: 'kg', side: 'after' } });
+    expect(weight.format).toEqual({ decimal: '.', group: '', symbol: { text: '≈', side: 'before' } });
     // 12 + 3.5 + 7 + 10 + 2.5 + 1 + 4 + 8 + 6 + 9 + 11 + 5 = 79 over 12 samples.
     expect(weight.fitted).toMatchObject({ count: 12, min: 1, max: 12 });
     expect(weight.fitted.mean).toBeCloseTo(79 / 12, 12);

@@ -66,11 +66,11 @@ describe('set-number-format', () => {
     expect(profileAsDecided(profiles[0]!, amountOf(recipe))).toBe(profiles[0]);
   });
 
-  it('a symbol can be added by hand: "12 kg" is read once the unit is named', () => {
-    const weights = drafted(['12 kg', '3.5 kg', '7', '10 kg', '2.5', '1 kg', '4 kg', '8 kg', '6 kg', '9 kg', '11 kg', '5 kg']);
+  it('a symbol can be added by hand: "≈12" (about twelve) is read once the sign is named', () => {
+    const weights = drafted(['≈12', '≈3.5', '7', '≈10', '2.5', '≈1', '≈4', '≈8', '≈6', '≈9', '≈11', '≈5']);
     expect(amountOf(weights.recipe).fitted.count).toBe(2);
-    const kg = { decimal: '.', group: '', symbol: { text: 'kg', side: 'after' } } as const;
-    const amount = amountOf(decide(weights.recipe, { type: 'set-number-format', column: 'amount', format: kg }, weights.profiles));
+    const about = { decimal: '.', group: '', symbol: { text: '≈', side: 'before' } } as const;
+    const amount = amountOf(decide(weights.recipe, { type: 'set-number-format', column: 'amount', format: about }, weights.profiles));
     // 12 + 3.5 + 7 + 10 + 2.5 + 1 + 4 + 8 + 6 + 9 + 11 + 5 = 79 over 12.
     expect(amount.fitted).toMatchObject({ count: 12, min: 1, max: 12 });
     expect(amount.fitted.mean).toBeCloseTo(79 / 12, 12);

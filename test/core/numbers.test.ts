@@ -200,8 +200,17 @@ describe('detectNumberFormat', () => {
     expect(detectNumberFormat(once('1', '2%', '3%', '4%'))).toEqual({ ...PLAIN, symbol: { text: '%', side: 'after' } });
   });
 
-  it('finds only the known signs on its own: a unit such as "kg" is for a recipe to name', () =>
-    expect(detectNumberFormat(once('12 kg', '3.5 kg'))).toEqual(PLAIN));
+  it('finds a unit after the number by its shape ("12 kg", "21 °C", "5 km/h"), any other sign before it only from its list', () => {
+    expect(detectNumberFormat(once('12 kg', '3.5 kg', '7'))).toEqual(KILOGRAMS);
+    expect(detectNumberFormat(once('21,5 °C', '19 °C'))).toEqual({ decimal: ',', group: '', symbol: { text: '°C', side: 'after' } });
+    expect(detectNumberFormat(once('5 km/h', '30 km/h'))).toEqual({ ...PLAIN, symbol: { text: 'km/h', side: 'after' } });
+    expect(detectNumberFormat(once('3 m²', '12.5 m²'))).toEqual({ ...PLAIN, symbol: { text: 'm²', side: 'after' } });
+    expect(detectNumberFormat(once('≈12', '≈3.5'))).toEqual(PLAIN);
+    // An exponent's "e" is no unit; a unit too long, or a text before the digits, is none either.
+    expect(detectNumberFormat(once('1e', '2e', '3'))).toEqual(PLAIN);
+    expect(detectNumberFormat(once('3 kilograms', '4 kilograms'))).toEqual(PLAIN);
+    expect(detectNumberFormat(once('user12ab', 'user13ab'))).toEqual(PLAIN);
+  });
 
   it('ignores values with a zero count and empty texts', () =>
     expect(detectNumberFormat([{ value: '12,5', count: 0 }, { value: '', count: 9 }, { value: '3.5', count: 1 }])).toEqual(PLAIN));
