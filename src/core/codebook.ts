@@ -5,7 +5,8 @@
 import { countText } from './count-text.ts';
 import { codesForColumn, codesOf } from './encoders/index.ts';
 import { transformForColumn } from './encoders/index.ts';
-import type { ColumnRecipe, Recipe } from './recipe.ts';
+import { formatNumber } from './numbers.ts';
+import type { ColumnRecipe, NumberFormat, Recipe } from './recipe.ts';
 
 export interface CodebookEntry {
   readonly output: string;
@@ -41,7 +42,7 @@ function entriesOf(column: ColumnRecipe): CodebookEntry[] {
       const scaling =
         column.scaling === 'z-score' ? `z-score: (x − ${t.center}) / ${t.scale}` : column.scaling === 'min-max' ? `min–max: (x − ${t.center}) / ${t.scale}` : 'as is';
       const fill = t.fill === null ? 'missing rows are rejected' : `missing filled with ${t.fill} (${column.missing.policy}) before scaling`;
-      return withIndicator([at(0, scaling, `${column.name} as a number; ${fill}`)], 'missing indicator');
+      return withIndicator([at(0, scaling, `${column.name} as a number${writtenLike(column.format)}; ${fill}`)], 'missing indicator');
     }
     default:
       return withIndicator(categoricalEntries(column, at), 'missing indicator');
@@ -68,6 +69,12 @@ function categoricalEntries(
     if (column.level === 'binary') meaning += `; 0 = ${codes.levels.filter((l) => l !== label).join(', ') || 'anything else'}`;
     return at(j, encoding, `${meaning}. ${policy}`);
   });
+}
+
+/** How the source writes its numbers, when not plainly ("1234.5"): the reader of the codebook must know "12 %" became 12. */
+function writtenLike(format: NumberFormat): string {
+  if (format.symbol === undefined && format.decimal === '.' && format.group === '') return '';
+  return `, read from text written like ${formatNumber(1234.5, format)}${format.symbol === undefined ? '' : ` (the number as written, without “${format.symbol.text}”)`}`;
 }
 
 function numberText(n: number): string {
