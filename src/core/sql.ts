@@ -430,7 +430,8 @@ function readNumber(trimmed: string, format: NumberFormat, alias: Alias, { sql, 
  */
 function withoutSymbol(trimmed: string, symbol: NumberSymbol, sql: SqlDialect): string {
   const s = sql.text(symbol.text);
-  const k = String(symbol.text.length);
+  // SQL counts characters (code points), JavaScript UTF-16 units: "𝑥" is one character there, two here.
+  const k = String([...symbol.text].length);
   if (symbol.side === 'after') {
     const length = sql.length(trimmed);
     const rest = sql.substring(trimmed, '1', `${length} - ${k}`);
