@@ -123,7 +123,7 @@ export function applyChoices(start: Recipe, args: ParsedArgs, profiles: readonly
       throw usageFailure(
         VERB,
         `--set ${given}: no value of "${column}" reads as a number${chosen === undefined ? '' : ' in the format --numbers gives'}, so it cannot be continuous.`,
-        `See its values with "levelwise profile FILE"; for numbers written with a unit ("12 kg"), give it with --numbers ${column}="1234.5 kg".`,
+        `See its values with "levelwise profile FILE"; for numbers written with a sign the draft does not find ("≈12"), show it with --numbers ${column}="≈1234.5".`,
       );
     }
     apply({ type: 'set-level', column, level: level as MeasurementLevel });
