@@ -8,6 +8,7 @@ import type { Decision } from '../../core/decisions.ts';
 import { formatNumber } from '../../core/numbers.ts';
 import { NumberFormat, type ContinuousColumn } from '../../core/recipe.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
+import { SelectField } from './fields.tsx';
 import './NumberFormatForm.css';
 
 export interface NumberFormatFormProps {
@@ -36,6 +37,11 @@ const GROUPS: readonly { value: Group; label: string }[] = [
   { value: ',', label: 'comma (1,234)' },
   { value: '.', label: 'point (1.234)' },
   { value: ' ', label: 'space (1 234)' },
+];
+
+const SIDES: readonly { value: Side; label: string }[] = [
+  { value: 'before', label: 'before the number' },
+  { value: 'after', label: 'after the number' },
 ];
 
 function draftOf(format: NumberFormat): Draft {
@@ -69,36 +75,15 @@ export function NumberFormatForm({ profile, column, onDecide }: NumberFormatForm
     onDecide({ type: 'set-number-format', column: column.name, format: chosen.format });
   };
 
-  const select = <T extends string>(key: 'decimal' | 'group' | 'side', label: string, choices: readonly { value: T; label: string }[]) => (
-    <div className="lw-numfmt__field">
-      <label htmlFor={`${id}-${key}`} className="lw-field__label">
-        {label}
-      </label>
-      <select
-        id={`${id}-${key}`}
-        className="lw-field__select"
-        value={draft[key]}
-        disabled={fixed}
-        onChange={(event) => setDraft({ ...draft, [key]: event.target.value })}
-      >
-        {choices.map((choice) => (
-          <option key={choice.value} value={choice.value}>
-            {choice.label}
-          </option>
-        ))}
-      </select>
-    </div>
-  );
-
   if (fixed) {
     return <p className="lw-field__hint">Every filled cell is a plain decimal number (“1234.5”): there is no other format to read it in.</p>;
   }
   return (
     <form className="lw-numfmt" onSubmit={submit} aria-label="Number format" noValidate>
       <div className="lw-numfmt__fields">
-        {select('decimal', 'Decimal separator', DECIMALS)}
-        {select('group', 'Digit groups', GROUPS)}
-        <div className="lw-numfmt__field">
+        <SelectField label="Decimal separator" value={draft.decimal} choices={DECIMALS} onChange={(decimal) => setDraft({ ...draft, decimal })} />
+        <SelectField label="Digit groups" value={draft.group} choices={GROUPS} onChange={(group) => setDraft({ ...draft, group })} />
+        <div className="lw-field">
           <label htmlFor={`${id}-symbol`} className="lw-field__label">
             Sign or unit
           </label>
@@ -114,10 +99,7 @@ export function NumberFormatForm({ profile, column, onDecide }: NumberFormatForm
             onChange={(event) => setDraft({ ...draft, symbol: event.target.value })}
           />
         </div>
-        {select('side', 'Written', [
-          { value: 'before' as const, label: 'before the number' },
-          { value: 'after' as const, label: 'after the number' },
-        ])}
+        <SelectField label="Written" value={draft.side} choices={SIDES} onChange={(side) => setDraft({ ...draft, side })} />
       </div>
       <p className="lw-field__hint">
         {chosen.ok ? `Read like ${formatNumber(-1234.5, chosen.format)}. ` : ''}
