@@ -44,7 +44,8 @@ Profiles FILE and writes the recipe Levelwise proposes, changed by your choices,
                                coding: nominal one-hot|dummy|effect|frequency,
                                ordinal rank|scores|cumulative, continuous none|z-score|min-max
   --numbers COLUMN=EXAMPLE     how a continuous column writes its numbers, shown by writing 1234.5
-                               that way: "1.234,5", "1 234.5", "€ 1.234,50", "1234.5 %", "≈1234.5"
+                               that way: "1.234,5", "1 234.5", "€ 1.234,50", "1234.5 %", "≈1234.5";
+                               "(1,234.5)" or "1.234,5-" also say how negatives are written
   --reference COLUMN=LEVEL     reference level of a nominal column (dummy and effect coding)
   --positive COLUMN=LEVEL      the level coded 1 in a binary column
   --order COLUMN=A,B,C         order of an ordinal column's levels, lowest first (\\, for a comma)

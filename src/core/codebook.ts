@@ -73,8 +73,9 @@ function categoricalEntries(
 
 /** How the source writes its numbers, when not plainly ("1234.5"): the reader of the codebook must know "12 %" became 12. */
 function writtenLike(format: NumberFormat): string {
-  if (format.symbol === undefined && format.decimal === '.' && format.group === '') return '';
-  return `, read from text written like ${formatNumber(1234.5, format)}${format.symbol === undefined ? '' : ` (the number as written, without “${format.symbol.text}”)`}`;
+  if (format.symbol === undefined && format.negative === undefined && format.decimal === '.' && format.group === '') return '';
+  const negatives = format.negative === undefined ? '' : ` and ${formatNumber(-1234.5, format)}`;
+  return `, read from text written like ${formatNumber(1234.5, format)}${negatives}${format.symbol === undefined ? '' : ` (the number as written, without “${format.symbol.text}”)`}`;
 }
 
 function numberText(n: number): string {

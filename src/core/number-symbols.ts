@@ -175,3 +175,35 @@ export function withSymbol(number: string, symbol: NumberSymbol | undefined): st
   const signed = number.startsWith('-') || number.startsWith('+');
   return signed ? number[0] + symbol.text + space + number.slice(1) : symbol.text + space + number;
 }
+
+/**
+ * A negative number in the format's other notation, turned into a leading minus: "(1,234.5)" and
+ * "1.234,5-" become "-1,234.5" and "-1.234,5" (spaces just inside the parentheses or before the
+ * minus go too). `text` is trimmed; anything else is returned as it is. A sign already inside
+ * ("(-5)", "-5-") gives two, and then no number.
+ */
+export function withLeadingMinus(text: string, negative: 'parentheses' | 'trailing'): string {
+  const n = text.length;
+  if (n < 2) return text;
+  if (negative === 'parentheses') {
+    if (text.charCodeAt(0) !== 0x28 || text.charCodeAt(n - 1) !== 0x29) return text;
+    return '-' + trimSymbolSpaces(text.slice(1, n - 1));
+  }
+  if (text.charCodeAt(n - 1) !== 0x2d) return text;
+  return '-' + trimSymbolSpaces(text.slice(0, n - 1));
+}
+
+/** `number` (with its symbol) negated in the format's notation: "-5" → "(5)" or "5-". */
+export function inNegativeNotation(number: string, negative: 'parentheses' | 'trailing' | undefined): string {
+  if (negative === undefined || !number.startsWith('-')) return number;
+  const positive = number.slice(1);
+  return negative === 'parentheses' ? `(${positive})` : `${positive}-`;
+}
+
+export function trimSymbolSpaces(text: string): string {
+  let start = 0;
+  let end = text.length;
+  while (start < end && isSymbolSpace(text.charCodeAt(start))) start++;
+  while (end > start && isSymbolSpace(text.charCodeAt(end - 1))) end--;
+  return text.slice(start, end);
+}

@@ -7,7 +7,7 @@
  * format "$12", "45%" and "12 kg" do not read; "n/a", "0x1F", "Infinity" and anything that
  * overflows to ±Infinity ("1e309") never do. Such cells are reported, never guessed at.
  */
-import { commonSymbol, isSymbolText, symbolOf, withoutSymbol, withSymbol } from './number-symbols.ts';
+import { commonSymbol, inNegativeNotation, isSymbolText, symbolOf, trimSymbolSpaces, withLeadingMinus, withoutSymbol, withSymbol } from './number-symbols.ts';
 import type { NumberFormat } from './recipe.ts';
 
 /** Numbers as JavaScript writes them: point for decimals, no digit grouping. */
@@ -48,12 +48,12 @@ export function parseNumber(text: string, format: NumberFormat): number {
 
 /** Whether two formats read every text alike: same separators, same symbol on the same side. */
 export function sameNumberFormat(a: NumberFormat, b: NumberFormat): boolean {
-  return a.decimal === b.decimal && a.group === b.group && a.symbol?.text === b.symbol?.text && a.symbol?.side === b.symbol?.side;
+  return a.decimal === b.decimal && a.group === b.group && a.symbol?.text === b.symbol?.text && a.symbol?.side === b.symbol?.side && a.negative === b.negative;
 }
 
 /** A parser for one format, compiled once; call it once per distinct value. */
 export function numberReader(format: NumberFormat): NumberReader {
-  const key = format.decimal + format.group + (format.symbol === undefined ? '' : `${format.symbol.side} ${format.symbol.text}`);
+  const key = [format.decimal, format.group, format.symbol?.side, format.symbol?.text, format.negative].join('\u0000');
   let reader = readers.get(key);
   if (reader === undefined) {
     reader = compileReader(format);
@@ -73,9 +73,11 @@ function compileReader(format: NumberFormat): NumberReader {
   const integer = grouped ? `(?:\\d{1,3}(?:${group}\\d{3})+|\\d+)` : '\\d+';
   const shape = new RegExp(`^[+-]?(?:${integer}(?:${decimal}\\d+)?|${decimal}\\d+)(?:[eE][+-]?\\d+)?$`);
   const groupGlobal = grouped ? new RegExp(group, 'g') : null;
-  const symbol = format.symbol;
+  const { symbol, negative } = format;
   return (text) => {
-    const t = symbol === undefined ? text.trim() : withoutSymbol(text.trim(), symbol);
+    let t = text.trim();
+    if (negative !== undefined) t = withLeadingMinus(t, negative);
+    if (symbol !== undefined) t = withoutSymbol(t, symbol);
     if (!shape.test(t)) return NaN;
     let js = groupGlobal === null ? t : t.replace(groupGlobal, '');
     if (format.decimal === ',') js = js.replace(',', '.');
@@ -92,22 +94,24 @@ const MIGHT_BE_NUMBER = /^\s*[+-]?[\d.,][\d.,eE+\- \u00A0\u202F]*\s*$/;
  * by count), preferring earlier candidates on ties. A comma decimal is chosen only when it reads
  * strictly more cells than every point-decimal format, i.e. when the column is written that way.
  * The candidates are the six formats, then the same six with the symbol most cells carry, if any
- * does. A symbol is taken only when it makes more cells read and more than half of the cells it
+ * does, then all of these with negatives in parentheses or with a trailing minus, where some cell
+ * is written so (kept, like everything else, only when more cells read). A symbol is taken only when it makes more cells read and more than half of the cells it
  * reads carry it: the column is written that way. One "$12" among plain numbers stays a stray
  * cell, reported, not read (common practice: read what the column means, flag what it does not).
  * Missing cells should be left out by the caller; empty texts are ignored.
  */
 export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
   // Texts no format can read are set aside once, instead of being tried twelve times.
-  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || symbolOf(value) !== null));
+  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || symbolOf(value) !== null || IN_PARENTHESES.test(value)));
   const common = commonSymbol(candidates);
-  const formats = common === null ? CANDIDATE_NUMBER_FORMATS : [...CANDIDATE_NUMBER_FORMATS, ...CANDIDATE_NUMBER_FORMATS.map((f) => ({ ...f, symbol: common.symbol }))];
+  const withSymbols = common === null ? CANDIDATE_NUMBER_FORMATS : [...CANDIDATE_NUMBER_FORMATS, ...CANDIDATE_NUMBER_FORMATS.map((f) => ({ ...f, symbol: common.symbol }))];
+  // Then the other ways of writing negatives, where some cell is written so.
+  const notations = NEGATIVE_NOTATIONS.filter((negative) => candidates.some(({ value }) => NEGATIVE_PATTERNS[negative].test(value)));
+  const formats = [...withSymbols, ...notations.flatMap((negative) => withSymbols.map((f) => ({ ...f, negative })))];
   let best = PLAIN_NUMBER_FORMAT;
   let bestScore = 0;
   for (const format of formats) {
-    const read = numberReader(format);
-    let score = 0;
-    for (const { value, count } of candidates) if (!Number.isNaN(read(value))) score += count;
+    const score = scoreOf(format, candidates);
     if (format.symbol !== undefined && common !== null && 2 * common.count <= score) continue;
     if (score > bestScore) {
       best = format;
@@ -115,6 +119,18 @@ export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
     }
   }
   return best;
+}
+
+const NEGATIVE_NOTATIONS = ['parentheses', 'trailing'] as const;
+const IN_PARENTHESES = /^\s*\(.*\)\s*$/su;
+const NEGATIVE_PATTERNS = { parentheses: IN_PARENTHESES, trailing: /\d\s*-\s*$/u } as const;
+
+/** How many cells (weighted) `format` reads. */
+function scoreOf(format: NumberFormat, values: readonly TextCount[]): number {
+  const read = numberReader(format);
+  let score = 0;
+  for (const { value, count } of values) if (!Number.isNaN(read(value))) score += count;
+  return score;
 }
 
 /**
@@ -130,7 +146,8 @@ export function formatNumber(value: number, format: NumberFormat): string {
   const [, sign = '', integer = '', fraction, exponent] = match;
   const groupChar = format.group === format.decimal ? '' : format.group;
   const grouped = exponent === undefined && groupChar !== '' ? groupDigits(integer, groupChar) : integer;
-  return withSymbol(sign + grouped + (fraction === undefined ? '' : format.decimal + fraction) + (exponent ?? ''), format.symbol);
+  const written = withSymbol(sign + grouped + (fraction === undefined ? '' : format.decimal + fraction) + (exponent ?? ''), format.symbol);
+  return inNegativeNotation(written, format.negative);
 }
 
 function groupDigits(digits: string, separator: string): string {
@@ -157,7 +174,15 @@ const EXAMPLE_NUMBER = /^1([,. \u00a0\u202f]?)234([.,])50?$/u;
  * or its symbol could not be one (number-symbols.ts isSymbolText).
  */
 export function formatFromExample(example: string): NumberFormat | null {
-  const t = example.trim();
+  const trimmed = example.trim();
+  // "(1234.5)" and "1234.5-" show how negative numbers are written as well.
+  const negative = /^\(.*\)$/su.test(trimmed) ? 'parentheses' : /.-$/su.test(trimmed) ? 'trailing' : undefined;
+  const t = negative === undefined ? trimmed : withLeadingMinus(trimmed, negative).slice(1);
+  const format = positiveFormatFromExample(t);
+  return format === null || negative === undefined ? format : { ...format, negative };
+}
+
+function positiveFormatFromExample(t: string): NumberFormat | null {
   const first = t.search(/\d/u);
   if (first === -1) return null;
   let last = t.length - 1;
@@ -176,6 +201,3 @@ export function formatFromExample(example: string): NumberFormat | null {
   return isSymbolText(text) ? { ...format, symbol: { text, side: before !== '' ? 'before' : 'after' } } : null;
 }
 
-function trimSymbolSpaces(text: string): string {
-  return text.replace(/^[ \u00a0\u202f]+|[ \u00a0\u202f]+$/gu, '');
-}

@@ -263,15 +263,17 @@ function sumCounts(entries: readonly LevelCount[]): number {
 }
 
 /**
- * Every text a number format reads starts, once trimmed, with a sign, a digit or a decimal
- * separator (numbers.ts); a text starting with any other printable ASCII character reads as no
+ * Every text a number format reads starts, once trimmed, with a sign, a digit, a decimal
+ * separator or the parenthesis of a negative amount (numbers.ts), or with its format's symbol
+ * (mayBeNumberIn); a text starting with any other printable ASCII character reads as no
  * number in any format, and is set aside without running the readers (an identifier column holds
  * a million such texts).
  */
 function mayBeNumber(text: string): boolean {
   const c = text.charCodeAt(0);
   if (c <= 0x20 || c >= 0x7f) return true; // blanks (trimmed first by the readers) and non-ASCII: ask the reader
-  return (c >= 0x30 && c <= 0x39) || c === 0x2b || c === 0x2d || c === 0x2e || c === 0x2c;
+  // A digit, a sign, a separator, or "(" of a negative amount written in parentheses.
+  return (c >= 0x30 && c <= 0x39) || c === 0x2b || c === 0x2d || c === 0x2e || c === 0x2c || c === 0x28;
 }
 
 /** mayBeNumber, widened for a symbol before the number ("$12", "CHF 5"): the known ones, or the format's own. */

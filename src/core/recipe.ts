@@ -38,6 +38,13 @@ export const NumberFormat = z
     decimal: z.enum(['.', ',']).describe('Decimal separator the column is written with.'),
     group: z.enum(['', ',', '.', ' ']).describe("Digit-group separator accepted and ignored; '' for none."),
     symbol: NumberSymbol.optional(),
+    negative: z
+      .enum(['parentheses', 'trailing'])
+      .optional()
+      .describe(
+        'How negative numbers may also be written, besides a leading minus: parentheses "(1,234.50)", as accounts do, ' +
+          'or a trailing minus "1.234,50-", as some business systems export them. Absent: a leading minus only.',
+      ),
   })
   .strict()
   .describe('How the numbers of a column are written, e.g. "1,234.5", "12,5" or "12,50 €".');

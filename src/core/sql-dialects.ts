@@ -12,7 +12,8 @@
  *   (final sigma, dotted capital I); PostgreSQL follows the database's collation; SQLite's lower()
  *   folds ASCII letters only. Recipes with case-folding over non-ASCII levels can differ there.
  * - Reading numbers: the same shape as numbers.ts (groups of three, decimal point or comma, an
- *   optional exponent, a currency or percent symbol); values that overflow a double are not
+ *   optional exponent, a currency or percent symbol or unit, negatives in parentheses or with a
+ *   trailing minus); values that overflow a double are not
  *   numbers, as in JavaScript. The ansi dialect takes only plain spaces between a number and its
  *   symbol.
  */

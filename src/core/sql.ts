@@ -413,15 +413,30 @@ interface ReadNumber {
 
 /** Recognises and normalises a number as numbers.ts does: regular expressions where the engine has them. */
 function readNumber(trimmed: string, format: NumberFormat, alias: Alias, { sql, steps }: Context): ReadNumber {
-  // A symbol ("€ 12", "12 %") comes off first, in a stage of its own; the number is read from what is left.
-  const first = format.symbol === undefined ? 1 : 2;
-  const bare = format.symbol === undefined ? trimmed : steps.add(1, alias('amount'), withoutSymbol(trimmed, format.symbol, sql));
+  // A negative in parentheses or with a trailing minus becomes a leading minus, then a symbol
+  // ("€ 12", "12 %") comes off, each in a stage of its own; the number is read from what is left.
+  let first = 1;
+  let bare = trimmed;
+  if (format.negative !== undefined) bare = steps.add(first++, alias('signed'), withLeadingMinus(bare, format.negative, sql));
+  if (format.symbol !== undefined) bare = steps.add(first++, alias('amount'), withoutSymbol(bare, format.symbol, sql));
   const text = steps.add(first, alias('number_text'), normalisedNumber(bare, format, sql));
   if (sql.regex !== null) {
     const ok = steps.add(first, alias('number_shape'), sql.regex(bare, numberPattern(format)));
     return { ok, text, stage: first + 1 };
   }
   return { ok: shapeByParts(bare, format, alias, sql, steps, first), text, stage: first + 4 };
+}
+
+/** number-symbols.ts's withLeadingMinus: "(5)" or "5-" (trimmed) becomes "-5", spaces inside dropped. */
+function withLeadingMinus(trimmed: string, negative: 'parentheses' | 'trailing', sql: SqlDialect): string {
+  const length = sql.length(trimmed);
+  const last = sql.substring(trimmed, length, '1');
+  if (negative === 'parentheses') {
+    const inner = sql.trimSymbolSpaces(sql.trimSymbolSpaces(sql.substring(trimmed, '2', `${length} - 2`), 'leading'), 'trailing');
+    return `CASE WHEN ${length} >= 2 AND ${sql.substring(trimmed, '1', '1')} = '(' AND ${last} = ')' THEN '-' || ${inner} ELSE ${trimmed} END`;
+  }
+  const rest = sql.trimSymbolSpaces(sql.substring(trimmed, '1', `${length} - 1`), 'trailing');
+  return `CASE WHEN ${length} >= 2 AND ${last} = '-' THEN '-' || ${rest} ELSE ${trimmed} END`;
 }
 
 /**

@@ -103,11 +103,14 @@ describe('set-number-format', () => {
 describe('numericSummaryIn', () => {
   it('property: reading a profile’s levels again in a format gives what profiling in that format gives, rows apart', () => {
     const cell = fc.oneof(
-      fc.constantFrom('', 'NA', 'x', '1,5', '1.5', '1,234', '1.234,5', '12 %', '€ 3', '-€ 2,50', '1 234', '007', '1e3', 'US$4'),
+      fc.constantFrom('', 'NA', 'x', '1,5', '1.5', '1,234', '1.234,5', '12 %', '€ 3', '-€ 2,50', '1 234', '007', '1e3', 'US$4', '(5)', '(€ 2,50)', '1.234,5-', '7 kg'),
       fc.integer({ min: -50, max: 50 }).map(String),
     );
     const symbols = [undefined, { text: '%', side: 'after' }, { text: '€', side: 'before' }, { text: 'US$', side: 'before' }] as const;
-    const format = fc.tuple(fc.constantFrom(...CANDIDATE_NUMBER_FORMATS), fc.constantFrom(...symbols)).map(([f, symbol]) => (symbol ? { ...f, symbol } : f));
+    const negatives = [undefined, 'parentheses', 'trailing'] as const;
+    const format = fc
+      .tuple(fc.constantFrom(...CANDIDATE_NUMBER_FORMATS), fc.constantFrom(...symbols), fc.constantFrom(...negatives))
+      .map(([f, symbol, negative]): NumberFormat => ({ ...f, ...(symbol ? { symbol } : {}), ...(negative ? { negative } : {}) }));
     fc.assert(
       fc.property(fc.array(cell, { minLength: 1, maxLength: 40 }), format, (cells, chosen) => {
         const column = columnTable('c', cells).columns[0]!;

@@ -156,6 +156,41 @@ describe('parseNumber, formats with a symbol', () => {
   });
 });
 
+describe('parseNumber, negatives in parentheses or with a trailing minus', () => {
+  const ACCOUNTS: NumberFormat = { decimal: '.', group: ',', negative: 'parentheses' };
+  const TRAILING: NumberFormat = { decimal: ',', group: '.', negative: 'trailing' };
+
+  it.each([
+    ['(1,234.50)', -1234.5],
+    ['( 5 )', -5],
+    ['(0)', -0],
+    ['1,234.50', 1234.5],
+    ['-7', -7],
+  ])('in parentheses: reads %j as %d', (text, expected) => expect(Object.is(parseNumber(text, ACCOUNTS), expected)).toBe(true));
+
+  it.each(['(-5)', '((5))', '()', '(5', '5)', '5-'])('in parentheses: does not read %j', (text) => expect(parseNumber(text, ACCOUNTS)).toBeNaN());
+
+  it('with a trailing minus, as some business systems export: "1.234,50-" is −1234.5', () => {
+    expect(parseNumber('1.234,50-', TRAILING)).toBe(-1234.5);
+    expect(parseNumber('7 -', TRAILING)).toBe(-7);
+    expect(parseNumber('-7', TRAILING)).toBe(-7);
+    for (const text of ['-7-', '7--', '(7)', '-']) expect(parseNumber(text, TRAILING)).toBeNaN();
+  });
+
+  it('around a symbol: "(€ 1.234,50)", "(12 %)", "€ 5-"', () => {
+    expect(parseNumber('(€ 1.234,50)', { ...EURO_BEFORE, negative: 'parentheses' })).toBe(-1234.5);
+    expect(parseNumber('(12 %)', { ...PERCENT, negative: 'parentheses' })).toBe(-12);
+    expect(parseNumber('€ 5-', { ...EURO_BEFORE, negative: 'trailing' })).toBe(-5);
+    // The parentheses stand outside the symbol, not between it and the number.
+    expect(parseNumber('€ (5)', { ...EURO_BEFORE, negative: 'parentheses' })).toBeNaN();
+  });
+
+  it('are not read in a format without the notation', () => {
+    expect(parseNumber('(5)', PLAIN)).toBeNaN();
+    expect(parseNumber('5-', PLAIN)).toBeNaN();
+  });
+});
+
 describe('detectNumberFormat', () => {
   it('defaults to plain numbers', () => {
     expect(detectNumberFormat(once('1.5', '2', '-3.25'))).toEqual(PLAIN);
@@ -212,6 +247,13 @@ describe('detectNumberFormat', () => {
     expect(detectNumberFormat(once('user12ab', 'user13ab'))).toEqual(PLAIN);
   });
 
+  it('takes parentheses or a trailing minus for negatives when some cells are written so', () => {
+    expect(detectNumberFormat(once('1,234.50', '(250.00)', '99.90'))).toEqual({ ...COMMA_GROUPS, negative: 'parentheses' });
+    expect(detectNumberFormat(once('1.234,50-', '250,00', '99,90'))).toEqual({ ...DECIMAL_COMMA_DOT_GROUPS, negative: 'trailing' });
+    expect(detectNumberFormat(once('€ 1.234,50', '(€ 250,00)', '€ 99,90'))).toEqual({ ...EURO_BEFORE, negative: 'parentheses' });
+    expect(detectNumberFormat(once('12', '-5', '(see note)'))).toEqual(PLAIN);
+  });
+
   it('ignores values with a zero count and empty texts', () =>
     expect(detectNumberFormat([{ value: '12,5', count: 0 }, { value: '', count: 9 }, { value: '3.5', count: 1 }])).toEqual(PLAIN));
 });
@@ -256,14 +298,19 @@ describe('formatNumber', () => {
     expect(formatNumber(-1250.75, FRANCS)).toBe('-CHF 1,250.75');
     expect(formatNumber(-5, EURO_BEFORE)).toBe('-€5');
     expect(formatNumber(3, KILOGRAMS)).toBe('3 kg');
+    expect(formatNumber(-1234.5, { ...EURO_BEFORE, negative: 'parentheses' })).toBe('(€1.234,5)');
+    expect(formatNumber(-3, { ...KILOGRAMS, negative: 'trailing' })).toBe('3 kg-');
   });
 
   it('property: with a symbol too, writing then reading gives the same number back', () => {
     fc.assert(
-      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), fc.constantFrom(...SYMBOL_FORMATS, KILOGRAMS), (value, format) => {
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), fc.constantFrom(...SYMBOL_FORMATS, KILOGRAMS), fc.constantFrom(undefined, 'parentheses', 'trailing'), (value, symbolFormat, negative) => {
+        const format: NumberFormat = negative === undefined ? symbolFormat : { ...symbolFormat, negative };
         expect(Object.is(parseNumber(formatNumber(value, format), format), value)).toBe(true);
         // The symbol is optional in each cell: the bare number reads the same.
         expect(Object.is(parseNumber(formatNumber(value, { decimal: format.decimal, group: format.group }), format), value)).toBe(true);
+        // And a leading minus always reads, whatever other notation the format allows.
+        if (negative !== undefined) expect(Object.is(parseNumber(formatNumber(value, symbolFormat), format), value)).toBe(true);
       }),
       { numRuns: 1000 },
     );
@@ -316,9 +363,12 @@ describe('formatFromExample: a person writes 1234.5 the way the column does', ()
     ['1234.5%', PERCENT],
     ['CHF 1,234.5', FRANCS],
     ['1234.5 kg', KILOGRAMS],
+    ['(1,234.5)', { ...COMMA_GROUPS, negative: 'parentheses' }],
+    ['1.234,50-', { ...DECIMAL_COMMA_DOT_GROUPS, negative: 'trailing' }],
+    ['(€ 1.234,5)', { ...EURO_BEFORE, negative: 'parentheses' }],
   ])('%j', (example, format) => expect(formatFromExample(example)).toEqual(format));
 
-  it.each(['12,5', '1234', '1.234.5', '1,234,5', '€ 1234.5 %', '1234.5 5', 'kg', '', '1 2345'])('refuses %j', (example) =>
+  it.each(['12,5', '1234', '1.234.5', '1,234,5', '€ 1234.5 %', '1234.5 5', 'kg', '', '1 2345', '(-1234.5)', '-1234.5-', '()'])('refuses %j', (example) =>
     expect(formatFromExample(example)).toBeNull());
 
   it('property: the example formatNumber writes for 1234.5 gives its format back, in every format', () => {

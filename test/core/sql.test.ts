@@ -396,7 +396,7 @@ const oneColumn = (name: string, cells: readonly string[]): Table =>
 
 const NBSP = '\u00a0';
 const NNBSP = '\u202f';
-const NUMBER_CHARS = ['0', '1', '5', '9', '+', '-', '.', ',', ' ', NBSP, NNBSP, 'e', 'E', '\t', 'x', '_', '€', '%', 'CHF'];
+const NUMBER_CHARS = ['0', '1', '5', '9', '+', '-', '.', ',', ' ', NBSP, NNBSP, 'e', 'E', '\t', 'x', '_', '€', '%', 'CHF', '(', ')'];
 /** Formats with a currency or percent symbol (number-symbols.ts), on both sides, one a letter code. */
 const SYMBOL_FORMATS: readonly NumberFormat[] = [
   { decimal: ',', group: '.', symbol: { text: '€', side: 'before' } },
@@ -406,15 +406,23 @@ const SYMBOL_FORMATS: readonly NumberFormat[] = [
   // A symbol outside the Basic Multilingual Plane: one character in SQL, two UTF-16 units in JavaScript.
   { decimal: '.', group: '', symbol: { text: '𝑥', side: 'after' } },
   { decimal: '.', group: '', symbol: { text: 'k𝑥', side: 'before' } },
+  // Negatives in parentheses or with a trailing minus, with and without a symbol.
+  { decimal: '.', group: ',', negative: 'parentheses' },
+  { decimal: ',', group: '.', negative: 'trailing' },
+  { decimal: ',', group: '.', symbol: { text: '€', side: 'before' }, negative: 'parentheses' },
+  { decimal: '.', group: '', symbol: { text: '%', side: 'after' }, negative: 'trailing' },
 ];
 
 describe('numbers are read as numbers.ts reads them', () => {
   const formats = [...CANDIDATE_NUMBER_FORMATS, ...SYMBOL_FORMATS];
-  const formatName = (f: NumberFormat): string => `decimal "${f.decimal}" group "${f.group}"${f.symbol ? ` symbol "${f.symbol.text}" ${f.symbol.side}` : ''}`;
+  const formatName = (f: NumberFormat): string =>
+    `decimal "${f.decimal}" group "${f.group}"${f.symbol ? ` symbol "${f.symbol.text}" ${f.symbol.side}` : ''}${f.negative ? ` negative ${f.negative}` : ''}`;
   const cellsFor = (format: NumberFormat): string[] => [
     '€ 1.234,50', '€1.234,50', `€${NBSP}12`, '-€5', '€-5', '€ -5', '+€ 5', '- €5', '--€5', '-€-5', '€€5', '€', '€ ', '5 €', `1 234,5${NNBSP}€`,
     '12%', '12 %', `-0.5${NNBSP}%`, '%12', '12%%', '%', 'CHF 1,250.75', '-CHF 3', 'chf 3', 'CHF', 'CHF-', 'CHF 3 %',
     '5𝑥', '5 𝑥', '𝑥', '𝑥5', 'k𝑥5', '-k𝑥 5', 'k𝑥', '5𝑥𝑥',
+    '(5)', '( 5 )', '(1,234.5)', '(-5)', '((5))', '()', '(', ')', '5)', '(5', '(€ 1.234,5)', '(5 %)', '€ (5)',
+    '5-', '5 -', '1.234,5-', '-5-', '--', '5--', '€5-', '5%-', '5 %-', '-',
     '1,234.5', '1.234,5', '1 234,5', `1${NBSP}234`, `1${NNBSP}234.25`, '12,5', '1,23', '1234,567', '12 34',
     '.5', ',5', '5.', '+5', '-5', '--5', '+-5', '1e3', '1E-3', '1e', 'e5', '1e+3', '1.5e3', '1,5e3', ' 7 ', '\t8\n',
     '1e309', '-1e309', '1e-400', '4.9e-324', '2.4703282292062328e-324', '179769313486231580793728971405303415079934132710037826936173778980444968292764750946649017977587207096330286416692887910946555547851940402630657488671505820681908902000708383676273854845817711531764475730270069855571366959622842914819860834936475292719074168444365510704342711559699508093042880177904174497791',

@@ -186,3 +186,20 @@ describe('a shop export with prices and discounts written with their signs', () 
     expect(screen.getByText('written like').nextSibling?.textContent).toBe('€1.234,5');
   });
 });
+
+describe('a ledger export with negatives in parentheses', () => {
+  // An invented ledger: amounts with comma groups, credits in parentheses as accounts write them.
+  const cells = ['1,250.00', '(300.00)', '75.50', '(1,000.00)', '420.00', '(12.25)', '980.00', '15.00', '(60.00)', '2,400.00', '310.75', '(5.00)'];
+  const ledger = pipeline(utf8(`entry,amount\n${cells.map((c, i) => `E${i + 1},"${c}"`).join('\n')}\n`), 'ledger.csv');
+  const amount = ledger.recipe.columns[1] as ContinuousColumn;
+
+  it('reads them as negative numbers, in a format that says so', () => {
+    expect(amount.level).toBe('continuous');
+    expect(amount.format).toEqual({ decimal: '.', group: ',', negative: 'parentheses' });
+    // 1250 − 300 + 75.5 − 1000 + 420 − 12.25 + 980 + 15 − 60 + 2400 + 310.75 − 5 = 4,074 over 12 entries.
+    expect(amount.fitted.count).toBe(12);
+    expect(amount.fitted.mean).toBeCloseTo(4074 / 12, 10);
+    expect(amount.fitted.min).toBe(-1000);
+    expect(ledger.csv.split('\r\n').slice(1, 3)).toEqual(['E1,1250', 'E2,-300']);
+  });
+});

@@ -1,6 +1,6 @@
 /**
- * How a continuous column's numbers are written: decimal separator, digit groups, and a currency
- * or percent sign beside them. The draft detects it; a person corrects it here when the numbers
+ * How a continuous column's numbers are written: decimal separator, digit groups, a currency or
+ * percent sign or a unit beside them, and how negatives are written. The draft detects it; a person corrects it here when the numbers
  * were misread ("1.234" meant one thousand two hundred thirty-four) or a unit was not recognised.
  */
 import { useId, useState, type FormEvent } from 'react';
@@ -20,12 +20,15 @@ export interface NumberFormatFormProps {
 type Decimal = NumberFormat['decimal'];
 type Group = NumberFormat['group'];
 type Side = 'before' | 'after';
+/** '' for a leading minus only. */
+type Negative = NonNullable<NumberFormat['negative']> | '';
 
 interface Draft {
   readonly decimal: Decimal;
   readonly group: Group;
   readonly symbol: string;
   readonly side: Side;
+  readonly negative: Negative;
 }
 
 const DECIMALS: readonly { value: Decimal; label: string }[] = [
@@ -44,14 +47,25 @@ const SIDES: readonly { value: Side; label: string }[] = [
   { value: 'after', label: 'after the number' },
 ];
 
+const NEGATIVES: readonly { value: Negative; label: string }[] = [
+  { value: '', label: 'minus before (-12)' },
+  { value: 'parentheses', label: 'or in parentheses ((12))' },
+  { value: 'trailing', label: 'or minus after (12-)' },
+];
+
 function draftOf(format: NumberFormat): Draft {
-  return { decimal: format.decimal, group: format.group, symbol: format.symbol?.text ?? '', side: format.symbol?.side ?? 'after' };
+  return { decimal: format.decimal, group: format.group, symbol: format.symbol?.text ?? '', side: format.symbol?.side ?? 'after', negative: format.negative ?? '' };
 }
 
 /** The draft as a format, or the reason it is not one. */
 function formatOf(draft: Draft): { ok: true; format: NumberFormat } | { ok: false; message: string } {
   const symbol = draft.symbol.trim();
-  const candidate = { decimal: draft.decimal, group: draft.group, ...(symbol === '' ? {} : { symbol: { text: symbol, side: draft.side } }) };
+  const candidate = {
+    decimal: draft.decimal,
+    group: draft.group,
+    ...(symbol === '' ? {} : { symbol: { text: symbol, side: draft.side } }),
+    ...(draft.negative === '' ? {} : { negative: draft.negative }),
+  };
   const parsed = NumberFormat.safeParse(candidate);
   if (parsed.success) return { ok: true, format: parsed.data };
   return { ok: false, message: `“${symbol}” cannot stand beside the numbers: ${parsed.error.issues[0]?.message ?? 'not a symbol'}.` };
@@ -100,6 +114,7 @@ export function NumberFormatForm({ profile, column, onDecide }: NumberFormatForm
           />
         </div>
         <SelectField label="Written" value={draft.side} choices={SIDES} onChange={(side) => setDraft({ ...draft, side })} />
+        <SelectField label="Negative numbers" value={draft.negative} choices={NEGATIVES} onChange={(negative) => setDraft({ ...draft, negative })} />
       </div>
       <p className="lw-field__hint">
         {chosen.ok ? `Read like ${formatNumber(-1234.5, chosen.format)}. ` : ''}

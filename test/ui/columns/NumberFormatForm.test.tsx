@@ -69,6 +69,16 @@ describe('the number format of a continuous column', () => {
     expect(onDecide).toHaveBeenCalledTimes(1);
   });
 
+  it('negatives in parentheses can be chosen', async () => {
+    const onDecide = vi.fn<(d: Decision) => void>();
+    render(<Workbench onDecide={onDecide} />);
+    const user = userEvent.setup();
+    await user.selectOptions(screen.getByLabelText('Negative numbers'), 'parentheses');
+    expect(screen.getByText(/^Read like \(1,234\.5\)\./)).toBeTruthy();
+    await user.click(screen.getByRole('button', { name: 'Read in this format' }));
+    expect(onDecide).toHaveBeenLastCalledWith({ type: 'set-number-format', column: 'weight', format: { decimal: '.', group: ',', negative: 'parentheses' } });
+  });
+
   it('a column of plain decimal numbers has no other format to offer', () => {
     const plain = tableFromRows([['w'], ...Array.from({ length: 5000 }, (_, i) => [String(i / 4)])]).table;
     const plainProfiles = profileTable(plain, { missingTokens: DEFAULT_MISSING_TOKENS });
