@@ -102,11 +102,11 @@ const MIGHT_BE_NUMBER = /^\s*[+-]?[\d.,][\d.,eE+\- \u00A0\u202F]*\s*$/;
  */
 export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
   // Texts no format can read are set aside once, instead of being tried twelve times.
-  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || symbolOf(value) !== null || IN_PARENTHESES.test(value)));
+  const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || symbolOf(value) !== null || mayBeNegativeIn(value, 'parentheses')));
   const common = commonSymbol(candidates);
   const withSymbols = common === null ? CANDIDATE_NUMBER_FORMATS : [...CANDIDATE_NUMBER_FORMATS, ...CANDIDATE_NUMBER_FORMATS.map((f) => ({ ...f, symbol: common.symbol }))];
   // Then the other ways of writing negatives, where some cell is written so.
-  const notations = NEGATIVE_NOTATIONS.filter((negative) => candidates.some(({ value }) => NEGATIVE_PATTERNS[negative].test(value)));
+  const notations = NEGATIVE_NOTATIONS.filter((negative) => candidates.some(({ value }) => mayBeNegativeIn(value, negative)));
   const formats = [...withSymbols, ...notations.flatMap((negative) => withSymbols.map((f) => ({ ...f, negative })))];
   let best = PLAIN_NUMBER_FORMAT;
   let bestScore = 0;
@@ -122,8 +122,27 @@ export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
 }
 
 const NEGATIVE_NOTATIONS = ['parentheses', 'trailing'] as const;
-const IN_PARENTHESES = /^\s*\(.*\)\s*$/su;
-const NEGATIVE_PATTERNS = { parentheses: IN_PARENTHESES, trailing: /\d\s*-\s*$/u } as const;
+
+/**
+ * Whether `value` may be a negative in `notation`: "(…)", or a digit then "-" at the end. Looks at
+ * its ends only (a column can hold a million values to ask).
+ */
+function mayBeNegativeIn(value: string, notation: (typeof NEGATIVE_NOTATIONS)[number]): boolean {
+  const t = isBlank(value.charCodeAt(0)) || isBlank(value.charCodeAt(value.length - 1)) ? value.trim() : value;
+  const n = t.length;
+  if (n < 2) return false;
+  if (notation === 'parentheses') return t.charCodeAt(0) === 0x28 && t.charCodeAt(n - 1) === 0x29;
+  if (t.charCodeAt(n - 1) !== 0x2d) return false;
+  let at = n - 2;
+  while (at > 0 && t.charCodeAt(at) === 0x20) at--;
+  const c = t.charCodeAt(at);
+  return c >= 0x30 && c <= 0x39;
+}
+
+/** Space, controls and anything beyond ASCII, where trim() may have work to do. */
+function isBlank(code: number): boolean {
+  return code <= 0x20 || code >= 0x7f;
+}
 
 /** How many cells (weighted) `format` reads. */
 function scoreOf(format: NumberFormat, values: readonly TextCount[]): number {
