@@ -95,13 +95,13 @@ const MIGHT_BE_NUMBER = /^\s*[+-]?[\d.,][\d.,eE+\- \u00A0\u202F]*\s*$/;
  * strictly more cells than every point-decimal format, i.e. when the column is written that way.
  * The candidates are the six formats, then the same six with the symbol most cells carry, if any
  * does, then all of these with negatives in parentheses or with a trailing minus, where some cell
- * is written so (kept, like everything else, only when more cells read). A symbol is taken only when it makes more cells read and more than half of the cells it
- * reads carry it: the column is written that way. One "$12" among plain numbers stays a stray
- * cell, reported, not read (common practice: read what the column means, flag what it does not).
- * Missing cells should be left out by the caller; empty texts are ignored.
+ * is written so. A symbol is taken only when it makes more cells read and more than half of the
+ * cells it reads carry it: the column is written that way. One "$12" among plain numbers stays a
+ * stray cell, reported, not read (common practice: read what the column means, flag what it does
+ * not). Missing cells should be left out by the caller; empty texts are ignored.
  */
 export function detectNumberFormat(values: readonly TextCount[]): NumberFormat {
-  // Texts no format can read are set aside once, instead of being tried twelve times.
+  // Texts no format can read are set aside once, instead of being tried by every candidate.
   const candidates = values.filter(({ value, count }) => count > 0 && (MIGHT_BE_NUMBER.test(value) || symbolOf(value) !== null || mayBeNegativeIn(value, 'parentheses')));
   const common = commonSymbol(candidates);
   const withSymbols = common === null ? CANDIDATE_NUMBER_FORMATS : [...CANDIDATE_NUMBER_FORMATS, ...CANDIDATE_NUMBER_FORMATS.map((f) => ({ ...f, symbol: common.symbol }))];
