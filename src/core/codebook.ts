@@ -5,7 +5,7 @@
 import { countText } from './count-text.ts';
 import { codesForColumn, codesOf } from './encoders/index.ts';
 import { transformForColumn } from './encoders/index.ts';
-import { formatNumber } from './numbers.ts';
+import { numberFormatExample } from './numbers.ts';
 import type { ColumnRecipe, NumberFormat, Recipe } from './recipe.ts';
 
 export interface CodebookEntry {
@@ -73,9 +73,9 @@ function categoricalEntries(
 
 /** How the source writes its numbers, when not plainly ("1234.5"): the reader of the codebook must know "12 %" became 12. */
 function writtenLike(format: NumberFormat): string {
-  if (format.symbol === undefined && format.negative === undefined && format.decimal === '.' && format.group === '') return '';
-  const negatives = format.negative === undefined ? '' : ` and ${formatNumber(-1234.5, format)}`;
-  return `, read from text written like ${formatNumber(1234.5, format)}${negatives}${format.symbol === undefined ? '' : ` (the number as written, without “${format.symbol.text}”)`}`;
+  const example = numberFormatExample(format);
+  if (example === null) return '';
+  return `, read from text written like ${example}${format.symbol === undefined ? '' : ` (the number as written, without “${format.symbol.text}”)`}`;
 }
 
 function numberText(n: number): string {

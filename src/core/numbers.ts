@@ -169,6 +169,16 @@ export function formatNumber(value: number, format: NumberFormat): string {
   return inNegativeNotation(written, format.negative);
 }
 
+/**
+ * How `format` writes numbers, for people: "€1.234,5", and its negative too when written other
+ * than with a leading minus ("1,234.5 and (1,234.5)"); null for plain numbers ("1234.5").
+ */
+export function numberFormatExample(format: NumberFormat): string | null {
+  if (format.decimal === '.' && format.group === '' && format.symbol === undefined && format.negative === undefined) return null;
+  const positive = formatNumber(1234.5, format);
+  return format.negative === undefined ? positive : `${positive} and ${formatNumber(-1234.5, format)}`;
+}
+
 function groupDigits(digits: string, separator: string): string {
   let out = '';
   for (let end = digits.length; end > 0; end -= 3) {

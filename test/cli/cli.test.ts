@@ -270,6 +270,13 @@ describe('amounts written with currency and percent signs', () => {
   const prices = file('prices (invented).csv', 'item;price;discount\r\nP1;€ 1.234,50;10 %\r\nP2;-€ 4,50;0 %\r\nP3;€ 19,99;12,5 %\r\nP4;€ 7;5 %\r\nP5;€ 30,10;\r\nP6;€ 2,00;20 %\r\nP7;€ 250;15 %\r\nP8;€ 99,90;7,5 %\r\nP9;€ 12;25 %\r\nP10;€ 5,25;30 %\r\nP11;€ 8;35 %\r\nP12;€ 61,75;40 %\r\nP13;€ 3,30;45 %\r\n');
   const recipePath = join(work, 'prices.recipe.json');
 
+  it('profile says how the numbers are written', () => {
+    const run = levelwise(['profile', prices]);
+    expect(run.status).toBe(0);
+    expect(text(run.stdout)).toContain('   numbers (written like €1.234,5): min -4.5, max 1234.5,');
+    expect(text(run.stdout)).toContain('   numbers (written like 1234,5%): min 0, max 45,');
+  });
+
   it('draft reads them as numbers in their format, and apply writes the numbers', () => {
     const draft = levelwise(['draft', prices, '-o', recipePath]);
     expect(draft.status).toBe(0);

@@ -5,6 +5,7 @@ import {
   detectNumberFormat,
   formatFromExample,
   formatNumber,
+  numberFormatExample,
   hasLeadingZero,
   parseNumber,
   PLAIN_NUMBER_FORMAT,
@@ -300,6 +301,12 @@ describe('formatNumber', () => {
     expect(formatNumber(3, KILOGRAMS)).toBe('3 kg');
     expect(formatNumber(-1234.5, { ...EURO_BEFORE, negative: 'parentheses' })).toBe('(€1.234,5)');
     expect(formatNumber(-3, { ...KILOGRAMS, negative: 'trailing' })).toBe('3 kg-');
+  });
+
+  it('shows a format to people by one number, and a negative when written otherwise; nothing for plain numbers', () => {
+    expect(numberFormatExample(PLAIN)).toBeNull();
+    expect(numberFormatExample(EURO_BEFORE)).toBe('€1.234,5');
+    expect(numberFormatExample({ ...COMMA_GROUPS, negative: 'parentheses' })).toBe('1,234.5 and (1,234.5)');
   });
 
   it('property: with a symbol too, writing then reading gives the same number back', () => {

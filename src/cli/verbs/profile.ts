@@ -4,7 +4,8 @@
  * What each column holds — missing cells, distinct values, the most frequent levels or the
  * numbers' summary — and the level of measurement Levelwise would propose, with its reason.
  */
-import { DEFAULT_MISSING_TOKENS } from '../../core/recipe.ts';
+import { numberFormatExample } from '../../core/numbers.ts';
+import { DEFAULT_MISSING_TOKENS, type NumberFormat } from '../../core/recipe.ts';
 import { inferLevel, sensitiveAttributeCaution, type Inference } from '../../core/infer.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import { optionValue, parseArgs, positionals } from '../args.ts';
@@ -65,7 +66,13 @@ function numbersLine(p: ColumnProfile, table: Table): string {
   const n = p.numeric;
   if (n === null) return '';
   const stray = n.invalidCount > 0 ? `; ${count(n.invalidCount)} not numbers: ${strayText(n.invalidExamples, n.invalidCount, table)}` : '';
-  return `numbers: min ${show(n.min)}, max ${show(n.max)}, mean ${show(n.mean)}, sd ${show(n.sd)}, median ${show(n.median)}${stray}`;
+  return `numbers${writtenLike(n.format)}: min ${show(n.min)}, max ${show(n.max)}, mean ${show(n.mean)}, sd ${show(n.sd)}, median ${show(n.median)}${stray}`;
+}
+
+/** " (written like €1.234,5)" when the numbers are not written plainly, so "12 %" read as 12 is no surprise. */
+function writtenLike(format: NumberFormat): string {
+  const example = numberFormatExample(format);
+  return example === null ? '' : ` (written like ${example})`;
 }
 
 /**
