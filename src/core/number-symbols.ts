@@ -131,20 +131,28 @@ export function symbolOf(text: string): NumberSymbol | null {
   return knownSymbolOf(text) ?? unitOf(text);
 }
 
-/** The symbol most cells of `values` carry (weighted by count) and how many carry it, or null when none carries one. */
+/**
+ * The symbol most cells of `values` carry (weighted by count) and how many carry it, or null when
+ * none carries one. A unit found by its shape alone (not a known sign) must be carried by more than
+ * half of the cells: letters after digits are also codes ("1011 AB", a postcode), each its own.
+ */
 export function commonSymbol(values: readonly { readonly value: string; readonly count: number }[]): { symbol: NumberSymbol; count: number } | null {
-  const tally = new Map<string, { symbol: NumberSymbol; count: number }>();
+  const tally = new Map<string, { symbol: NumberSymbol; count: number; known: boolean }>();
+  let total = 0;
   for (const { value, count } of values) {
-    const symbol = symbolOf(value);
+    total += count;
+    const known = knownSymbolOf(value);
+    const symbol = known ?? unitOf(value);
     if (symbol === null) continue;
     const key = `${symbol.side} ${symbol.text}`;
     const entry = tally.get(key);
-    if (entry === undefined) tally.set(key, { symbol, count });
+    if (entry === undefined) tally.set(key, { symbol, count, known: known !== null });
     else entry.count += count;
   }
-  let best: { symbol: NumberSymbol; count: number } | null = null;
+  let best: { symbol: NumberSymbol; count: number; known: boolean } | null = null;
   for (const entry of tally.values()) if (best === null || entry.count > best.count) best = entry;
-  return best;
+  if (best === null || (!best.known && 2 * best.count <= total)) return null;
+  return { symbol: best.symbol, count: best.count };
 }
 
 /** `text` (trimmed) without the format's symbol, when it carries it: what is left must read as a number. */

@@ -246,6 +246,8 @@ describe('detectNumberFormat', () => {
     expect(detectNumberFormat(once('1e', '2e', '3'))).toEqual(PLAIN);
     expect(detectNumberFormat(once('3 kilograms', '4 kilograms'))).toEqual(PLAIN);
     expect(detectNumberFormat(once('user12ab', 'user13ab'))).toEqual(PLAIN);
+    // Postcodes: letters after digits, each pair its own; no unit is carried by most of them.
+    expect(detectNumberFormat(once('1011 AB', '1012 CD', '1011 AB', '3511 EF', '2512 GH'))).toEqual(PLAIN);
   });
 
   it('takes parentheses or a trailing minus for negatives when some cells are written so', () => {
