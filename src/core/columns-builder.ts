@@ -516,7 +516,8 @@ function resized<A extends Uint8Array | Uint32Array | Float64Array | Int32Array>
   return bigger;
 }
 
-function grow<A extends Uint32Array | Float64Array | Int32Array>(array: A): A {
+/** A typed array twice as long (at least 16), holding `array`'s values first. */
+export function grow<A extends Uint32Array | Float64Array | Int32Array>(array: A): A {
   const bigger = new (array.constructor as new (length: number) => A)(Math.max(16, array.length * 2));
   bigger.set(array);
   return bigger;

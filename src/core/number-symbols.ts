@@ -158,21 +158,12 @@ export function commonSymbol(values: readonly { readonly value: string; readonly
 /** `text` (trimmed) without the format's symbol, when it carries it: what is left must read as a number. */
 export function withoutSymbol(text: string, symbol: NumberSymbol): string {
   const s = symbol.text;
-  if (symbol.side === 'after') {
-    if (!text.endsWith(s)) return text;
-    let end = text.length - s.length;
-    while (end > 0 && isSymbolSpace(text.charCodeAt(end - 1))) end--;
-    return text.slice(0, end);
-  }
-  let signEnd = 0;
-  if (!text.startsWith(s)) {
-    const head = text.charCodeAt(0);
-    if (!((head === 0x2b || head === 0x2d) && text.startsWith(s, 1))) return text;
-    signEnd = 1;
-  }
-  let at = signEnd + s.length;
-  while (at < text.length && isSymbolSpace(text.charCodeAt(at))) at++;
-  return text.slice(0, signEnd) + text.slice(at);
+  // `text` is trimmed: only the spaces between the symbol and the number are left to take off.
+  if (symbol.side === 'after') return text.endsWith(s) ? trimSymbolSpaces(text.slice(0, text.length - s.length)) : text;
+  if (text.startsWith(s)) return trimSymbolSpaces(text.slice(s.length));
+  const head = text.charCodeAt(0);
+  const signed = (head === 0x2b || head === 0x2d) && text.startsWith(s, 1);
+  return signed ? text[0] + trimSymbolSpaces(text.slice(1 + s.length)) : text;
 }
 
 /** How a number is shown with its symbol: "€1,234.5", "-€5", "12.5%", "12,50 EUR" (a letter symbol keeps a space). */

@@ -5,6 +5,7 @@
 import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
 import { DEFAULT_MISSING_TOKENS, missingNumbers, missingTest, type MissingTest } from './missing.ts';
+import { grow } from './columns-builder.ts';
 import { knownSymbolOf } from './number-symbols.ts';
 import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
 import type { NumberFormat } from './recipe.ts';
@@ -291,10 +292,10 @@ function summarizeTextNumbers(
   nonMissing: number,
   fixedFormat: NumberFormat | undefined,
 ): NumericSummary | null {
-  const mayBeCandidate = mayBeNumberIn(fixedFormat);
-  const candidates = levels.filter((level) => mayBeCandidate(level.value));
-  const format = fixedFormat ?? detectNumberFormat(candidates);
-  const read = readLevelNumbers(levels, format, candidates.length);
+  // Only the levels that may be numbers in some format are asked which format they are in.
+  const mayBeInAnyFormat = mayBeNumberIn(undefined);
+  const format = fixedFormat ?? detectNumberFormat(levels.filter((level) => mayBeInAnyFormat(level.value)));
+  const read = readLevelNumbers(levels, format);
   if (read.found === 0) return null;
   let invalidRows: NumericSummary['invalidExamples'] = [];
   if (read.invalidCount > 0) {
@@ -315,7 +316,7 @@ function summarizeTextNumbers(
 export function numericSummaryIn(profile: ColumnProfile, format: NumberFormat): NumericSummary | null {
   const levels = profile.levels;
   if (levels === null) throw new Error(`numericSummaryIn: the profile of "${profile.name}" keeps no levels to read again`);
-  const read = readLevelNumbers(levels, format, levels.length);
+  const read = readLevelNumbers(levels, format);
   if (read.found === 0) return null;
   const examples: { row?: number; text: string }[] = [];
   for (let i = 0; i < levels.length && examples.length < MAX_INVALID_EXAMPLES; i++) {
@@ -335,12 +336,12 @@ interface LevelNumbers {
   readonly isInvalid: Uint8Array;
 }
 
-/** `capacity`: at least the levels that may read (room for those only: an identifier column's million levels need none). */
-function readLevelNumbers(levels: readonly LevelCount[], format: NumberFormat, capacity: number): LevelNumbers {
+function readLevelNumbers(levels: readonly LevelCount[], format: NumberFormat): LevelNumbers {
   const read = numberReader(format);
   const mayRead = mayBeNumberIn(format);
-  const numbers = new Float64Array(capacity);
-  const weights = new Float64Array(capacity);
+  // Grown as numbers are found: an identifier column's million levels need no room.
+  let numbers = new Float64Array(64);
+  let weights = new Float64Array(64);
   const isInvalid = new Uint8Array(levels.length);
   let found = 0;
   let invalidCount = 0;
@@ -352,6 +353,10 @@ function readLevelNumbers(levels: readonly LevelCount[], format: NumberFormat, c
       isInvalid[i] = 1;
       invalidCount += count;
     } else {
+      if (found === numbers.length) {
+        numbers = grow(numbers);
+        weights = grow(weights);
+      }
       numbers[found] = value;
       weights[found++] = count;
       if (hasLeadingZero(text)) leadingZeros += count;
