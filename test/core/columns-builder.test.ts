@@ -2,6 +2,9 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { ColumnBuilder, TableBuilder, numberValue, printsBack } from '../../src/core/columns-builder.ts';
 import { cellText, type Column, type NumberColumn, type TextColumn } from '../../src/core/columns.ts';
+import { hashBytes } from '../../src/core/parse.ts';
+import { readTable } from '../../src/core/read-table.ts';
+import { encodeUtf8 } from '../../src/core/utf8-text.ts';
 
 function build(cells: readonly string[], cap?: number): Column {
   const builder = new ColumnBuilder('x', cap);
@@ -217,6 +220,25 @@ describe('the dictionary against a Map-based one, on random cells (common practi
         expect(Array.from(column.codes.subarray(0, cells.length))).toEqual(expected.codes);
       }),
       { numRuns: 500 },
+    );
+  });
+
+  it('gives the same through the block path the file reader takes, where cells of known values are compared four bytes at a time', () => {
+    // Pairs of one length with the same hash (found by search), so that the bytes must be compared:
+    // one differs only in its first four bytes, one only in its last four, others throughout.
+    const sameHash = [['7yzxtail', 'e6adtail'], ['00009pf8', '0000arj6'], ['000003vl8', '00000kpd6'], ['00036wu', '000ewfa'], ['7yzx', 'e6ad'], ['0vo8v', '10020']] as const;
+    for (const [a, b] of sameHash) expect(hashBytes(encodeUtf8(a), 0, a.length)).toBe(hashBytes(encodeUtf8(b), 0, b.length));
+    const plainArb = fc.constantFrom('', 'a', 'abc', 'abcd', 'abce', 'abcdefgh', 'abcdefgi', 'é', 'éé', 'x'.repeat(20), ...sameHash.flat());
+    fc.assert(
+      fc.property(fc.array(plainArb, { minLength: 1, maxLength: 300 }), (cells) => {
+        const text = `x,y\n${cells.map((cell) => `${cell},1`).join('\n')}\n`;
+        const column = readTable(encodeUtf8(text)).table.columns[0] as TextColumn;
+        const expected = reference(cells);
+        expect(column.values).toEqual(expected.values);
+        expect(column.counts).toEqual(expected.counts);
+        expect(Array.from(column.codes.subarray(0, cells.length))).toEqual(expected.codes);
+      }),
+      { numRuns: 300 },
     );
   });
 
