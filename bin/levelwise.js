@@ -4,9 +4,10 @@
 // A fresh clone needs no build step. Compiling the sources on every run (tsx's loader) took most of
 // a second before the command did anything, so the first run bundles src/cli/main.ts and the
 // project files it imports into one file under node_modules/.cache/levelwise-cli/BUILD/cli.mjs
-// (esbuild, which tsx brings along), and later runs load that. The packages it uses (zod, papaparse)
-// go into the bundle too: loaded as packages, resolving and compiling their hundred-odd modules took
-// ~40 ms of every run's start (about 130 against 90 ms to the first command, under the profiler).
+// (esbuild, which tsx brings along), and later runs load that. The packages it loads at start (zod,
+// papaparse) go into the bundle too: loaded as packages, resolving and compiling their hundred-odd
+// modules took ~40 ms of every run's start (about 130 against 90 ms to the first command, under the
+// profiler). The workbook reader stays a package, imported only when a workbook is read.
 // Beside it goes a second, smaller bundle for the reading threads
 // (src/cli/read-thread.ts alone): a thread starts in ~45 ms from it against ~130 ms from the whole
 // command line, whose packages (zod) a reading thread never uses.
@@ -106,6 +107,8 @@ async function makeBundle() {
       platform: 'node',
       format: 'esm',
       target: 'node20',
+      // Loaded only for a workbook, by a dynamic import (no start-up cost), and written for require(): left a package.
+      external: ['read-excel-file', 'read-excel-file/*'],
       tsconfig: TSCONFIG,
       sourcemap: 'linked',
       metafile: true,

@@ -10,3 +10,9 @@ export function countText(n: number): string {
   const digits = String(Math.abs(n)).replace(/\B(?=(\d{3})+$)/g, ',');
   return n < 0 ? `-${digits}` : digits;
 }
+
+/** A share as a person reads it: 0.5 → "50%", 0.9967 → "99.7%". */
+export function percentText(share: number): string {
+  const p = share * 100;
+  return `${Number.isInteger(p) ? p : p.toFixed(1)}%`;
+}

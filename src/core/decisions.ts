@@ -3,12 +3,13 @@
  * (recipe, decision, profiles) → new recipe; the page's undo history, the worker and the command
  * line's options all go through it, so a decision means the same thing everywhere.
  */
-import { draftColumn, levelsOverLimit, refitColumn, SET_BY_HAND } from './fit.ts';
+import { countText, percentText } from './count-text.ts';
+import { draftColumn, levelsOverLimit, numbersInFormat, refitColumn, SET_BY_HAND } from './fit.ts';
 import { inferLevel } from './infer.ts';
 import { wideDraftNote } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
 import { LevelwiseError } from './errors.ts';
-import { sameNumberFormat } from './numbers.ts';
+import { numberFormatExample, sameNumberFormat } from './numbers.ts';
 import type { ColumnProfile } from './profile.ts';
 import { NumberFormat } from './recipe.ts';
 import type {
@@ -103,8 +104,11 @@ function changeColumn(column: ColumnRecipe, d: Exclude<Decision, { type: 'set-na
       return column.level === 'binary' && d.unseen === 'other' ? column : { ...column, unseen: d.unseen };
     case 'set-invalid':
       return column.level === 'continuous' ? { ...column, invalid: d.invalid } : column;
-    case 'set-number-format':
-      return column.level === 'continuous' ? { ...column, format: numberFormatFor(d.format, profile) } : column;
+    case 'set-number-format': {
+      if (column.level !== 'continuous') return column;
+      const format = numberFormatFor(d.format, profile);
+      return sameNumberFormat(format, column.format) ? column : { ...column, format, reason: numberFormatReason(profile, format) };
+    }
     case 'set-other-label':
       return isCategorical(column) && d.label.trim() !== '' ? { ...column, otherLabel: d.label } : column;
   }
@@ -130,6 +134,18 @@ function numberFormatFor(format: NumberFormat, profile: ColumnProfile): NumberFo
     });
   }
   return parsed.data;
+}
+
+/**
+ * The reason a column gets when its number format is chosen by hand: the draft's reason counted
+ * the numbers read in the detected format, which no longer holds.
+ */
+function numberFormatReason(profile: ColumnProfile, format: NumberFormat): string {
+  const written = `numbers written like "${numberFormatExample(format) ?? '1234.5'}"`;
+  const nonMissing = countText(profile.count - profile.missing);
+  const read = numbersInFormat(profile, format);
+  if (read === null) return `${SET_BY_HAND}: ${written}; none of the ${nonMissing} values read so`;
+  return `${SET_BY_HAND}: ${written}; ${countText(read.count)} of ${nonMissing} values read so (${percentText(read.share)})`;
 }
 
 function isCategorical(column: ColumnRecipe): column is Extract<ColumnRecipe, { level: 'nominal' | 'ordinal' | 'binary' }> {

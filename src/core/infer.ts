@@ -9,7 +9,7 @@
 import { NO_CLEANING, cleanLevels, cleaner } from './cleaning.ts';
 
 export { cleanLevels } from './cleaning.ts';
-import { countText } from './count-text.ts';
+import { countText, percentText as percent } from './count-text.ts';
 import { looksLikeDate } from './dates.ts';
 import { matchOrdinalScale, MAX_SCALE_LEVELS } from './ordinal-scales.ts';
 import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
@@ -389,10 +389,6 @@ function quote(text: string): string {
   return `"${text}"`;
 }
 
-function percent(share: number): string {
-  const p = share * 100;
-  return `${Number.isInteger(p) ? p : p.toFixed(1)}%`;
-}
 
 function show(x: number): string {
   return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(6)));

@@ -44,6 +44,24 @@ describe('set-number-format', () => {
     expect(amount.fitted).toMatchObject({ min: 1.234, max: 12, median: 7 });
   });
 
+  it('the reason says the format was chosen by hand and how many values read in it', () => {
+    expect(amountOf(recipe).reason).toBe('set by hand');
+    const chosen = amountOf(decide(recipe, { type: 'set-number-format', column: 'amount', format: DECIMAL_COMMA }, profiles));
+    // 1,234 5,678 12 7 12 read; "x" does not; "n/a" is missing: 5 of 6 (83.3 %).
+    expect(chosen.reason).toBe('set by hand: numbers written like "1234,5"; 5 of 6 values read so (83.3%)');
+    const euros = amountOf(decide(recipe, { type: 'set-number-format', column: 'amount', format: { decimal: ',', group: '.', symbol: { text: '€', side: 'before' } } }, profiles));
+    expect(euros.reason).toBe('set by hand: numbers written like "€1.234,5"; 5 of 6 values read so (83.3%)');
+    const kilos = amountOf(decide(recipe, { type: 'set-number-format', column: 'amount', format: { decimal: '.', group: '', symbol: { text: 'kg', side: 'after' } } }, profiles));
+    // The unit may be left out, so 12, 7 and 12 read; "1,234" does not without digit groups.
+    expect(kilos.reason).toBe('set by hand: numbers written like "1234.5 kg"; 3 of 6 values read so (50%)');
+    // "1.5" is no number with "." grouping thousands: nothing reads.
+    const halves = drafted(['1.5', '2.5', '3.25', '4.5']);
+    const unread = amountOf(decide(halves.recipe, { type: 'set-number-format', column: 'amount', format: { decimal: ',', group: '.' } }, halves.profiles));
+    expect(unread.reason).toBe('set by hand: numbers written like "1.234,5"; none of the 4 values read so');
+    // Choosing the format the column already has changes nothing, the reason included.
+    expect(amountOf(decide(recipe, { type: 'set-number-format', column: 'amount', format: { decimal: '.', group: ',' } }, profiles))).toEqual(amountOf(recipe));
+  });
+
   it('later decisions keep reading in the chosen format, and undoing is replaying fewer decisions', () => {
     const decisions: Decision[] = [
       { type: 'set-number-format', column: 'amount', format: DECIMAL_COMMA },

@@ -483,6 +483,8 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await page.getByRole('button', { name: 'Read in this format' }).click();
     await expect.poll(() => previewCell(0, 'weight')).toBe('1.234');
     expect(await previewCell(1, 'weight')).toBe('5.678');
+    // The reason follows the chosen format: all 12 weights read with a decimal comma.
+    await expect.poll(() => page.locator('.lw-editor').textContent()).toContain('set by hand: numbers written like "1234,5"; 12 of 12 values read so (100%)');
     expect(await page.getByRole('button', { name: /Undo/ }).getAttribute('title')).toMatch(/weight: numbers written like 1234,5/);
     await shot('number-format');
   });
