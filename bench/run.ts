@@ -25,6 +25,7 @@ import { cpuShares, describeMachine, machineLine, readCpuTicks } from './lib/mac
 import { applyFromFile, readTableFromFile } from './lib/paths.ts';
 import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
 import {
+  cpuNote,
   renderTable,
   rssVerdict,
   sizeVerdicts,
@@ -109,20 +110,21 @@ async function chooseApplyPath(choice: ApplyChoice, recipeFile: string, recipe: 
 }
 
 /** The profile path on threads, through the command line: `levelwise draft` reads, profiles and drafts. */
-async function measureDraftCli(file: string): Promise<number> {
+async function measureDraftCli(file: string): Promise<{ seconds: number; cpuSeconds: number }> {
   const run = await runCli(['draft', file, '-o', '/dev/null']);
   if (run.exitCode !== 0) throw new Error(`levelwise draft ${shown(file)} failed (exit ${run.exitCode}):\n${run.stderr.slice(-3000)}`);
-  return run.wallSeconds;
+  return { seconds: run.wallSeconds, cpuSeconds: run.cpuSeconds };
 }
 
-async function measureApply(path: ApplyPath, file: string, recipeFile: string): Promise<{ seconds: number; peakRssBytes: number; bytesWritten: number | null }> {
+/** `cpuSeconds`: of the whole command (NaN for the in-process path, whose process does more than the timed part). */
+async function measureApply(path: ApplyPath, file: string, recipeFile: string): Promise<{ seconds: number; cpuSeconds: number; peakRssBytes: number; bytesWritten: number | null }> {
   if (path.kind === 'cli') {
     const run = await runCli(['apply', recipeFile, file, '-o', '/dev/null']);
     if (!finished(run.exitCode)) throw new Error(`levelwise apply ${shown(file)} failed (exit ${run.exitCode}):\n${run.stderr.slice(-3000)}`);
-    return { seconds: run.wallSeconds, peakRssBytes: run.peakRssBytes, bytesWritten: null };
+    return { seconds: run.wallSeconds, cpuSeconds: run.cpuSeconds, peakRssBytes: run.peakRssBytes, bytesWritten: null };
   }
   const { result, peakRssBytes } = await measureInChild<TimedResult>('apply', [file, recipeFile]);
-  return { seconds: result.seconds, peakRssBytes, bytesWritten: result.bytesWritten ?? null };
+  return { seconds: result.seconds, cpuSeconds: NaN, peakRssBytes, bytesWritten: result.bytesWritten ?? null };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -133,14 +135,16 @@ interface Runs {
   parse: number[];
   profile: number[];
   profileThreads: number[];
+  profileThreadsCpu: number[];
   phases: Record<string, number>[];
   apply: number[];
+  applyCpu: number[];
   applyRss: number[];
   bytesWritten: number | null;
 }
 
 async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile: string): Promise<SizeResult[]> {
-  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], profileThreads: [], phases: [], apply: [], applyRss: [], bytesWritten: null }]));
+  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], profileThreads: [], profileThreadsCpu: [], phases: [], apply: [], applyCpu: [], applyRss: [], bytesWritten: null }]));
   for (let rep = 1; rep <= args.reps; rep++) {
     for (const rows of args.sizes) {
       const file = dataFile(rows);
@@ -152,12 +156,17 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
         const profile = await measureInChild<TimedResult>('profile', [file]);
         r.profile.push(profile.result.seconds);
         r.phases.push({ ...profile.result.phases });
-        if (applyPath.kind === 'cli') r.profileThreads.push(await measureDraftCli(file));
+        if (applyPath.kind === 'cli') {
+          const draft = await measureDraftCli(file);
+          r.profileThreads.push(draft.seconds);
+          r.profileThreadsCpu.push(draft.cpuSeconds);
+        }
         checkRows(rows, 'parse', parse.result.rows);
         checkRows(rows, 'profile', profile.result.rows);
       }
       const apply = await measureApply(applyPath, file, recipeFile);
       r.apply.push(apply.seconds);
+      r.applyCpu.push(apply.cpuSeconds);
       r.applyRss.push(apply.peakRssBytes);
       r.bytesWritten = apply.bytesWritten;
       progress(`${label}: parse ${last(r.parse)} s, profile ${last(r.profile)} s (threads ${last(r.profileThreads)} s), apply ${last(r.apply)} s`);
@@ -182,9 +191,16 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
       mbPerSecondExcludingStartup: startup === null ? null : megabytesPerSecond(bytes, applyTiming.medianSeconds - startup),
     };
     const tableMemory = full ? await measureTableMemory(file, bytes) : null;
-    results.push({ rows, file: shown(file), bytes, parse, profile, profileThreads, apply, tableMemory, ...sizeVerdicts(parse, profile, profileThreads, apply) });
+    const cpuSeconds = { draft: medianOrNull(r.profileThreadsCpu), apply: medianOrNull(r.applyCpu) };
+    results.push({ rows, file: shown(file), bytes, parse, profile, profileThreads, apply, cpuSeconds, tableMemory, ...sizeVerdicts(parse, profile, profileThreads, apply) });
   }
   return results;
+}
+
+/** The median of the values measured (NaN ones left out), or null when there are none. */
+function medianOrNull(values: readonly number[]): number | null {
+  const measured = values.filter((v) => !Number.isNaN(v));
+  return measured.length === 0 ? null : median(measured);
 }
 
 function last(values: readonly number[]): string {
@@ -309,6 +325,9 @@ async function main(): Promise<void> {
     const sizes = await measureAll(args, applyPath, recipeFile);
     const cpuTime = cpuShares(ticksAtStart, readCpuTicks());
     const notes: string[] = [];
+    const reference = sizes.find((size) => size.rows === REFERENCE_ROWS);
+    const cpu = reference === undefined ? null : cpuNote(reference);
+    if (cpu !== null) notes.push(cpu);
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
     const loadAtEnd = loadavg()[0] ?? NaN;
     // The page side (bench/page.ts) after the Node measurements, when /usr/bin/chromium exists.

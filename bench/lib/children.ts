@@ -23,6 +23,8 @@ export interface ProcessRun {
   readonly wallSeconds: number;
   /** Peak resident set size; NaN when the process did not report it (killed, or crashed early). */
   readonly peakRssBytes: number;
+  /** CPU time of the whole process, all threads, start-up included; NaN when not reported. */
+  readonly cpuSeconds: number;
 }
 
 /** Runs `node [nodeFlags] --import probe script args` and waits for it to exit. */
@@ -50,18 +52,19 @@ export async function runNode(nodeFlags: readonly string[], script: string, args
       stdout: Buffer.concat(stdout).toString('utf8'),
       stderr: Buffer.concat(stderr).toString('utf8'),
       wallSeconds,
-      peakRssBytes: readNumber(rssFile),
+      ...readProbe(rssFile),
     };
   } finally {
     rmSync(scratch, { recursive: true, force: true });
   }
 }
 
-function readNumber(path: string): number {
+function readProbe(path: string): { peakRssBytes: number; cpuSeconds: number } {
   try {
-    return Number(readFileSync(path, 'utf8'));
+    const { peakRssBytes, cpuSeconds } = JSON.parse(readFileSync(path, 'utf8')) as { peakRssBytes: number; cpuSeconds: number };
+    return { peakRssBytes, cpuSeconds };
   } catch {
-    return NaN;
+    return { peakRssBytes: NaN, cpuSeconds: NaN };
   }
 }
 

@@ -1,8 +1,10 @@
 // Preloaded with `node --import` into every process the benchmark measures (the command line
-// included, without touching its code): when the process exits, its peak resident set size is
-// written to the file named by LEVELWISE_BENCH_PEAK_RSS_FILE. On Linux that is VmHWM from
-// /proc/self/status (what `/usr/bin/time -v` reports as "Maximum resident set size"); elsewhere
-// process.resourceUsage().maxRSS, the same figure from getrusage.
+// included, without touching its code): when the process exits, its peak resident set size and
+// the CPU time it used are written, as JSON, to the file named by LEVELWISE_BENCH_PEAK_RSS_FILE.
+// The peak is VmHWM from /proc/self/status on Linux (what `/usr/bin/time -v` reports as "Maximum
+// resident set size"), elsewhere process.resourceUsage().maxRSS, the same figure from getrusage.
+// The CPU time is user + system of the whole process, every thread included (getrusage's
+// RUSAGE_SELF): the work a run did, which moves less with a busy host than its wall clock.
 import { readFileSync, writeFileSync } from 'node:fs';
 
 const target = process.env.LEVELWISE_BENCH_PEAK_RSS_FILE;
@@ -17,4 +19,9 @@ function peakRssBytes() {
   return process.resourceUsage().maxRSS * 1024;
 }
 
-if (target) process.on('exit', () => writeFileSync(target, String(peakRssBytes())));
+function cpuSeconds() {
+  const { user, system } = process.cpuUsage();
+  return (user + system) / 1e6;
+}
+
+if (target) process.on('exit', () => writeFileSync(target, JSON.stringify({ peakRssBytes: peakRssBytes(), cpuSeconds: cpuSeconds() })));

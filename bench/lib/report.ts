@@ -45,6 +45,11 @@ export interface SizeResult {
    */
   readonly profileThreads: Timing | null;
   readonly apply: ApplyTiming | null;
+  /**
+   * Median CPU time (user + system, every thread, start-up included) of `levelwise draft` and
+   * `levelwise apply`; null when they were not run through the command line.
+   */
+  readonly cpuSeconds: { readonly draft: number | null; readonly apply: number | null };
   readonly tableMemory: TableMemory | null;
   /** Profile path time ÷ papaparse time: on threads when measured, else on one thread. */
   readonly profileOverParse: Verdict;
@@ -90,6 +95,21 @@ export function sizeVerdicts(parse: Timing | null, profile: Timing | null, profi
     profileOneThreadOverParse: oneThread,
     applyOverParse: atMost(timeRatio(parseRate, apply?.mbPerSecond ?? NaN), TARGETS.applyOverParse),
   };
+}
+
+/**
+ * The work the command line did at one size, beside its wall clock: CPU time counts every thread,
+ * so it shows what a change saved even when a busy host hides it in the wall clock. Null when
+ * the command line was not measured there.
+ */
+export function cpuNote(size: SizeResult): string | null {
+  const { draft, apply } = size.cpuSeconds;
+  if (draft === null && apply === null) return null;
+  const part = (name: string, cpu: number | null, wall: Timing | null): string[] =>
+    cpu === null || wall === null ? [] : [`levelwise ${name} ${cpu.toFixed(2)} s over ${wall.medianSeconds.toFixed(2)} s of wall clock`];
+  const parts = [...part('draft', draft, size.profileThreads), ...part('apply', apply, size.apply)];
+  const parse = size.parse === null ? '' : `; papaparse's parse alone ${size.parse.medianSeconds.toFixed(2)} s on one thread`;
+  return `CPU time at ${size.rows.toLocaleString('en-US')} rows (every thread, start-up included; medians): ${parts.join(', ')}${parse}`;
 }
 
 export function rssVerdict(sizes: readonly SizeResult[], referenceRows: number): BenchResults['rssLargeOverReference'] {

@@ -1,14 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import { renderTable, rssVerdict, sizeVerdicts, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
+import { cpuNote, renderTable, rssVerdict, sizeVerdicts, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
 
 const MB = 1e6;
 
-function size(rows: number, bytes: number, seconds: { parse?: number; profile?: number; profileThreads?: number; apply: number; rss: number }): SizeResult {
+function size(rows: number, bytes: number, seconds: { parse?: number; profile?: number; profileThreads?: number; apply: number; rss: number; cpu?: { draft: number; apply: number } }): SizeResult {
   const parse = seconds.parse === undefined ? null : timing([seconds.parse], bytes);
   const profile = seconds.profile === undefined ? null : { ...timing([seconds.profile], bytes), phasesSeconds: {} };
   const profileThreads = seconds.profileThreads === undefined ? null : timing([seconds.profileThreads], bytes);
   const apply = { ...timing([seconds.apply], bytes), runsPeakRssBytes: [seconds.rss], peakRssBytes: seconds.rss, bytesWritten: null, mbPerSecondExcludingStartup: null };
-  return { rows, file: `household-${rows}.csv`, bytes, parse, profile, profileThreads, apply, tableMemory: null, ...sizeVerdicts(parse, profile, profileThreads, apply) };
+  const cpuSeconds = seconds.cpu ?? { draft: null, apply: null };
+  return { rows, file: `household-${rows}.csv`, bytes, parse, profile, profileThreads, apply, cpuSeconds, tableMemory: null, ...sizeVerdicts(parse, profile, profileThreads, apply) };
 }
 
 describe('benchmark report', () => {
@@ -29,6 +30,14 @@ describe('benchmark report', () => {
     expect(rss.largeRows).toBe(4_000_000);
     expect(rss.value).toBeCloseTo(1.2, 10);
     expect(rss.pass).toBe(true);
+  });
+
+  it('says how much CPU time the command line used beside its wall clock, when it was measured', () => {
+    const measured = size(1_000_000, 120 * MB, { parse: 1, profileThreads: 2, apply: 2.4, rss: 325 * MB, cpu: { draft: 3.1, apply: 3.55 } });
+    expect(cpuNote(measured)).toBe(
+      "CPU time at 1,000,000 rows (every thread, start-up included; medians): levelwise draft 3.10 s over 2.00 s of wall clock, levelwise apply 3.55 s over 2.40 s of wall clock; papaparse's parse alone 1.00 s on one thread",
+    );
+    expect(cpuNote(sizes[0]!)).toBeNull();
   });
 
   it('has no memory verdict without a size above 1M rows', () => {
