@@ -16,7 +16,10 @@
  * `profile` and `draft` (readTableInThreads): the whole table, in one segment per thread, this one
  * reading the first, joined by core parallel-read.ts as the page's worker does.
  *
- * Tables cross as typed arrays transferred, not copied; only dictionaries' strings are cloned.
+ * Tables cross as typed arrays transferred, not copied; only dictionaries' strings are cloned. The
+ * segments of `apply` and `check` keep identifier-like columns as their bytes (ReadOptions
+ * packValues): a million identifiers then cross as two arrays, and this thread makes no string of
+ * them unless something reads them (the writer copies their bytes).
  * The threads run this file: bin/levelwise.js bundles it on its own beside the command line's
  * bundle (a thread starts in a third of the time without the command line's packages), and the
  * thread finds its role in `workerData` (from the TypeScript sources, read-thread-sources.mjs loads
@@ -27,7 +30,7 @@
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { tableBuffers, type NumberColumn, type Table } from '../core/columns.ts';
+import { tableBuffers, withPackedValues, type Column, type NumberColumn, type Table } from '../core/columns.ts';
 import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
 import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
@@ -131,7 +134,7 @@ export async function readBatchesInThread(
     const segmentRequest = (job: SegmentJob): ToReader => ({
       type: 'segment',
       id: 0,
-      request: { job, names: started.names, delimiter: started.delimiter, encodingGuessed: started.encodingGuessed, columnHints: started.columnHints },
+      request: { job, names: started.names, delimiter: started.delimiter, encodingGuessed: started.encodingGuessed, columnHints: started.columnHints, packValues: true },
     });
     // Segments handed out, in file order: [job, message id].
     const handedOut: [SegmentJob, number][] = [];
@@ -149,7 +152,7 @@ export async function readBatchesInThread(
       const placement = order.check(job, segment.start);
       if (placement.kind === 'take') {
         order.advance(segment);
-        await onBatch(rebaseRows(segment.table, placement.rowOffset, placement.lineOffset), placement.rowOffset, segment.bytesRead);
+        await onBatch(rebaseRows(arrivedTable(segment.table), placement.rowOffset, placement.lineOffset), placement.rowOffset, segment.bytesRead);
       } else if (placement.kind === 'redo') {
         // It began inside a quoted field: read again from the true boundary, before anything later.
         handedOut.unshift([placement.job, inbox.send(inbox.leastBusy(), segmentRequest(placement.job))]);
@@ -410,8 +413,29 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
     if (!reader.push(buffer.subarray(0, read))) break;
   }
   const result = reader.finish(atEnd);
-  const message: FromReader = { type: 'segment', id, bytesRead: position, ...result };
+  const message: FromReader = { type: 'segment', id, bytesRead: position, ...result, table: crossingTable(result.table) };
   port.postMessage(message, tableBuffers(result.table));
+}
+
+/**
+ * A table as it crosses to another thread: a column with packed values goes without `values`,
+ * which structured cloning would read, and so make, string by string; `arrivedTable` puts them
+ * back on the other side.
+ */
+function crossingTable(table: Table): Table {
+  const columns = table.columns.map((column): Column => {
+    if (column.kind !== 'text' || column.packed === undefined) return column;
+    const { kind, name, length, codes, counts, packed } = column;
+    // Not a whole TextColumn while it crosses (no `values`): arrivedTable makes it one again.
+    return { kind, name, length, codes, counts, packed } as unknown as Column;
+  });
+  return { ...table, columns };
+}
+
+/** A table from another thread, its packed columns given back `values` made when first read. */
+function arrivedTable(table: Table): Table {
+  const columns = table.columns.map((column) => (column.kind === 'text' && column.packed !== undefined ? withPackedValues(column, column.packed) : column));
+  return { ...table, columns };
 }
 
 function post(port: NonNullable<typeof parentPort>, message: Extract<FromReader, { type: 'batch' }>): void {

@@ -11,7 +11,7 @@
  * fixed-decimal exports ('12.50') leave the dictionary too; tolerating a few other texts lets a
  * measurement with missing-value spellings ('NA', 'n/a') or the odd grouped number leave it.
  */
-import type { Column, HeaderIssue, RowIssue, Table } from './columns.ts';
+import { withPackedValues, type Column, type HeaderIssue, type RowIssue, type Table } from './columns.ts';
 import { hashBytes, plainFields, type PlainRecords } from './parse.ts';
 import { utf8Bytes, utf8Text } from './utf8-text.ts';
 
@@ -203,14 +203,24 @@ export class ColumnBuilder {
     }
   }
 
-  /** The column as built so far. The builder must not be used afterwards. */
-  build(): Column {
+  /**
+   * The column as built so far. The builder must not be used afterwards. With `packValues`, a
+   * column of mostly distinct ASCII values (an identifier) keeps them as their bytes, made into
+   * strings only when read (columns.ts `withPackedValues`).
+   */
+  build(packValues = false): Column {
     if (this.numbers !== null) {
       return { kind: 'number', name: this.name, length: this.length, values: this.numbers, exceptions: this.exceptions ?? new Map(), fixedDigits: this.fixedDigits };
     }
     // A plain loop: Array.from goes through the typed array's iterator, ~100 ms for a million values.
     const counts = new Array<number>(this.values.length);
     for (let code = 0; code < counts.length; code++) counts[code] = this.counts[code]!;
+    if (packValues && this.asciiBytes && 2 * this.values.length > this.length) {
+      const starts = this.valueStart.subarray(0, counts.length + 1);
+      const packed = { bytes: this.valueBytes.subarray(0, starts[counts.length]!), starts };
+      this.table = new Int32Array(0);
+      return withPackedValues({ kind: 'text', name: this.name, length: this.length, codes: this.codes, counts }, packed);
+    }
     const values = this.valueTexts();
     // Needed no more; a reader kept alive must not keep them (tens of MB for a million values).
     this.table = new Int32Array(0);
@@ -680,10 +690,11 @@ export class TableBuilder {
     this.lineOfRow[this.rows++] = line;
   }
 
-  build(): Table {
+  /** With `packValues`, identifier-like columns keep their values as bytes (ColumnBuilder.build). */
+  build(packValues = false): Table {
     return {
       names: this.names,
-      columns: this.columns.map((column) => column.build()),
+      columns: this.columns.map((column) => column.build(packValues)),
       rowCount: this.rows,
       lineOfRow: this.lineOfRow.subarray(0, this.rows),
       rowIssues: this.rowIssues,

@@ -9,8 +9,16 @@
  * (see columns-builder.ts), so a measurement column never holds a million strings.
  */
 
+import { utf8Text } from './utf8-text.ts';
+
 /** Raw text of one cell exactly as parsed (not trimmed). */
 export type Cell = string;
+
+/** ASCII texts one after another: text c is the bytes [starts[c], starts[c + 1]). */
+export interface PackedTexts {
+  readonly bytes: Uint8Array;
+  readonly starts: Int32Array;
+}
 
 export interface TextColumn {
   readonly kind: 'text';
@@ -23,6 +31,12 @@ export interface TextColumn {
   readonly values: readonly string[];
   /** counts[code] = number of rows holding values[code]. */
   readonly counts: readonly number[];
+  /**
+   * The values as their bytes, when the column was built to cross to another thread without a
+   * string per value (`withPackedValues`): `values` are then made from them only when first read,
+   * and a writer that only copies them (an identifier passed through) never makes them at all.
+   */
+  readonly packed?: PackedTexts;
 }
 
 /**
@@ -92,6 +106,26 @@ export function cellText(column: Column, row: number): string {
 }
 
 /**
+ * A text column whose `values` are made from `packed` (ASCII) the first time they are read. Reading
+ * `values` is then the only cost: a column read on another thread and passed through to the
+ * output unchanged (an identifier) needs its million strings neither made there, nor copied
+ * across, nor made here.
+ */
+export function withPackedValues(column: Omit<TextColumn, 'values' | 'packed'>, packed: PackedTexts): TextColumn {
+  let values: string[] | null = null;
+  const made = (): string[] => {
+    const { bytes, starts } = packed;
+    const count = starts.length - 1;
+    const all = utf8Text(bytes, 0, starts[count] ?? 0);
+    values = new Array<string>(count);
+    for (let code = 0; code < count; code++) values[code] = all.slice(starts[code]!, starts[code + 1]!);
+    return values;
+  };
+  const { kind, name, length, codes, counts } = column;
+  return Object.defineProperty({ kind, name, length, codes, counts, packed }, 'values', { enumerable: true, get: () => values ?? made() }) as TextColumn;
+}
+
+/**
  * The buffers a table's typed arrays hold, each its own: what to transfer (not copy) when the table
  * is handed to another thread. The table must not be used on this side afterwards.
  */
@@ -102,8 +136,13 @@ export function tableBuffers(table: Table): ArrayBuffer[] {
   };
   add(table.lineOfRow);
   for (const column of table.columns) {
-    if (column.kind === 'text') add(column.codes);
-    else {
+    if (column.kind === 'text') {
+      add(column.codes);
+      if (column.packed !== undefined) {
+        add(column.packed.bytes);
+        add(column.packed.starts);
+      }
+    } else {
       add(column.values);
       add(column.fixedDigits);
     }

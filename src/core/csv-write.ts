@@ -12,11 +12,12 @@
  *     (formatting a double is the costliest step of writing); a number column read from a
  *     dictionary looks its number up once per code of the batch, not once per cell;
  *   - a text cell (an identifier): made once per code of the batch, quoted and neutralised as
- *     textCell does; plain texts (most identifiers) are copied while they are checked.
+ *     textCell does; plain texts (most identifiers) are copied while they are checked, from their
+ *     bytes when the column kept them so (columns.ts `withPackedValues`), no string made.
  * All pieces live in one byte array. A batch is first turned into a piece number per row and
  * column, column by column; the row loop then only copies bytes, the same way for every column.
  */
-import { cellText, type Column } from './columns.ts';
+import { cellText, type Column, type PackedTexts } from './columns.ts';
 import { numberCell, textCell } from './csv-cell.ts';
 import type { EncodedBatch, EncodedColumn } from './apply.ts';
 import { ALL_ZEROS, type CategoricalPlan, type Plan } from './plan.ts';
@@ -120,6 +121,40 @@ class Pieces {
       if (startsLikeFormula(text)) return this.undo(mark);
       for (let k = 0; k < text.length; k++) {
         const c = text.charCodeAt(k);
+        if (c >= 0x80 || c === QUOTE || c === COMMA || c === CR || c === LF) return this.undo(mark);
+        bytes[at++] = c;
+      }
+      if (lineEnd) {
+        bytes[at++] = CR;
+        bytes[at++] = LF;
+      }
+      bounds[2 * p++ + 1] = at;
+    }
+    const first = this.count;
+    this.count = p;
+    this.used = at;
+    return first;
+  }
+
+  /** addPlainRun for texts held as ASCII bytes (PackedTexts): the same pieces, or −1 with nothing added. */
+  addPlainBytesRun({ bytes: from, starts }: PackedTexts, { before, after }: Separators): number {
+    const mark = this.mark();
+    const count = starts.length - 1;
+    this.reserve(starts[count]! - starts[0]! + count * (before.length + after.length));
+    this.reservePieces(count);
+    const { bytes, bounds } = this;
+    const comma = before.length > 0;
+    const lineEnd = after.length > 0;
+    let at = this.used;
+    let p = this.count;
+    for (let text = 0; text < count; text++) {
+      const start = starts[text]!;
+      const end = starts[text + 1]!;
+      bounds[2 * p] = at;
+      if (comma) bytes[at++] = COMMA;
+      if (end > start && startsFormula(from[start]!)) return this.undo(mark);
+      for (let k = start; k < end; k++) {
+        const c = from[k]!;
         if (c >= 0x80 || c === QUOTE || c === COMMA || c === CR || c === LF) return this.undo(mark);
         bytes[at++] = c;
       }
@@ -463,7 +498,10 @@ function maxOf(codes: Uint32Array, rows: number): number {
 
 /** OWASP "CSV Injection" starts (see csv-cell.ts): =, +, -, @, tab, CR, LF. */
 function startsLikeFormula(text: string): boolean {
-  const first = text.charCodeAt(0);
+  return startsFormula(text.charCodeAt(0));
+}
+
+function startsFormula(first: number): boolean {
   return first === 0x3d || first === 0x2b || first === 0x2d || first === 0x40 || first === 9 || first === CR || first === LF;
 }
 
@@ -478,10 +516,13 @@ function textPieceOfRow(
   if (source === null) {
     texts = [''];
     for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = 0;
-  } else if (source.kind === 'text' && source.values.length <= 2 * rows) {
-    // The rows use most of the dictionary: a piece for every code.
-    texts = source.values;
+  } else if (source.kind === 'text' && source.counts.length <= 2 * rows) {
+    // The rows use most of the dictionary: a piece for every code, from the values' bytes when
+    // the column kept them (no string made), else from the values.
     for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = source.codes[start + r]!;
+    const packed = source.packed === undefined ? -1 : pieces.addPlainBytesRun(source.packed, separators);
+    if (packed !== -1) return finishTextPieces(packed, source.counts.length, rows, pieceOf, w, n, pieces);
+    texts = source.values;
   } else if (source.kind === 'text') {
     // A few rows of a big dictionary (a window of a whole table): pieces for the codes they use.
     const used: string[] = [];
@@ -505,10 +546,14 @@ function textPieceOfRow(
     }
     texts = cells;
   }
-  const first = addTextPieces(texts, pieces, separators, encoder);
+  return finishTextPieces(addTextPieces(texts, pieces, separators, encoder), texts.length, rows, pieceOf, w, n, pieces);
+}
+
+/** The rows' pieces counted from `first`, the first of `count` pieces added; returns the longest. */
+function finishTextPieces(first: number, count: number, rows: number, pieceOf: Int32Array, w: number, n: number, pieces: Pieces): number {
   for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = pieceOf[i]! + first;
   let longest = 0;
-  for (let p = first; p < first + texts.length; p++) longest = Math.max(longest, pieces.length(p));
+  for (let p = first; p < first + count; p++) longest = Math.max(longest, pieces.length(p));
   return longest;
 }
 

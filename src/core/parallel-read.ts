@@ -26,6 +26,8 @@ export interface SegmentRequest {
   readonly encodingGuessed: boolean;
   readonly columnHints: ColumnHints | null;
   readonly dictionaryCap?: number;
+  /** See ReadOptions.packValues: for segments whose tables are written out on the thread that takes them. */
+  readonly packValues?: boolean;
 }
 
 /** Reads one segment on its thread; rejects with the reader's error (a LevelwiseError for bad bytes). */
@@ -44,6 +46,7 @@ export function segmentReaderFor(request: SegmentRequest, fileBytes: number): Se
     totalBytes: Math.min(job.stopAt, fileBytes) - job.firstByte,
     ...(request.columnHints === null ? {} : { columnHints: request.columnHints }),
     ...(request.dictionaryCap === undefined ? {} : { dictionaryCap: request.dictionaryCap }),
+    ...(request.packValues === true ? { packValues: true } : {}),
   });
 }
 

@@ -42,6 +42,8 @@ export interface SegmentOptions {
   readonly columnHints?: ColumnHints;
   /** The segment's size in bytes, for sizing its storage (see ReadOptions.totalBytes). */
   readonly totalBytes?: number;
+  /** See ReadOptions.packValues. */
+  readonly packValues?: boolean;
 }
 
 export interface SegmentResult {
@@ -109,6 +111,7 @@ export function createSegmentReader(options: SegmentOptions): SegmentReader {
     ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }),
     ...(options.batchRows === undefined ? {} : { batchRows: options.batchRows, onBatch: options.onBatch }),
     ...(options.columnHints === undefined ? {} : { columnHints: options.columnHints }),
+    ...(options.packValues === true ? { packValues: true } : {}),
   });
   const parser = new RecordParser(rows, { delimiter: options.delimiter, lineBreak: '\n' });
   const delimiterByte = options.delimiter.charCodeAt(0);

@@ -51,6 +51,11 @@ export interface ReadOptions {
    * of the same file): the first batch, or the table, starts sized and stored like them.
    */
   readonly columnHints?: ColumnHints;
+  /**
+   * Keep identifier-like columns' values as bytes, made into strings only when read
+   * (ColumnBuilder.build): for tables that cross to another thread to be written out.
+   */
+  readonly packValues?: boolean;
 }
 
 /** Per column, its distinct values in a batch and whether it ended in number storage. */
@@ -348,7 +353,7 @@ export class RowCollector implements RecordSink {
    */
   finish(): Table {
     if (this.builder === null) throw emptyFileError('The file has no header row: it holds only empty lines.');
-    if (this.batchRows === Infinity) return this.builder.build();
+    if (this.batchRows === Infinity) return this.builder.build(this.options.packValues);
     if (this.builder.rowCount > 0 || this.batchStart === 0) this.handOver();
     return new TableBuilder(this.names ?? [], { firstRowIndex: this.batchStart, headerIssues: this.headerIssues }).build();
   }
@@ -381,7 +386,7 @@ export class RowCollector implements RecordSink {
   private handOver(): void {
     const builder = this.builder!;
     if (builder.rowCount >= this.batchRows || this.hints === null) this.hints = { distinct: builder.distinct, numbers: builder.numberColumns };
-    const batch = builder.build();
+    const batch = builder.build(this.options.packValues);
     this.options.onBatch?.(batch, this.batchStart);
     this.batchStart += batch.rowCount;
     this.builder = this.newBuilder();

@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { ColumnBuilder, TableBuilder, numberValue, printsBack } from '../../src/core/columns-builder.ts';
-import { cellText, type Column, type NumberColumn, type TextColumn } from '../../src/core/columns.ts';
+import { cellText, tableBuffers, type Column, type NumberColumn, type TextColumn } from '../../src/core/columns.ts';
 import { hashBytes } from '../../src/core/parse.ts';
 import { readTable } from '../../src/core/read-table.ts';
 import { encodeUtf8 } from '../../src/core/utf8-text.ts';
@@ -250,5 +250,42 @@ describe('the dictionary against a Map-based one, on random cells (common practi
     expect(column.values).toEqual(expected.values);
     expect(column.counts).toEqual(expected.counts);
     expect(Array.from(column.codes.subarray(0, cells.length))).toEqual(expected.codes);
+  });
+});
+
+describe('values kept as bytes (ReadOptions.packValues), for columns that cross to another thread', () => {
+  const cellsOf = (column: Column) => Array.from({ length: column.length }, (_, row) => cellText(column, row));
+
+  function packedBuild(cells: readonly string[]): TextColumn {
+    const builder = new ColumnBuilder('x');
+    for (const cell of cells) builder.push(cell);
+    return builder.build(true) as TextColumn;
+  }
+
+  it('an identifier column keeps its ASCII values as bytes, and gives the same values, counts and cells once read', () => {
+    const ids = ['ID-3', 'ID-1', 'ID-2', '=ID-4', 'ID-1'];
+    const column = packedBuild(ids);
+    expect(column.packed).toBeDefined();
+    expect(new TextDecoder().decode(column.packed!.bytes)).toBe('ID-3ID-1ID-2=ID-4');
+    expect(Array.from(column.packed!.starts)).toEqual([0, 4, 8, 12, 17]);
+    expect(column.counts).toEqual([1, 2, 1, 1]);
+    expect(column.values).toEqual(['ID-3', 'ID-1', 'ID-2', '=ID-4']);
+    expect(cellsOf(column)).toEqual(ids);
+    // The bytes cross to another thread with the codes, transferred, not copied.
+    const buffers = tableBuffers({ names: ['x'], columns: [column], rowCount: 5, lineOfRow: new Uint32Array(5), rowIssues: [], headerIssues: [] });
+    expect(buffers).toContain(column.packed!.bytes.buffer);
+  });
+
+  it('keeps strings for columns of few values, for values that are not ASCII, and for numbers', () => {
+    expect(packedBuild(['a', 'b', 'a', 'a', 'b']).packed).toBeUndefined();
+    expect(packedBuild(['Zoë', 'Ann', 'Bo']).packed).toBeUndefined();
+    const numbers = new ColumnBuilder('n', 4);
+    for (let i = 0; i < 10; i++) numbers.push(String(i * 1.5));
+    expect(numbers.build(true).kind).toBe('number');
+  });
+
+  it('spreading the column, as some code does, reads its values: they are never lost', () => {
+    const copy = { ...packedBuild(['k1', 'k2', 'k3']) };
+    expect(copy.values).toEqual(['k1', 'k2', 'k3']);
   });
 });

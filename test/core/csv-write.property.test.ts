@@ -8,7 +8,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { encodeBatch, type EncodedBatch } from '../../src/core/apply.ts';
-import { cellText, type Table } from '../../src/core/columns.ts';
+import { cellText, withPackedValues, type Column, type Table } from '../../src/core/columns.ts';
 import { numberCell, textCell } from '../../src/core/csv-cell.ts';
 import { createCsvWriter } from '../../src/core/csv-write.ts';
 import { decide, type Decision } from '../../src/core/decisions.ts';
@@ -70,6 +70,17 @@ function recipeFor(fit: Table, levels: readonly MeasurementLevel[], indicator: b
   return recipe;
 }
 
+/** The table with every text column of ASCII values holding them as bytes (columns.ts withPackedValues). */
+function packed(source: Table): Table {
+  const columns = source.columns.map((column): Column => {
+    if (column.kind !== 'text' || column.values.some((v) => /[^\x00-\x7f]/.test(v))) return column;
+    const starts = new Int32Array(column.values.length + 1);
+    column.values.forEach((v, i) => (starts[i + 1] = starts[i]! + v.length));
+    return withPackedValues(column, { bytes: new TextEncoder().encode(column.values.join('')), starts });
+  });
+  return { ...source, columns };
+}
+
 /** The plainest writer: each cell made on its own, as the rules say. */
 function referenceRows(plan: Plan, source: Table, batch: EncodedBatch): string {
   let text = '';
@@ -126,6 +137,23 @@ describe('the CSV writer writes what the plainest writer writes', () => {
           expect(bytes).toEqual(want);
           expect(reported).toBe(want.length);
         }
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it('with text columns that kept their values as bytes (read on another thread): the same bytes', () => {
+    fc.assert(
+      fc.property(scenario, (s) => {
+        // ASCII cells (only those are kept as bytes), the first column an identifier.
+        const ascii = (rows: readonly (readonly string[])[]) => rows.map((row) => row.map((cell) => cell.replace(/[^\x00-\x7f]/g, '?')));
+        const fit = table(ascii(s.fitRows), 4096);
+        const recipe = recipeFor(fit, ['identifier', ...s.levels.slice(1)], s.indicator, s.strict);
+        const source = packed(table(ascii(s.applyRows), s.dictionaryCap));
+        const plan = compilePlan(recipe, source.names);
+        // Whole tables as batches, as the command line writes each segment read on another thread.
+        const { bytes, expected } = written(plan, source, source.rowCount, s.bufferBytes);
+        expect(bytes).toEqual(new TextEncoder().encode(expected));
       }),
       { numRuns: 150 },
     );
