@@ -136,10 +136,9 @@ export class ColumnBuilder {
   pushField(records: PlainRecords, field: number, from: number, to: number): void {
     const { bytes, bounds, hashes, width } = records;
     const stride = width + 1;
-    const cellWords = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     let r = from;
     while (r < to) {
-      if (this.numbers === null && !this.ascending) r = this.pushKnownValues(records, cellWords, field, r, to);
+      if (this.numbers === null && !this.ascending) r = this.pushKnownValues(records, field, r, to);
       if (r === to) break;
       // A new value (or number storage, or an ascending run): the general path, one cell.
       const at = r * stride + field;
@@ -153,8 +152,8 @@ export class ColumnBuilder {
    * values already in the dictionary, from record `from` on, up to the first new value (the
    * general path adds it). Returns the record it stopped at.
    */
-  private pushKnownValues(records: PlainRecords, cellWords: DataView, field: number, from: number, to: number): number {
-    const { bytes, bounds, hashes, width } = records;
+  private pushKnownValues(records: PlainRecords, field: number, from: number, to: number): number {
+    const { bytes, words: cellWords, bounds, hashes, width } = records;
     const stride = width + 1;
     let room = Math.max(INITIAL_CAPACITY, this.codes.length);
     while (room < this.length + (to - from)) room *= 2;
