@@ -87,6 +87,8 @@ const LF = 0x0a;
 
 /** The scanner stopped before a record that is not complete yet (more bytes may follow). */
 const INCOMPLETE = -1;
+/** A record holds a quote never closed (readQuotedRecord): it goes the way that reports it. */
+const UNCLOSED = -2;
 
 /** A block of plain records is handed on once its bounds fill this many entries (1 MB). */
 const BLOCK_BOUNDS = 1 << 18;
@@ -132,6 +134,24 @@ export class RecordParser {
     hashes: new Int32Array(1 << 12),
     lines: new Int32Array(1 << 8),
   };
+  /**
+   * Records with a quoted field, handed on as plain records too: their fields' bytes, quotes taken
+   * off and `""` made one quote, one after another in `bytes` (a field's end is followed by one
+   * spare byte, as in the file a delimiter follows it), with their hashes.
+   */
+  private readonly quoted = {
+    bytes: new Uint8Array(1 << 12),
+    words: EMPTY_WORDS as DataView,
+    count: 0,
+    width: 0,
+    bounds: new Int32Array(1 << 8),
+    hashes: new Int32Array(1 << 8),
+    lines: new Int32Array(1 << 4),
+  };
+  /** Bytes of `quoted.bytes` in use. */
+  private quotedUsed = 0;
+  /** Where each field of the record being read ends in `quoted.bytes`. */
+  private fieldEnds = new Int32Array(1 << 6);
   /** Where scanPlainRecords met a record holding a quoted field; -1 when it did not. */
   private quotedAt = -1;
   /** Position in the pushed bytes of the first pending byte (input[0] of the next scan). */
@@ -250,7 +270,7 @@ export class RecordParser {
       at = plainEnd;
       if (at === input.length || this.quotedAt !== at) continue;
       // The record at `at` has a field that starts with a quote.
-      const quotedEnd = this.scanQuotedRecord(input, at, final);
+      const quotedEnd = this.sink.plainRecords === undefined ? this.scanQuotedRecord(input, at, final) : this.scanQuotedRecords(input, at, final, limit);
       if (quotedEnd === INCOMPLETE) return at;
       at = quotedEnd;
     }
@@ -360,6 +380,128 @@ export class RecordParser {
     if (this.sink.plainRecords !== undefined) this.sink.plainRecords(block);
     else for (let r = 0; r < block.count; r++) this.sink.record(plainFields(block, r), block.lines[r] ?? 0, false);
     block.count = 0;
+  }
+
+  /**
+   * Reads the record at `start`, which has a quoted field, and the records after it for as long as
+   * they start with a quote (an export that quotes every field), as plain records over their
+   * unescaped bytes: no string is made per cell. Returns where the next record starts, or
+   * INCOMPLETE when the input does not complete the first one yet. A quote never closed goes the
+   * way of scanQuotedRecord, which reports it.
+   */
+  private scanQuotedRecords(input: Uint8Array, start: number, final: boolean, limit: number): number {
+    let cursor = start;
+    do {
+      const next = this.readQuotedRecord(input, cursor, final);
+      if (next === INCOMPLETE) break;
+      if (next === UNCLOSED) {
+        this.flushQuoted();
+        return this.scanQuotedRecord(input, cursor, final);
+      }
+      cursor = next;
+    } while (cursor < input.length && cursor < limit && input[cursor] === QUOTE);
+    this.flushQuoted();
+    return cursor === start ? INCOMPLETE : cursor;
+  }
+
+  /**
+   * Adds the record at `start` to the block of quoted records; returns where the next record
+   * starts, INCOMPLETE when the input does not complete it yet (nothing added), or UNCLOSED when
+   * one of its quotes is never closed (nothing added).
+   */
+  private readQuotedRecord(input: Uint8Array, start: number, final: boolean): number {
+    const delimiter = this.delimiterByte;
+    const lineBreak = this.lineBreak === '\n' ? LF : CR;
+    const recordStart = this.quotedUsed;
+    // Unescaping only shortens a field: the record's bytes plus a spare byte per field fit here.
+    this.reserveQuoted(recordStart + 2 * (input.length - start) + 2);
+    const bytes = this.quoted.bytes;
+    let used = recordStart;
+    let count = 0;
+    let cursor = start;
+    for (;;) {
+      let next: number;
+      let endsRecord: boolean;
+      let endsWithBreak: boolean;
+      let quoted = false;
+      if (input[cursor] === QUOTE) {
+        const field = quotedFieldEnd(input, cursor, delimiter, lineBreak, final);
+        if (field === null) return INCOMPLETE;
+        if (field.close === -1) return UNCLOSED;
+        used = copyUnescaped(input, cursor + 1, field.close, bytes, used);
+        ({ next, endsRecord, endsWithBreak } = field);
+        quoted = true;
+      } else {
+        const nextDelimiter = input.indexOf(delimiter, cursor);
+        const nextBreak = input.indexOf(lineBreak, cursor);
+        let end: number;
+        if (nextDelimiter !== -1 && (nextBreak === -1 || nextDelimiter < nextBreak)) [end, endsRecord, endsWithBreak] = [nextDelimiter, false, false];
+        else if (nextBreak !== -1) [end, endsRecord, endsWithBreak] = [nextBreak, true, true];
+        else if (final) [end, endsRecord, endsWithBreak] = [input.length, true, false];
+        else return INCOMPLETE;
+        bytes.set(input.subarray(cursor, end), used);
+        used += end - cursor;
+        next = end < input.length ? end + 1 : end;
+      }
+      // In LF mode a CR right before the LF ends the record with it; a quoted field keeps its own.
+      if (endsWithBreak && !quoted && lineBreak === LF && used > (count === 0 ? recordStart : this.fieldEnds[count - 1]! + 1) && input[next - 2] === CR) used--;
+      if (count === this.fieldEnds.length) this.fieldEnds = growInt32(this.fieldEnds);
+      this.fieldEnds[count++] = used;
+      used++; // the spare byte after a field (see `quoted`)
+      cursor = next;
+      if (endsRecord) break;
+    }
+    this.addQuotedRecord(recordStart, count, this.line);
+    this.line += countByte(input, lineBreak, start, cursor);
+    return cursor;
+  }
+
+  /** The record whose `count` fields were just copied from `recordStart` on joins the block. */
+  private addQuotedRecord(recordStart: number, count: number, line: number): void {
+    const block = this.quoted;
+    if (block.count > 0 && count !== block.width) {
+      // A record of another width starts a new block: hand over the others, keep this one.
+      const end = this.fieldEnds[count - 1]! + 1;
+      this.flushQuoted();
+      block.bytes.copyWithin(0, recordStart, end);
+      for (let f = 0; f < count; f++) this.fieldEnds[f] = this.fieldEnds[f]! - recordStart;
+      recordStart = 0;
+    }
+    block.width = count;
+    let b = block.count * (count + 1);
+    while (b + count + 1 > block.bounds.length) {
+      block.bounds = growInt32(block.bounds);
+      block.hashes = growInt32(block.hashes);
+    }
+    if (block.count === block.lines.length) block.lines = growInt32(block.lines);
+    let fieldStart = recordStart;
+    for (let f = 0; f < count; f++, b++) {
+      const end = this.fieldEnds[f]!;
+      block.bounds[b] = fieldStart;
+      block.hashes[b] = hashBytes(block.bytes, fieldStart, end);
+      fieldStart = end + 1;
+    }
+    block.bounds[b] = fieldStart;
+    block.lines[block.count++] = line;
+    this.quotedUsed = fieldStart;
+  }
+
+  private reserveQuoted(bytes: number): void {
+    if (bytes <= this.quoted.bytes.length) return;
+    const bigger = new Uint8Array(Math.max(bytes, 2 * this.quoted.bytes.length));
+    bigger.set(this.quoted.bytes.subarray(0, this.quotedUsed));
+    this.quoted.bytes = bigger;
+  }
+
+  /** Hands the block of quoted records to the sink. */
+  private flushQuoted(): void {
+    const block = this.quoted;
+    if (block.count > 0) {
+      block.words = new DataView(block.bytes.buffer, block.bytes.byteOffset, block.bytes.byteLength);
+      this.sink.plainRecords!(block);
+    }
+    block.count = 0;
+    this.quotedUsed = 0;
   }
 
   /**
@@ -502,25 +644,43 @@ function readUnquotedField(input: Uint8Array, at: number, delimiter: number, lin
  * null when the text may go on.
  */
 function readQuotedField(input: Uint8Array, open: number, delimiter: number, lineBreak: number, final: boolean): FieldRead | null {
+  const field = quotedFieldEnd(input, open, delimiter, lineBreak, final);
+  if (field === null) return null;
+  const { close, next, endsRecord, endsWithBreak } = field;
+  if (close === -1) return { value: utf8Text(input, open + 1, input.length), next, endsRecord, endsWithBreak, quoted: true, unclosed: true };
+  return { value: unescapedText(input, open + 1, close), next, endsRecord, endsWithBreak, quoted: true, unclosed: false };
+}
+
+/**
+ * Where the field starting with a quote at `open` ends: its closing quote (`close`; −1 when it is
+ * never closed, and the field is the rest of the text), where the next field or record starts,
+ * and whether the record ends with it. The rules are readQuotedField's. null when the text may go on.
+ */
+function quotedFieldEnd(
+  input: Uint8Array, open: number, delimiter: number, lineBreak: number, final: boolean,
+): { close: number; next: number; endsRecord: boolean; endsWithBreak: boolean } | null {
   const n = input.length;
   for (let quote = input.indexOf(QUOTE, open + 1); ; quote = input.indexOf(QUOTE, quote + 2)) {
-    if (quote === -1) {
-      if (!final) return null;
-      return { value: utf8Text(input, open + 1, n), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: true };
-    }
-    if (quote === n - 1) {
-      if (!final) return null;
-      return { value: unescapedText(input, open + 1, quote), next: n, endsRecord: true, endsWithBreak: false, quoted: true, unclosed: false };
-    }
+    if (quote === -1) return final ? { close: -1, next: n, endsRecord: true, endsWithBreak: false } : null;
+    if (quote === n - 1) return final ? { close: quote, next: n, endsRecord: true, endsWithBreak: false } : null;
     if (input[quote + 1] === QUOTE) continue; // "" is an escaped quote: search on after the pair
     const after = firstOf(input, delimiter, lineBreak, quote + 1);
     if (after !== -1 && isBlank(input, quote + 1, after)) {
-      const value = unescapedText(input, open + 1, quote);
       const endsRecord = input[after] !== delimiter;
-      return { value, next: after + 1, endsRecord, endsWithBreak: endsRecord, quoted: true, unclosed: false };
+      return { close: quote, next: after + 1, endsRecord, endsWithBreak: endsRecord };
     }
     // Not a closing quote (text follows it): it is part of the field; search on after it.
   }
+}
+
+/** Copies input[start, end) to out at `at`, each `""` as one quote (as unescapedText); returns where it stopped writing. */
+function copyUnescaped(input: Uint8Array, start: number, end: number, out: Uint8Array, at: number): number {
+  for (let i = start; i < end; i++) {
+    const byte = input[i]!;
+    out[at++] = byte;
+    if (byte === QUOTE && i + 1 < end && input[i + 1] === QUOTE) i++;
+  }
+  return at;
 }
 
 /** The first delimiter or line break at or after `from`; -1 when there is none. */

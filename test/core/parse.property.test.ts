@@ -11,7 +11,7 @@
 import fc from 'fast-check';
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { parseRecords, plainFields, RecordParser, type Delimiter, type RecordParserOptions, type RecordSink } from '../../src/core/parse.ts';
+import { hashBytes, parseRecords, plainFields, RecordParser, type Delimiter, type RecordParserOptions, type RecordSink } from '../../src/core/parse.ts';
 import { encodeUtf8 } from '../../src/core/utf8-text.ts';
 import { PapaparseRecordParser } from './helpers/papaparse-record-parser.ts';
 
@@ -39,6 +39,10 @@ function collector(plain: boolean): { sink: RecordSink; parsed: Parsed } {
       for (let r = 0; r < block.count; r++) {
         parsed.records.push(plainFields(block, r));
         parsed.lines.push(block.lines[r]!);
+        // Each field's hash is the one hashBytes gives its bytes (the dictionaries look cells up by it).
+        for (let f = 0, i = r * (block.width + 1); f < block.width; f++, i++) {
+          expect(block.hashes[i]).toBe(hashBytes(block.bytes, block.bounds[i]!, block.bounds[i + 1]! - 1));
+        }
       }
     };
   }
