@@ -11,8 +11,12 @@
  *   fields the way papaparse's parser does, down to its handling of malformed quoting: a quote
  *   closes a field only when blanks and then a delimiter, a line break or the end of the text
  *   follow it; `""` inside is one quote; any other quote is kept as text; a quote never closed
- *   keeps the rest of the text, unchanged, in the field (reported as an unclosed quote).
- *   test/core/parse.property.test.ts checks both paths against papaparse on random text.
+ *   keeps the rest of the text, unchanged, in the field (reported as an unclosed quote). For a
+ *   sink that takes plain records, such records (and the ones after them that also start with a
+ *   quote, as in exports that quote every field) are handed on as plain records as well: their
+ *   fields' bytes, unescaped, copied into a block of their own (`quoted`); only a record with a
+ *   quote never closed comes through `record`.
+ *   test/core/parse.property.test.ts checks every path against papaparse on random text.
  * - A quote inside an unquoted field is text (`12"`), as in papaparse.
  * - A record is handed on only once its line break is seen (or the text ends), so the records do
  *   not depend on where the chunks were cut, even inside a character.
