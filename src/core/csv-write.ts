@@ -104,43 +104,25 @@ class Pieces {
    * plain (ASCII, no quote, comma, CR or LF, no formula start: textCell would leave it as it is).
    * Returns the first piece; or −1, having added nothing, when one is not plain.
    */
-  addPlainRun(texts: readonly string[], { before, after }: Separators): number {
-    const mark = this.mark();
+  addPlainRun(texts: readonly string[], separators: Separators): number {
     let length = 0;
     for (const text of texts) length += text.length;
-    this.reserve(length + texts.length * (before.length + after.length));
-    this.reservePieces(texts.length);
-    const { bytes, bounds } = this;
-    const comma = before.length > 0;
-    const lineEnd = after.length > 0;
-    let at = this.used;
-    let p = this.count;
-    for (const text of texts) {
-      bounds[2 * p] = at;
-      if (comma) bytes[at++] = COMMA;
-      if (startsLikeFormula(text)) return this.undo(mark);
-      for (let k = 0; k < text.length; k++) {
-        const c = text.charCodeAt(k);
-        if (c >= 0x80 || c === QUOTE || c === COMMA || c === CR || c === LF) return this.undo(mark);
-        bytes[at++] = c;
-      }
-      if (lineEnd) {
-        bytes[at++] = CR;
-        bytes[at++] = LF;
-      }
-      bounds[2 * p++ + 1] = at;
-    }
-    const first = this.count;
-    this.count = p;
-    this.used = at;
-    return first;
+    return this.addRun(texts.length, length, separators, (t, bytes, at) => copyPlainText(texts[t]!, bytes, at));
   }
 
   /** addPlainRun for texts held as ASCII bytes (PackedTexts): the same pieces, or −1 with nothing added. */
-  addPlainBytesRun({ bytes: from, starts }: PackedTexts, { before, after }: Separators): number {
-    const mark = this.mark();
+  addPlainBytesRun({ bytes: from, starts }: PackedTexts, separators: Separators): number {
     const count = starts.length - 1;
-    this.reserve(starts[count]! - starts[0]! + count * (before.length + after.length));
+    return this.addRun(count, starts[count]! - starts[0]!, separators, (t, bytes, at) => copyPlainBytes(from, starts[t]!, starts[t + 1]!, bytes, at));
+  }
+
+  /**
+   * `count` texts of `length` bytes in all as consecutive pieces with their separators; `copy`
+   * writes text t at `at` and says where it stopped, or −1 for a text that is not plain.
+   */
+  private addRun(count: number, length: number, { before, after }: Separators, copy: (text: number, bytes: Uint8Array, at: number) => number): number {
+    const mark = this.mark();
+    this.reserve(length + count * (before.length + after.length));
     this.reservePieces(count);
     const { bytes, bounds } = this;
     const comma = before.length > 0;
@@ -148,16 +130,10 @@ class Pieces {
     let at = this.used;
     let p = this.count;
     for (let text = 0; text < count; text++) {
-      const start = starts[text]!;
-      const end = starts[text + 1]!;
       bounds[2 * p] = at;
       if (comma) bytes[at++] = COMMA;
-      if (end > start && startsFormula(from[start]!)) return this.undo(mark);
-      for (let k = start; k < end; k++) {
-        const c = from[k]!;
-        if (c >= 0x80 || c === QUOTE || c === COMMA || c === CR || c === LF) return this.undo(mark);
-        bytes[at++] = c;
-      }
+      at = copy(text, bytes, at);
+      if (at < 0) return this.undo(mark);
       if (lineEnd) {
         bytes[at++] = CR;
         bytes[at++] = LF;
@@ -494,6 +470,33 @@ function maxOf(codes: Uint32Array, rows: number): number {
   let max = 0;
   for (let r = 0; r < rows; r++) if (codes[r]! > max) max = codes[r]!;
   return max;
+}
+
+/** Copies a plain text (see addPlainRun) to `bytes` at `at`; returns where it stopped, or −1 when it is not plain. */
+function copyPlainText(text: string, bytes: Uint8Array, at: number): number {
+  if (startsLikeFormula(text)) return -1;
+  for (let k = 0; k < text.length; k++) {
+    const c = text.charCodeAt(k);
+    if (!isPlainByte(c)) return -1;
+    bytes[at++] = c;
+  }
+  return at;
+}
+
+/** copyPlainText for a text held as bytes, from[start, end). */
+function copyPlainBytes(from: Uint8Array, start: number, end: number, bytes: Uint8Array, at: number): number {
+  if (end > start && startsFormula(from[start]!)) return -1;
+  for (let k = start; k < end; k++) {
+    const c = from[k]!;
+    if (!isPlainByte(c)) return -1;
+    bytes[at++] = c;
+  }
+  return at;
+}
+
+/** A character a plain text may hold: ASCII other than the quote, the comma, CR and LF. */
+function isPlainByte(c: number): boolean {
+  return c < 0x80 && c !== QUOTE && c !== COMMA && c !== CR && c !== LF;
 }
 
 /** OWASP "CSV Injection" starts (see csv-cell.ts): =, +, -, @, tab, CR, LF. */

@@ -129,29 +129,13 @@ export class RecordParser {
   /** Line on which the pending bytes start. */
   private line = 1;
   /** Plain records collected for the sink (see PlainRecords); the arrays grow as needed. */
-  private readonly block = {
-    bytes: EMPTY_BYTES as Uint8Array,
-    words: EMPTY_WORDS as DataView,
-    count: 0,
-    width: 0,
-    bounds: new Int32Array(1 << 12),
-    hashes: new Int32Array(1 << 12),
-    lines: new Int32Array(1 << 8),
-  };
+  private readonly block = recordBlock(EMPTY_BYTES, 1 << 12, 1 << 8);
   /**
    * Records with a quoted field, handed on as plain records too: their fields' bytes, quotes taken
    * off and `""` made one quote, one after another in `bytes` (a field's end is followed by one
    * spare byte, as in the file a delimiter follows it), with their hashes.
    */
-  private readonly quoted = {
-    bytes: new Uint8Array(1 << 12),
-    words: EMPTY_WORDS as DataView,
-    count: 0,
-    width: 0,
-    bounds: new Int32Array(1 << 8),
-    hashes: new Int32Array(1 << 8),
-    lines: new Int32Array(1 << 4),
-  };
+  private readonly quoted = recordBlock(new Uint8Array(1 << 12), 1 << 8, 1 << 4);
   /** Bytes of `quoted.bytes` in use. */
   private quotedUsed = 0;
   /** Where each field of the record being read ends in `quoted.bytes`. */
@@ -532,6 +516,11 @@ export class RecordParser {
       return cursor;
     }
   }
+}
+
+/** An empty block of plain records over `bytes`, its arrays made for `bounds` fields and `lines` records; they grow as needed. */
+function recordBlock(bytes: Uint8Array, bounds: number, lines: number) {
+  return { bytes, words: EMPTY_WORDS as DataView, count: 0, width: 0, bounds: new Int32Array(bounds), hashes: new Int32Array(bounds), lines: new Int32Array(lines) };
 }
 
 /** Record r of a block of plain records, as strings. */
