@@ -423,10 +423,17 @@ export class RecordParser {
         const nextDelimiter = input.indexOf(delimiter, cursor);
         const nextBreak = input.indexOf(lineBreak, cursor);
         let end: number;
-        if (nextDelimiter !== -1 && (nextBreak === -1 || nextDelimiter < nextBreak)) [end, endsRecord, endsWithBreak] = [nextDelimiter, false, false];
-        else if (nextBreak !== -1) [end, endsRecord, endsWithBreak] = [nextBreak, true, true];
-        else if (final) [end, endsRecord, endsWithBreak] = [input.length, true, false];
-        else return INCOMPLETE;
+        if (nextDelimiter !== -1 && (nextBreak === -1 || nextDelimiter < nextBreak)) {
+          end = nextDelimiter;
+          endsRecord = endsWithBreak = false;
+        } else if (nextBreak !== -1) {
+          end = nextBreak;
+          endsRecord = endsWithBreak = true;
+        } else if (final) {
+          end = input.length;
+          endsRecord = true;
+          endsWithBreak = false;
+        } else return INCOMPLETE;
         bytes.set(input.subarray(cursor, end), used);
         used += end - cursor;
         next = end < input.length ? end + 1 : end;
