@@ -67,7 +67,7 @@ export class ColumnBuilder {
    */
   private valueBytes = new Uint8Array(256);
   /** valueBytes as a DataView, for comparing four bytes at a time; replaced with valueBytes. */
-  private valueWords = new DataView(this.valueBytes.buffer);
+  private valueWords = wordsOf(this.valueBytes);
   private valueStart: Int32Array<ArrayBuffer>;
   /**
    * Hash table: slot i is table[2i] = the value's hash and table[2i + 1] = its code + 1 (0: free).
@@ -247,7 +247,7 @@ export class ColumnBuilder {
 
   private setValueBytes(bytes: Uint8Array<ArrayBuffer>): void {
     this.valueBytes = bytes;
-    this.valueWords = new DataView(bytes.buffer);
+    this.valueWords = wordsOf(bytes);
   }
 
   /** Adds the cell bytes[start, end) with its hash; `text` is its text when the caller has it. */
@@ -430,6 +430,11 @@ function compareBytes(a: Uint8Array, aStart: number, aEnd: number, b: Uint8Array
     if (difference !== 0) return difference;
   }
   return aEnd - aStart - (bEnd - bStart);
+}
+
+/** The bytes as a DataView over exactly them (a view of part of a buffer stays within it). */
+function wordsOf(bytes: Uint8Array): DataView {
+  return new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
 }
 
 /** sameBytes for length ≥ 4, four bytes at a time; the last four bytes may overlap the ones before. */
