@@ -30,11 +30,12 @@
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { tableBuffers, withPackedValues, type Column, type NumberColumn, type Table } from '../core/columns.ts';
+import { arrivedTable, crossingTable, tableBuffers, type NumberColumn, type Table } from '../core/columns.ts';
 import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
 import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { rebaseRows, type SegmentResult } from '../core/read-segment.ts';
+import { concatColumns } from '../core/concat-tables.ts';
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
 import { profileColumn, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
@@ -69,7 +70,16 @@ interface Settings {
 type ToReader =
   | { readonly type: 'start'; readonly id: number; readonly settings: Settings; readonly stopAt: number }
   | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest }
-  | { readonly type: 'profile'; readonly id: number; readonly column: NumberColumn; readonly index: number; readonly options: ProfileOptions };
+  | { readonly type: 'profile'; readonly id: number; readonly column: NumberColumn; readonly index: number; readonly options: ProfileOptions }
+  | {
+      readonly type: 'profile-parts';
+      readonly id: number;
+      /** One column's parts in file order, joined there as the table's column is joined here. */
+      readonly parts: readonly NumberColumn[];
+      readonly rowCounts: readonly number[];
+      readonly index: number;
+      readonly options: ProfileOptions;
+    };
 
 type FromReader =
   | { readonly type: 'batch'; readonly id: number; readonly table: Table; readonly firstRow: number; readonly bytesRead: number }
@@ -193,11 +203,16 @@ export async function readTableInThreads(
     if (answer.type !== 'segment') throw new Error(`reading thread: unexpected ${answer.type} message`);
     done += answer.bytesRead - request.job.firstByte;
     onBytes(Math.min(done, fileBytes));
-    return answer;
+    return { ...answer, table: arrivedTable(answer.table) };
   });
-  const parallel = readInParallel(fileBytes, runners);
+  // Number columns are profiled on the reading threads from their parts while this thread joins the table.
+  let early = new Map<number, Promise<ColumnProfile>>();
+  const onPart = (parts: readonly Table[]): void => {
+    if (profiling !== null && workers.length > 0) early = profileNumberParts(parts, profiling, inbox, workers.length);
+  };
+  const parallel = readInParallel(fileBytes, runners, { packValues: true, onPart });
   try {
-    const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop });
+    const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop, packValues: true });
     // Chunks no larger than the first segment, so that the reader can stop near its end; the first
     // one small, so that the header is known and the other threads start at once.
     const buffer = new Uint8Array(Math.min(CHUNK_BYTES, parallel.firstStop));
@@ -216,16 +231,52 @@ export async function readTableInThreads(
       closeSync(fd);
     }
     const result = await parallel.finish(reader.finish());
-    return { ...result, profiles: profiling === null ? null : await profileOnThreads(result.table, profiling, inbox, workers.length) };
+    return { ...result, profiles: profiling === null ? null : await profileOnThreads(result.table, profiling, inbox, workers.length, early) };
   } finally {
     await Promise.all(workers.map((worker) => worker.terminate()));
   }
 }
 
-/** The table's profile, its number columns handed round the reading threads (none: all here). */
-function profileOnThreads(table: Table, options: ProfileOptions, inbox: Inbox, threads: number): Promise<ColumnProfile[]> {
+/**
+ * Profiles of the columns that every part holds as numbers, each joined and profiled on a reading
+ * thread (in turn) from copies of its parts, by column index. The costly columns to profile (a
+ * million numbers sorted) so start while this thread is still joining the table.
+ */
+function profileNumberParts(parts: readonly Table[], options: ProfileOptions, inbox: Inbox, threads: number): Map<number, Promise<ColumnProfile>> {
+  const profiles = new Map<number, Promise<ColumnProfile>>();
+  const rowCounts = parts.map((part) => part.rowCount);
+  parts[0]?.columns.forEach((_, index) => {
+    const columns = parts.map((part) => part.columns[index]!);
+    if (!columns.every((column) => column.kind === 'number')) return;
+    // Copies of the rows only: the first part's arrays have room for the whole file and are joined in place.
+    const copies = columns.map((column, k) => numberRowsCopy(column, rowCounts[k]!));
+    const request: ToReader = { type: 'profile-parts', id: 0, parts: copies, rowCounts, index, options };
+    const pending = answerOf(inbox, profiles.size % threads, request);
+    pending.catch(() => undefined); // awaited later, or not at all when the read fails
+    profiles.set(index, pending);
+  });
+  return profiles;
+}
+
+function numberRowsCopy(column: NumberColumn, rows: number): NumberColumn {
+  return { ...column, values: column.values.slice(0, rows), fixedDigits: column.fixedDigits?.slice(0, rows) ?? null };
+}
+
+async function answerOf(inbox: Inbox, worker: number, request: ToReader): Promise<ColumnProfile> {
+  const answer = await inbox.next(inbox.send(worker, request));
+  if (answer.type !== 'profile') throw new Error(`reading thread: unexpected ${answer.type} message`);
+  return answer.profile;
+}
+
+/**
+ * The table's profile, its number columns handed round the reading threads (none: all here); those
+ * profiled from their parts already (`early`) are taken from there.
+ */
+function profileOnThreads(table: Table, options: ProfileOptions, inbox: Inbox, threads: number, early: ReadonlyMap<number, Promise<ColumnProfile>>): Promise<ColumnProfile[]> {
   let next = 0;
   return profileTableSharing(table, options, async (column, index) => {
+    const started = early.get(index);
+    if (started !== undefined) return started;
     if (threads === 0) return profileColumn(column, index, options);
     const id = inbox.send(next++ % threads, { type: 'profile', id: 0, column, index, options });
     const answer = await inbox.next(id);
@@ -358,7 +409,8 @@ function serve(path: string, port: NonNullable<typeof parentPort>): void {
     try {
       if (request.type === 'start') readStart(request, fd, buffer, port);
       else if (request.type === 'segment') readSegment(request, fd, buffer, port);
-      else port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(request.column, request.index, request.options) } satisfies FromReader);
+      else if (request.type === 'profile') port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(request.column, request.index, request.options) } satisfies FromReader);
+      else port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(concatColumns(request.parts, request.rowCounts), request.index, request.options) } satisfies FromReader);
     } catch (error) {
       port.postMessage(failed(error));
     }
@@ -415,27 +467,6 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
   const result = reader.finish(atEnd);
   const message: FromReader = { type: 'segment', id, bytesRead: position, ...result, table: crossingTable(result.table) };
   port.postMessage(message, tableBuffers(result.table));
-}
-
-/**
- * A table as it crosses to another thread: a column with packed values goes without `values`,
- * which structured cloning would read, and so make, string by string; `arrivedTable` puts them
- * back on the other side.
- */
-function crossingTable(table: Table): Table {
-  const columns = table.columns.map((column): Column => {
-    if (column.kind !== 'text' || column.packed === undefined) return column;
-    const { kind, name, length, codes, counts, packed } = column;
-    // Not a whole TextColumn while it crosses (no `values`): arrivedTable makes it one again.
-    return { kind, name, length, codes, counts, packed } as unknown as Column;
-  });
-  return { ...table, columns };
-}
-
-/** A table from another thread, its packed columns given back `values` made when first read. */
-function arrivedTable(table: Table): Table {
-  const columns = table.columns.map((column) => (column.kind === 'text' && column.packed !== undefined ? withPackedValues(column, column.packed) : column));
-  return { ...table, columns };
 }
 
 function post(port: NonNullable<typeof parentPort>, message: Extract<FromReader, { type: 'batch' }>): void {

@@ -216,7 +216,7 @@ export class ColumnBuilder {
     for (let code = 0; code < counts.length; code++) counts[code] = this.counts[code]!;
     if (packValues && this.asciiBytes && 2 * this.values.length > this.length) {
       const starts = this.valueStart.subarray(0, counts.length + 1);
-      const packed = { bytes: this.valueBytes.subarray(0, starts[counts.length]!), starts };
+      const packed = { bytes: this.valueBytes.subarray(0, starts[counts.length]!), starts, ascending: this.ascending };
       this.table = new Int32Array(0);
       return withPackedValues({ kind: 'text', name: this.name, length: this.length, codes: this.codes, counts }, packed);
     }
@@ -423,7 +423,7 @@ function insert(table: Int32Array, hash: number, codePlusOne: number): void {
 }
 
 /** Byte-wise comparison of a[aStart, aEnd) with b[bStart, bEnd): negative, 0 or positive. */
-function compareBytes(a: Uint8Array, aStart: number, aEnd: number, b: Uint8Array, bStart: number, bEnd: number): number {
+export function compareBytes(a: Uint8Array, aStart: number, aEnd: number, b: Uint8Array, bStart: number, bEnd: number): number {
   const length = Math.min(aEnd - aStart, bEnd - bStart);
   for (let k = 0; k < length; k++) {
     const difference = a[aStart + k]! - b[bStart + k]!;

@@ -18,6 +18,11 @@ export type Cell = string;
 export interface PackedTexts {
   readonly bytes: Uint8Array;
   readonly starts: Int32Array;
+  /**
+   * Each text is greater, byte by byte, than the one before (an export sorted by its key): then
+   * no two are equal, and columns of consecutive segments join without looking a value up.
+   */
+  readonly ascending: boolean;
 }
 
 export interface TextColumn {
@@ -126,6 +131,16 @@ export function withPackedValues(column: Omit<TextColumn, 'values' | 'packed'>, 
 }
 
 /**
+ * The text of dictionary code `code`, made alone when the column keeps its values packed: a few
+ * values (examples, the first values past a cap) are read without making the million.
+ */
+export function valueText(column: TextColumn, code: number): string {
+  const packed = column.packed;
+  if (packed === undefined) return column.values[code] ?? '';
+  return utf8Text(packed.bytes, packed.starts[code] ?? 0, packed.starts[code + 1] ?? 0);
+}
+
+/**
  * The buffers a table's typed arrays hold, each its own: what to transfer (not copy) when the table
  * is handed to another thread. The table must not be used on this side afterwards.
  */
@@ -148,4 +163,25 @@ export function tableBuffers(table: Table): ArrayBuffer[] {
     }
   }
   return [...buffers];
+}
+
+/**
+ * A table as it crosses to another thread: a column with packed values goes without `values`,
+ * which structured cloning would read, and so make, string by string; `arrivedTable` puts them
+ * back on the other side.
+ */
+export function crossingTable(table: Table): Table {
+  const columns = table.columns.map((column): Column => {
+    if (column.kind !== 'text' || column.packed === undefined) return column;
+    const { kind, name, length, codes, counts, packed } = column;
+    // Not a whole TextColumn while it crosses (no `values`): arrivedTable makes it one again.
+    return { kind, name, length, codes, counts, packed } as unknown as Column;
+  });
+  return { ...table, columns };
+}
+
+/** A table from another thread, its packed columns given back `values` made when first read. */
+export function arrivedTable(table: Table): Table {
+  const columns = table.columns.map((column) => (column.kind === 'text' && column.packed !== undefined ? withPackedValues(column, column.packed) : column));
+  return { ...table, columns };
 }

@@ -13,8 +13,8 @@
  * skip the lookup when a segment's values all sort after those already joined, as they do in
  * exports sorted by their key.
  */
-import type { Column, NumberColumn, RowIssue, Table, TextColumn } from './columns.ts';
-import { DEFAULT_DICTIONARY_CAP, NON_NUMBER_SHARE, readNumberText } from './columns-builder.ts';
+import { valueText, withPackedValues, type Column, type NumberColumn, type PackedTexts, type RowIssue, type Table, type TextColumn } from './columns.ts';
+import { compareBytes, DEFAULT_DICTIONARY_CAP, NON_NUMBER_SHARE, readNumberText } from './columns-builder.ts';
 
 export interface ConcatOptions {
   /**
@@ -57,6 +57,15 @@ export function concatTables(parts: readonly Table[], options: ConcatOptions = {
   };
 }
 
+/**
+ * One column of consecutive parts joined, exactly as concatTables joins it (`rowCounts`: the
+ * parts' rows): for a column joined on another thread, on its own. The parts are not changed.
+ */
+export function concatColumns(parts: readonly Column[], rowCounts: readonly number[], options: Pick<ConcatOptions, 'dictionaryCap'> = {}): Column {
+  if (parts.length === 1) return parts[0]!;
+  return joinColumn(parts, rowCounts, options.dictionaryCap ?? DEFAULT_DICTIONARY_CAP, false);
+}
+
 function checkSameNames(parts: readonly Table[]): void {
   const names = parts[0]!.names;
   for (const part of parts) {
@@ -67,7 +76,8 @@ function checkSameNames(parts: readonly Table[]): void {
 }
 
 function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap: number, reuse: boolean): Column {
-  return storageOfWhole(parts, rowCounts, cap) === 'number' ? joinAsNumbers(parts, rowCounts, reuse) : joinAsText(parts, rowCounts, reuse);
+  if (storageOfWhole(parts, rowCounts, cap) === 'number') return joinAsNumbers(parts, rowCounts, reuse);
+  return joinPackedAscending(parts, rowCounts, reuse) ?? joinAsText(parts, rowCounts, reuse);
 }
 
 /**
@@ -116,13 +126,14 @@ class StorageReplay {
 
   /** The storage, when chosen within this part; null to go on with the next. */
   textPart(part: TextColumn, rows: number): Storage | null {
-    const { values, counts, codes } = part;
+    const { counts, codes } = part;
     // Per code of the part: 1 when not a number, 0 otherwise. Codes come in order of first
     // appearance, so the rows before code c's first one hold codes below c only.
-    const nonNumber = new Uint8Array(values.length);
-    for (let code = 0; code < values.length; code++) {
+    const nonNumber = new Uint8Array(counts.length);
+    for (let code = 0; code < counts.length; code++) {
       if (!((counts[code] ?? 0) > 0)) continue;
-      const value = values[code]!;
+      // One value at a time: a packed part (an identifier) makes no more strings than the cap's.
+      const value = valueText(part, code);
       const known = this.seen.get(value);
       if (known !== undefined) {
         nonNumber[code] = known ? 1 : 0;
@@ -136,7 +147,7 @@ class StorageReplay {
       }
       this.add(value, isNonNumber);
     }
-    for (let code = 0; code < values.length; code++) if (nonNumber[code] === 1) this.nonNumberCells += counts[code] ?? 0;
+    for (let code = 0; code < counts.length; code++) if (nonNumber[code] === 1) this.nonNumberCells += counts[code] ?? 0;
     this.rows += rows;
     return null;
   }
@@ -329,6 +340,70 @@ function joinAsText(columns: readonly Column[], rowCounts: readonly number[], re
     offset += length;
   });
   return { kind: 'text', name: columns[0]!.name, length: rows, codes, values: dictionary.values, counts: dictionary.counts };
+}
+
+/**
+ * Parts that all kept their values as bytes in ascending order (an identifier of an export sorted
+ * by its key, read with ReadOptions.packValues), each part's first value after the last value of
+ * the parts before: every value is new, so the joined dictionary is the parts' one after another,
+ * and stays bytes. No string is made. null when the parts are not all so.
+ */
+function joinPackedAscending(columns: readonly Column[], rowCounts: readonly number[], reuse: boolean): TextColumn | null {
+  const packs: PackedTexts[] = [];
+  for (const column of columns) {
+    if (column.kind !== 'text' || column.packed === undefined || !column.packed.ascending) return null;
+    packs.push(column.packed);
+  }
+  if (!eachAfterTheOnesBefore(packs)) return null;
+  const parts = columns as readonly TextColumn[];
+  const rows = sum(rowCounts);
+  const distinct = sum(parts.map((part) => part.counts.length));
+  const first = parts[0]!;
+  const inPlace = reuse ? withRoomFor(first.codes, rows) : null;
+  const codes = inPlace ?? new Uint32Array(rows);
+  const counts = new Array<number>(distinct);
+  const bytes = new Uint8Array(sum(packs.map((pack) => valueBytesOf(pack))));
+  const starts = new Int32Array(distinct + 1);
+  let offset = 0;
+  let base = 0;
+  let byteBase = 0;
+  parts.forEach((part, k) => {
+    const length = rowCounts[k]!;
+    const partCodes = part.codes;
+    if (!(k === 0 && inPlace !== null)) for (let row = 0; row < length; row++) codes[offset + row] = partCodes[row]! + base;
+    const pack = packs[k]!;
+    const values = part.counts.length;
+    for (let code = 0; code < values; code++) {
+      counts[base + code] = part.counts[code] ?? 0;
+      starts[base + code] = byteBase + pack.starts[code]! - pack.starts[0]!;
+    }
+    bytes.set(pack.bytes.subarray(pack.starts[0]!, pack.starts[values]!), byteBase);
+    offset += length;
+    base += values;
+    byteBase += valueBytesOf(pack);
+  });
+  starts[distinct] = byteBase;
+  return withPackedValues({ kind: 'text', name: first.name, length: rows, codes, counts }, { bytes, starts, ascending: true });
+}
+
+function valueBytesOf(pack: PackedTexts): number {
+  return pack.starts[pack.starts.length - 1]! - pack.starts[0]!;
+}
+
+/** Whether each pack's first text sorts after the last text of the packs before it (each ascending in itself). */
+function eachAfterTheOnesBefore(packs: readonly PackedTexts[]): boolean {
+  let last: { readonly pack: PackedTexts; readonly code: number } | null = null;
+  for (const pack of packs) {
+    const count = pack.starts.length - 1;
+    if (count === 0) continue;
+    if (last !== null) {
+      const { pack: before, code } = last;
+      const order = compareBytes(pack.bytes, pack.starts[0]!, pack.starts[1]!, before.bytes, before.starts[code]!, before.starts[code + 1]!);
+      if (order <= 0) return false;
+    }
+    last = { pack, code: count - 1 };
+  }
+  return true;
 }
 
 /**

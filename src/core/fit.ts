@@ -8,7 +8,7 @@ import { inferLevel, type Inference } from './infer.ts';
 import { MAX_CATEGORICAL_LEVELS, WIDE_DRAFT_KEEP_TOP, tooManyLevelsError, wideDraftNote } from './level-limit.ts';
 import { nameOutputs } from './names.ts';
 import { sameNumberFormat } from './numbers.ts';
-import { numericSummaryIn, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
+import { levelCount, numericSummaryIn, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
 import {
   DEFAULT_MISSING_TOKENS,
   RECIPE_KIND,
@@ -132,9 +132,10 @@ export interface LevelTally {
  * values a level of their own), when that is more than a column can encode; null when it fits.
  */
 export function levelsOverLimit(profile: ColumnProfile, cleaning: Cleaning): LevelTally | null {
-  if (profile.levels === null || profile.levels.length + 1 <= MAX_CATEGORICAL_LEVELS) return null;
+  const count = levelCount(profile);
+  if (count === null || count + 1 <= MAX_CATEGORICAL_LEVELS) return null;
   const missingLevel = profile.missing > 0;
-  const levels = cleanLevels(profile.levels, cleaning).length + (missingLevel ? 1 : 0);
+  const levels = cleanLevels(profile.levels ?? [], cleaning).length + (missingLevel ? 1 : 0);
   return levels > MAX_CATEGORICAL_LEVELS ? { levels, missingLevel } : null;
 }
 

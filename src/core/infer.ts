@@ -12,7 +12,7 @@ export { cleanLevels } from './cleaning.ts';
 import { countText, percentText as percent } from './count-text.ts';
 import { looksLikeDate } from './dates.ts';
 import { matchOrdinalScale, MAX_SCALE_LEVELS } from './ordinal-scales.ts';
-import { countsRows, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
+import { countsRows, levelCount, oneWidth, PROFILE_THRESHOLDS, type ColumnProfile, type LevelCount, type NumericSummary } from './profile.ts';
 import { numberReader } from './numbers.ts';
 import type { Cleaning, Merge, MeasurementLevel, NumberFormat } from './recipe.ts';
 
@@ -36,8 +36,14 @@ export interface Inference {
 export interface InferContext {
   /** Proposed cleaning of the levels (NO_CLEANING when the profile has no levels). */
   readonly cleaning: Cleaning;
-  /** Levels after that cleaning with their counts, most frequent first; null when the profile has none. */
+  /**
+   * Levels after that cleaning with their counts, most frequent first; null when the profile has
+   * none. For a column with very many levels it is made when first read: a rule that needs only
+   * their number reads `cleanedLevelCount`.
+   */
   readonly cleanedLevels: readonly LevelCount[] | null;
+  /** How many cleanedLevels there are (null: none). */
+  readonly cleanedLevelCount: number | null;
   /** Non-missing cells. */
   readonly nonMissing: number;
 }
@@ -84,8 +90,9 @@ const allMissing: InferenceRule = {
 const constant: InferenceRule = {
   name: 'constant',
   test: (p, ctx) => {
+    if (ctx.cleanedLevelCount !== 1) return null;
     const only = ctx.cleanedLevels?.[0];
-    if (ctx.cleanedLevels === null || ctx.cleanedLevels.length !== 1 || only === undefined) return null;
+    if (only === undefined) return null;
     const spellings = p.distinct > 1 ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
     const missing = p.missing > 0 ? `, ${countText(p.missing)} missing` : '';
     return {
@@ -110,8 +117,9 @@ const date: InferenceRule = {
 const binary: InferenceRule = {
   name: 'binary',
   test: (p, ctx) => {
+    if (ctx.cleanedLevelCount !== 2) return null;
     const levels = ctx.cleanedLevels;
-    if (levels === null || levels.length !== 2) return null;
+    if (levels === null) return null;
     const [first, second] = levels as [LevelCount, LevelCount];
     const { positive, why } = choosePositive(first, second);
     const after = p.distinct > 2 ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
@@ -129,8 +137,9 @@ const binary: InferenceRule = {
 const ordinalScale: InferenceRule = {
   name: 'ordinal scale',
   test: (_p, ctx) => {
+    if (ctx.cleanedLevelCount === null || ctx.cleanedLevelCount > MAX_SCALE_LEVELS) return null;
     const levels = ctx.cleanedLevels;
-    if (levels === null || levels.length > MAX_SCALE_LEVELS) return null;
+    if (levels === null) return null;
     const match = matchOrdinalScale(levels.map((l) => l.value));
     if (match === null) return null;
     return {
@@ -182,10 +191,10 @@ const numberedScale: InferenceRule = {
   name: 'numbered scale',
   test: (p, ctx) => {
     const n = p.numeric;
-    const levels = ctx.cleanedLevels;
-    if (n === null || levels === null || n.invalidCount > 0) return null;
+    if (n === null || ctx.cleanedLevelCount === null || n.invalidCount > 0) return null;
     const distinct = distinctNumbers(p, n);
-    if (distinct > INFERENCE_THRESHOLDS.maxScaleNumbers) return null;
+    const levels = ctx.cleanedLevels;
+    if (distinct > INFERENCE_THRESHOLDS.maxScaleNumbers || levels === null) return null;
     const { order, merges } = numericOrder(levels, n);
     const cleaning = merges.length === 0 ? ctx.cleaning : { ...ctx.cleaning, merges: [...ctx.cleaning.merges, ...merges] };
     const kind = n.integer === true ? 'whole numbers' : 'numbers';
@@ -201,17 +210,17 @@ const numberedScale: InferenceRule = {
 const nominal: InferenceRule = {
   name: 'nominal',
   test: (p, ctx) => {
-    const levels = ctx.cleanedLevels;
+    const levels = ctx.cleanedLevelCount;
     if (levels === null) {
       const share = p.numeric === null ? '0%' : percent(p.numeric.share);
       return excluded(
         `only ${share} of ${countText(ctx.nonMissing)} values read as numbers and ${countText(p.distinct)} distinct values are too many for categories`,
       );
     }
-    const after = levels.length < p.distinct ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
+    const after = levels < p.distinct ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
     return {
       level: 'nominal',
-      reason: `${countText(levels.length)} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
+      reason: `${countText(levels)} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
       cleaning: ctx.cleaning,
     };
   },
@@ -250,15 +259,20 @@ export const CLEANING_PROPOSAL_MAX_LEVELS = 100_000;
 
 export function inferenceContext(profile: ColumnProfile): InferContext {
   const nonMissing = profile.count - profile.missing;
-  if (profile.levels === null) return { cleaning: NO_CLEANING, cleanedLevels: null, nonMissing };
-  if (profile.levels.length > CLEANING_PROPOSAL_MAX_LEVELS) {
-    return { cleaning: NO_CLEANING, cleanedLevels: profile.levels, nonMissing };
+  const count = levelCount(profile);
+  if (count === null) return { cleaning: NO_CLEANING, cleanedLevels: null, cleanedLevelCount: null, nonMissing };
+  if (count > CLEANING_PROPOSAL_MAX_LEVELS) {
+    // The profile's own levels, read only if a rule asks for them (an identifier's million are not).
+    return Object.defineProperty({ cleaning: NO_CLEANING, cleanedLevelCount: count, nonMissing }, 'cleanedLevels', {
+      enumerable: true,
+      get: () => profile.levels,
+    }) as InferContext;
   }
-  const cleaning = proposeCleaning(profile.levels);
-  // Without cleaning the levels are already what cleanLevels would give: skip the copy (identifier
-  // columns can hold a million levels).
-  const cleanedLevels = isNoCleaning(cleaning) ? profile.levels : cleanLevels(profile.levels, cleaning);
-  return { cleaning, cleanedLevels, nonMissing };
+  const levels = profile.levels ?? [];
+  const cleaning = proposeCleaning(levels);
+  // Without cleaning the levels are already what cleanLevels would give: skip the copy.
+  const cleanedLevels = isNoCleaning(cleaning) ? levels : cleanLevels(levels, cleaning);
+  return { cleaning, cleanedLevels, cleanedLevelCount: cleanedLevels.length, nonMissing };
 }
 
 // ---------------------------------------------------------------------------------------------

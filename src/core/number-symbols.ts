@@ -101,6 +101,29 @@ export function knownSymbolOf(text: string): NumberSymbol | null {
 }
 
 /**
+ * Whether a known symbol could be what the ASCII text bytes[start, end) is written with: one starts
+ * or ends it. False proves knownSymbolOf gives null for the text of bytes without white space and
+ * sign at the start, without making that text (profile.ts, for a million identifiers kept as bytes).
+ */
+export function mayHaveKnownSymbol(bytes: Uint8Array, start: number, end: number): boolean {
+  if (end - start < 2 || (ASCII_FIRST[bytes[start]!] === 0 && ASCII_LAST[bytes[end - 1]!] === 0)) return false;
+  for (const symbol of symbolsAt(BY_FIRST, bytes[start]!)) if (bytesStartWith(bytes, start, end, symbol)) return true;
+  for (const symbol of symbolsAt(BY_LAST, bytes[end - 1]!)) if (bytesStartWith(bytes, end - symbol.length, end, symbol)) return true;
+  return false;
+}
+
+/** By byte: 1 when a known symbol starts (ends) with that ASCII character. */
+const ASCII_FIRST = Uint8Array.from({ length: 256 }, (_, b) => (b < 128 && BY_FIRST.ascii[b]!.length > 0 ? 1 : 0));
+const ASCII_LAST = Uint8Array.from({ length: 256 }, (_, b) => (b < 128 && BY_LAST.ascii[b]!.length > 0 ? 1 : 0));
+
+/** Whether bytes[start, end) begin with `ascii` (false for a symbol that is not ASCII: such bytes never hold it). */
+function bytesStartWith(bytes: Uint8Array, start: number, end: number, ascii: string): boolean {
+  if (start < 0 || end - start < ascii.length) return false;
+  for (let i = 0; i < ascii.length; i++) if (bytes[start + i] !== ascii.charCodeAt(i)) return false;
+  return true;
+}
+
+/**
  * A unit written after a number ("12 kg", "30 min", "21 °C", "5 km/h", "3 m²"): letters (and
  * °, ², ³, /) after a digit and optional spaces; or null. Found by shape, not from a list, since
  * lab sheets and shop exports use any unit; a lone "e" or "E" is an exponent's start, not a unit.

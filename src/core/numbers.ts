@@ -188,6 +188,15 @@ function groupDigits(digits: string, separator: string): string {
   return out;
 }
 
+/**
+ * Whether a printable character may start a number some format reads: a digit, a sign, a point, a
+ * comma, or the parenthesis of a negative amount. Text starting with any other printable ASCII
+ * character reads as no number unless a currency or percent sign comes first (number-symbols.ts).
+ */
+export function mayStartNumber(code: number): boolean {
+  return (code >= 0x30 && code <= 0x39) || code === 0x2b || code === 0x2d || code === 0x2e || code === 0x2c || code === 0x28;
+}
+
 /** True when a number's text starts with a zero followed by more digits ("007", "-01"): a code, not a quantity. */
 export function hasLeadingZero(text: string): boolean {
   return /^[+-]?0\d/.test(text.trim());

@@ -52,11 +52,21 @@ export function segmentReaderFor(request: SegmentRequest, fileBytes: number): Se
 
 export interface ParallelReadOptions {
   readonly dictionaryCap?: number;
+  /**
+   * Segments keep identifier-like columns as bytes (ReadOptions.packValues): they cross without a
+   * string per value, join without a lookup when sorted, and are profiled from their bytes. The
+   * calling thread's reader should be made with it too.
+   */
+  readonly packValues?: boolean;
   /** No segment smaller than this (default 1 byte). */
   readonly minSegmentBytes?: number;
   /** Segments of this size instead of one per thread (more segments than runners: for tests). */
   readonly segmentBytes?: number;
-  /** Sees the parts before they are joined, in file order, rows numbered from the file's start (for tests). */
+  /**
+   * Sees the parts before they are joined, in file order, rows numbered from the file's start: for
+   * tests, and for work on a column's parts elsewhere while this thread joins them (the command
+   * line profiles number columns so). The parts must not be changed; the first is joined in place.
+   */
   readonly onPart?: (parts: readonly Table[]) => void;
 }
 
@@ -117,6 +127,7 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
         encodingGuessed: segmenting.encodingGuessed,
         columnHints: null,
         ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }),
+        ...(options.packValues === true ? { packValues: true } : {}),
       });
       free.push(...runners.slice(0, threads - 1));
       results = jobs.map((job) => run(job));

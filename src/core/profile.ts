@@ -2,12 +2,13 @@
  * Profile: what each column holds. Computed per distinct value wherever the storage allows, so a
  * million-row column with a few levels costs a pass over its dictionary, not over its cells.
  */
-import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
+import { cellText, valueText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
 import { DEFAULT_MISSING_TOKENS, missingNumbers, missingTest, type MissingTest } from './missing.ts';
 import { grow } from './columns-builder.ts';
 import { knownSymbolOf } from './number-symbols.ts';
-import { detectNumberFormat, hasLeadingZero, numberReader, type NumberReader } from './numbers.ts';
+import { detectNumberFormat, hasLeadingZero, mayStartNumber, numberReader, type NumberReader } from './numbers.ts';
+import { plainValues } from './plain-values.ts';
 import type { NumberFormat } from './recipe.ts';
 import { sortNumbers } from './sort-numbers.ts';
 
@@ -180,7 +181,7 @@ function withInvalidLines(profile: ColumnProfile, lineOfRow: Uint32Array): Colum
     const line = e.row === undefined ? undefined : lineOfRow[e.row];
     return line === undefined ? e : { ...e, line };
   });
-  return { ...profile, numeric: { ...numeric, invalidExamples } };
+  return withNumeric(profile, { ...numeric, invalidExamples });
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -188,32 +189,42 @@ function withInvalidLines(profile: ColumnProfile, lineOfRow: Uint32Array): Colum
 
 function profileTextColumn(column: TextColumn, index: number, options: ProfileOptions): ColumnProfile {
   const isMissing = missingTest(options.missingTokens);
-  const { values, counts } = column;
+  const { counts } = column;
+  // Values kept as bytes that tell the profile all it needs without their text (plain-values.ts).
+  const plain = column.packed === undefined ? null : plainValues(column.packed, options.missingTokens);
+  const textOf = textsOf(column, plain);
   // Codes of the levels and of the missing spellings, in dictionary (first appearance) order.
-  const levelCodes = new Int32Array(values.length);
+  const levelCodes = new Int32Array(counts.length);
   const missingCodes: number[] = [];
   let levelCount = 0;
-  for (let code = 0; code < values.length; code++) {
+  for (let code = 0; code < counts.length; code++) {
     if (!((counts[code] ?? 0) > 0)) continue;
-    if (isMissing(values[code] ?? '')) missingCodes.push(code);
+    if (plain?.[code] !== 1 && isMissing(textOf(code))) missingCodes.push(code);
     else levelCodes[levelCount++] = code;
   }
   const byCount = sortCodesByCount(levelCodes.subarray(0, levelCount), counts);
-  const levels = levelCountsOf(byCount, values, counts);
-  const missingSpellings = levelCountsOf(sortCodesByCount(Int32Array.from(missingCodes), counts), values, counts);
-  const nonMissing = sumCounts(levels);
-  const numeric = summarizeTextNumbers(column, byCount, levels, nonMissing, options.format);
-  const text = textShape(levels, nonMissing);
-  const distinct = levels.length;
+  const missingSpellings = levelCountsOf(sortCodesByCount(Int32Array.from(missingCodes), counts), textOf, counts);
+  let nonMissing = 0;
+  for (let i = 0; i < byCount.length; i++) nonMissing += counts[byCount[i]!] ?? 0;
+  // Every level, most frequent first: made when first read where plain values stand for most of them.
+  const everyLevel = (): LookedAtLevels => {
+    const values = plain === null ? null : column.values;
+    const levels = levelCountsOf(byCount, values === null ? textOf : (code) => values[code] ?? '', counts);
+    return { codes: byCount, levels, plain: null, plainCells: 0, plainCharacters: 0 };
+  };
+  const looked = plain === null ? everyLevel() : lookedAtLevels(byCount, plain, textOf, column);
+  const numeric = summarizeTextNumbers(column, looked, everyLevel, nonMissing, options.format);
+  const text = textShape(looked, nonMissing);
+  const distinct = byCount.length;
   const freeText = looksLikeFreeText(nonMissing, distinct, numeric, text);
-  return {
+  const profile: ColumnProfile = {
     name: column.name,
     index,
     count: column.length,
     missing: column.length - nonMissing,
     missingSpellings,
     distinct,
-    levels,
+    levels: plain === null ? looked.levels : null,
     numeric,
     flags: {
       identifier: looksLikeIdentifier(nonMissing, distinct, numeric, freeText),
@@ -223,6 +234,80 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     },
     text,
   };
+  return plain === null ? profile : withLazyLevels(profile, () => everyLevel().levels);
+}
+
+/**
+ * `profile` with its `levels` made by `make` the first time they are read, then kept: a million
+ * identifiers' levels cost more than the rest of the profile, and drafting a recipe never reads
+ * them (levelCount). Any copy of the profile made by spreading it reads them.
+ */
+function withLazyLevels(profile: ColumnProfile, make: () => readonly LevelCount[]): ColumnProfile {
+  let levels: readonly LevelCount[] | null = null;
+  // Redefined where it stands, so that the keys keep their order (a profile written as JSON).
+  return Object.defineProperty(profile, 'levels', { enumerable: true, configurable: true, get: () => (levels ??= make()) });
+}
+
+/**
+ * How many levels `profile` keeps (null: none, as for a column stored as numbers), without making
+ * a list that is made only when read (withLazyLevels).
+ */
+export function levelCount(profile: ColumnProfile): number | null {
+  if (Object.getOwnPropertyDescriptor(profile, 'levels')?.get !== undefined) return profile.distinct;
+  return profile.levels?.length ?? null;
+}
+
+/** `profile` with `numeric` replaced; levels made only when read stay so. */
+function withNumeric(profile: ColumnProfile, numeric: NumericSummary): ColumnProfile {
+  return Object.defineProperties({}, {
+    ...Object.getOwnPropertyDescriptors(profile),
+    numeric: { value: numeric, enumerable: true, configurable: true, writable: true },
+  }) as ColumnProfile;
+}
+
+/**
+ * A code's text: from `values`, or made alone from the bytes when plain values (which need none)
+ * are nearly all of a packed column, so that `values` (a string for every value) is not made.
+ */
+function textsOf(column: TextColumn, plain: Uint8Array | null): (code: number) => string {
+  let notPlain = 0;
+  if (plain !== null) for (let code = 0; code < plain.length; code++) notPlain += 1 - plain[code]!;
+  if (plain !== null && notPlain * 8 <= plain.length) return (code) => valueText(column, code);
+  const values = column.values;
+  return (code) => values[code] ?? '';
+}
+
+/** The levels whose text the profile reads, and what the plain ones (plain-values.ts) add up to. */
+interface LookedAtLevels {
+  /** Their codes and their levels, in the same order: most frequent first. */
+  readonly codes: Int32Array;
+  readonly levels: readonly LevelCount[];
+  /** Per code, 1 for the plain values left out of `levels`; null when none was left out. */
+  readonly plain: Uint8Array | null;
+  readonly plainCells: number;
+  /** The plain values' characters, each times its count (ASCII: a byte is a character). */
+  readonly plainCharacters: number;
+}
+
+function lookedAtLevels(byCount: Int32Array, plain: Uint8Array, textOf: (code: number) => string, column: TextColumn): LookedAtLevels {
+  const { counts } = column;
+  const starts = column.packed!.starts;
+  const codes: number[] = [];
+  const levels: LevelCount[] = [];
+  let plainCells = 0;
+  let plainCharacters = 0;
+  for (let i = 0; i < byCount.length; i++) {
+    const code = byCount[i]!;
+    const count = counts[code] ?? 0;
+    if (plain[code] === 1) {
+      plainCells += count;
+      plainCharacters += (starts[code + 1]! - starts[code]!) * count;
+    } else {
+      codes.push(code);
+      levels.push({ value: textOf(code), count });
+    }
+  }
+  return { codes: Int32Array.from(codes), levels, plain, plainCells, plainCharacters };
 }
 
 /**
@@ -238,11 +323,11 @@ function sortCodesByCount(codes: Int32Array, counts: readonly number[]): Int32Ar
   return codes;
 }
 
-function levelCountsOf(codes: Int32Array, values: readonly string[], counts: readonly number[]): LevelCount[] {
+function levelCountsOf(codes: Int32Array, textOf: (code: number) => string, counts: readonly number[]): LevelCount[] {
   const levels: LevelCount[] = new Array<LevelCount>(codes.length);
   for (let i = 0; i < codes.length; i++) {
     const code = codes[i] ?? 0;
-    levels[i] = { value: values[code] ?? '', count: counts[code] ?? 0 };
+    levels[i] = { value: textOf(code), count: counts[code] ?? 0 };
   }
   return levels;
 }
@@ -273,8 +358,7 @@ function sumCounts(entries: readonly LevelCount[]): number {
 function mayBeNumber(text: string): boolean {
   const c = text.charCodeAt(0);
   if (c <= 0x20 || c >= 0x7f) return true; // blanks (trimmed first by the readers) and non-ASCII: ask the reader
-  // A digit, a sign, a separator, or "(" of a negative amount written in parentheses.
-  return (c >= 0x30 && c <= 0x39) || c === 0x2b || c === 0x2d || c === 0x2e || c === 0x2c || c === 0x28;
+  return mayStartNumber(c);
 }
 
 /** mayBeNumber, widened for a symbol before the number ("$12", "CHF 5"): the known ones, or the format's own. */
@@ -284,26 +368,33 @@ function mayBeNumberIn(format: NumberFormat | undefined): (text: string) => bool
   return (text) => mayBeNumber(text) || text.includes(symbol.text);
 }
 
-/** `levels[i]` is the level of code `codes[i]`. */
+/**
+ * The numbers of a text column's levels: those looked at are read, plain ones (plain-values.ts)
+ * read as none. With a sign or unit in the format (which may stand inside a plain value), every
+ * level is read (`everyLevel`).
+ */
 function summarizeTextNumbers(
   column: TextColumn,
-  codes: Int32Array,
-  levels: readonly LevelCount[],
+  looked: LookedAtLevels,
+  everyLevel: () => LookedAtLevels,
   nonMissing: number,
   fixedFormat: NumberFormat | undefined,
 ): NumericSummary | null {
   // Only the levels that may be numbers in some format are asked which format they are in.
   const mayBeInAnyFormat = mayBeNumberIn(undefined);
-  const format = fixedFormat ?? detectNumberFormat(levels.filter((level) => mayBeInAnyFormat(level.value)));
+  const format = fixedFormat ?? detectNumberFormat(looked.levels.filter((level) => mayBeInAnyFormat(level.value)));
+  const { codes, levels, plain, plainCells } = format.symbol !== undefined && looked.plain !== null ? everyLevel() : looked;
   const read = readLevelNumbers(levels, format);
   if (read.found === 0) return null;
+  const invalidCount = read.invalidCount + plainCells;
   let invalidRows: NumericSummary['invalidExamples'] = [];
-  if (read.invalidCount > 0) {
-    const invalid = new Uint8Array(column.values.length);
+  if (invalidCount > 0) {
+    // Plain values never read as numbers: invalid, all of them.
+    const invalid = plain === null ? new Uint8Array(column.counts.length) : plain.slice();
     for (let i = 0; i < levels.length; i++) if (read.isInvalid[i] === 1) invalid[codes[i] ?? 0] = 1;
     invalidRows = firstInvalidRows(column, invalid);
   }
-  return summarizeLevelNumbers(read, format, nonMissing, invalidRows);
+  return summarizeLevelNumbers({ ...read, invalidCount }, format, nonMissing, invalidRows);
 }
 
 /**
@@ -377,16 +468,17 @@ function firstInvalidRows(column: TextColumn, isInvalid: Uint8Array): { row: num
   const examples: { row: number; text: string }[] = [];
   for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
     const code = column.codes[row] ?? 0;
-    if (isInvalid[code] === 1) examples.push({ row, text: column.values[code] ?? '' });
+    if (isInvalid[code] === 1) examples.push({ row, text: valueText(column, code) });
   }
   return examples;
 }
 
-function textShape(levels: readonly LevelCount[], nonMissing: number): TextShape {
+function textShape(looked: LookedAtLevels, nonMissing: number): TextShape {
   let dates = 0;
-  let length = 0;
+  // Plain values are no dates and hold no spaces: only their lengths count.
+  let length = looked.plainCharacters;
   let withSpaces = 0;
-  for (const { value, count } of levels) {
+  for (const { value, count } of looked.levels) {
     // Most values (an identifier column's million) have no blank at all: no trimmed copy, no regex.
     const blanks = maybeBlank(value);
     const t = blanks ? value.trim() : value;

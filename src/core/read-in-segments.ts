@@ -13,6 +13,8 @@ import { createTableReader, readTable, type ReadResult } from './read-table.ts';
 
 export interface SegmentedReadOptions {
   readonly dictionaryCap?: number;
+  /** Identifier-like columns kept as bytes, in every segment (ReadOptions.packValues), as the page and the command line read. */
+  readonly packValues?: boolean;
   /** Sees each part joined, the first included, in file order, rows already numbered from the file's start. */
   readonly onPart?: (part: Table) => void;
 }
@@ -45,7 +47,10 @@ export async function readInSegments(bytes: Uint8Array, segmentBytes: number, op
 }
 
 async function readSegments(bytes: Uint8Array, segmentBytes: number, options: SegmentedReadOptions): Promise<SegmentedReadResult> {
-  const cap = options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap };
+  const cap = {
+    ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }),
+    ...(options.packValues === true ? { packValues: true } : {}),
+  };
   // Two runners taking segments in turn; each reads its segment from the bytes, here.
   const runner: SegmentRunner = async (request) => readSegment(bytes, request);
   const parts: Table[] = [];

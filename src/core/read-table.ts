@@ -53,7 +53,8 @@ export interface ReadOptions {
   readonly columnHints?: ColumnHints;
   /**
    * Keep identifier-like columns' values as bytes, made into strings only when read
-   * (ColumnBuilder.build): for tables that cross to another thread to be written out.
+   * (ColumnBuilder.build): for tables that cross to another thread, are joined with other
+   * segments (concat-tables.ts) or profiled (profile.ts), none of which then makes a string per value.
    */
   readonly packValues?: boolean;
 }

@@ -104,8 +104,8 @@ async function readInSegments(
 ): Promise<ReadResult> {
   const pool = openSegmentPool(file, workers, signal, onSegmentBytes);
   try {
-    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES });
-    const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size });
+    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, packValues: true });
+    const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size, packValues: true });
     for await (const chunk of chunks) {
       reader.push(chunk);
       parallel.pushed(reader.segmenting);

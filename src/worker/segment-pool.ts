@@ -5,6 +5,7 @@
  */
 import type { SegmentRequest, SegmentRunner } from '../core/parallel-read.ts';
 import type { SegmentResult } from '../core/read-segment.ts';
+import { arrivedTable } from '../core/columns.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { Cancelled } from './protocol.ts';
 
@@ -107,7 +108,7 @@ export function openSegmentPool(file: Blob, count: number, signal: AbortSignal, 
         else {
           failAll.delete(fail);
           worker.onmessage = null;
-          resolve(message.result);
+          resolve({ ...message.result, table: arrivedTable(message.result.table) });
         }
       };
       worker.postMessage({ file, request } satisfies ToSegmentWorker);

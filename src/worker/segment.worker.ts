@@ -4,7 +4,7 @@
  * (segment-pool.ts). It answers with the segment's table, its typed arrays transferred.
  */
 /// <reference lib="webworker" />
-import { tableBuffers } from '../core/columns.ts';
+import { crossingTable, tableBuffers } from '../core/columns.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { segmentReaderFor, type SegmentRequest } from '../core/parallel-read.ts';
 import type { FromSegmentWorker, ToSegmentWorker } from './segment-pool.ts';
@@ -45,7 +45,9 @@ async function readSegment(file: Blob, request: SegmentRequest): Promise<FromSeg
     void stream.cancel();
   }
   scope.postMessage({ type: 'progress', bytes: read - told } satisfies FromSegmentWorker);
-  return { type: 'done', result: reader.finish(atEnd) };
+  const result = reader.finish(atEnd);
+  // Identifier-like columns cross as their bytes (the request's packValues), not a string per value.
+  return { type: 'done', result: { ...result, table: crossingTable(result.table) } };
 }
 
 function failure(error: unknown): FromSegmentWorker {

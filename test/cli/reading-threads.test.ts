@@ -90,10 +90,11 @@ describe('reading in segments on several threads', () => {
   });
 
   it('profile and draft profile the columns kept as numbers on the reading threads, with what one thread finds', () => {
-    // Invented: 9,000 meter readings, most distinct (past the 4,096-value dictionary: number
-    // storage), some missing ("NA"), some with two fixed decimals, a few not numbers at all.
+    // Invented: 30,000 meter readings, most distinct (past the 4,096-value dictionary: number
+    // storage, in every thread's part too, which then profiles the column from the parts while
+    // the table is joined), some missing ("NA"), some with two fixed decimals, a few not numbers at all.
     const lines = ['meter,reading,site'];
-    for (let i = 1; i <= 9000; i++) {
+    for (let i = 1; i <= 30_000; i++) {
       const reading = i % 97 === 0 ? 'NA' : i % 1000 === 0 ? `faulty ${i}` : i % 13 === 0 ? `${i}.50` : String(i * 3 + (i % 7) / 4);
       lines.push(`M-${i},${reading},${['north', 'south'][i % 2]}`);
     }
@@ -105,9 +106,9 @@ describe('reading in segments on several threads', () => {
     expect(threaded.stdout.toString()).toBe(single.stdout.toString());
     const reading = (JSON.parse(threaded.stdout.toString()) as { columns: { name: string; levels: unknown; numeric: { count: number; invalidCount: number; invalidExamples: { line: number }[] } }[] }).columns[1]!;
     expect(reading.levels).toBeNull(); // number storage
-    // 9,000 rows: 92 "NA" (every 97th), 9 "faulty" (every 1000th, none a multiple of 97); the
+    // 30,000 rows: 309 "NA" (every 97th), 30 "faulty" (every 1000th, none a multiple of 97); the
     // first of those on row 1000, line 1001.
-    expect([reading.numeric.count, reading.numeric.invalidCount]).toEqual([8899, 9]);
+    expect([reading.numeric.count, reading.numeric.invalidCount]).toEqual([29_661, 30]);
     expect(reading.numeric.invalidExamples[0]!.line).toBe(1001);
     const drafts = [true, false].map((onThreads) => levelwise(['draft', meters], onThreads));
     expect(drafts[0]!.stdout.toString()).toBe(drafts[1]!.stdout.toString());

@@ -94,6 +94,16 @@ function storageOf(column: Column): unknown {
   };
 }
 
+/** In place, by a seeded linear congruential generator (the same order for the same seed). */
+function shuffle<T>(items: T[], seed: number): void {
+  let state = seed >>> 0;
+  for (let i = items.length - 1; i > 0; i--) {
+    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
+    const j = state % (i + 1);
+    [items[i], items[j]] = [items[j]!, items[i]!];
+  }
+}
+
 function cellsOf(table: Table): string[][] {
   return table.columns.map((column) => Array.from({ length: table.rowCount }, (_, row) => cellText(column, row)));
 }
@@ -157,6 +167,30 @@ describe('reading in segments and joining them gives the whole read', () => {
       expect(cellsOf(joined.table)).toEqual(cellsOf(whole.table));
       expect(Array.from(joined.table.lineOfRow)).toEqual(Array.from(whole.table.lineOfRow));
     }
+  });
+
+  it('for an identifier kept as bytes in every segment (packValues), sorted or not, with values repeated across segments', async () => {
+    // 6,000 invented rows, ~90 kB: identifiers in order, shuffled, in two sorted runs, or one repeated far apart.
+    const orders = ['sorted', 'shuffled', 'two runs', 'repeated'] as const;
+    await fc.assert(
+      fc.asyncProperty(fc.constantFrom(...orders), fc.integer({ min: 0, max: 2 ** 31 }), fc.constantFrom(9_000, 20_000, 70_000), async (order, seed, segmentBytes) => {
+        const ids = Array.from({ length: 6000 }, (_, i) => `HH-${String(i).padStart(6, '0')}`);
+        if (order === 'shuffled') shuffle(ids, seed);
+        if (order === 'two runs') ids.push(...ids.splice(0, 3000 + (seed % 1000)));
+        if (order === 'repeated') ids[5000 + (seed % 1000)] = ids[seed % 1000]!;
+        const text = `id,colour\n${ids.map((id, i) => `${id},${['red', 'blue', 'NA'][i % 3]}`).join('\n')}\n`;
+        const bytes = new TextEncoder().encode(text);
+        const whole = readTable(bytes);
+        const joined = await readInSegments(bytes, segmentBytes, { packValues: true });
+        expect(cellsOf(joined.table)).toEqual(cellsOf(whole.table));
+        expect(joined.table.columns.map(storageOf)).toEqual(whole.table.columns.map(storageOf));
+        expect(profileTable(joined.table)).toEqual(profileTable(whole.table));
+        const id = joined.table.columns[0]!;
+        // Sorted identifiers join as bytes, without a lookup; any other order falls back to strings.
+        expect(id.kind === 'text' && id.packed?.ascending === true).toBe(order === 'sorted');
+      }),
+      { numRuns: 40 },
+    );
   });
 
   afterAll(() => {

@@ -76,7 +76,8 @@ function packed(source: Table): Table {
     if (column.kind !== 'text' || column.values.some((v) => /[^\x00-\x7f]/.test(v))) return column;
     const starts = new Int32Array(column.values.length + 1);
     column.values.forEach((v, i) => (starts[i + 1] = starts[i]! + v.length));
-    return withPackedValues(column, { bytes: new TextEncoder().encode(column.values.join('')), starts });
+    const ascending = column.values.every((v, i) => i === 0 || v > column.values[i - 1]!);
+    return withPackedValues(column, { bytes: new TextEncoder().encode(column.values.join('')), starts, ascending });
   });
   return { ...source, columns };
 }
