@@ -20,7 +20,7 @@ import { fileURLToPath } from 'node:url';
 import { stringifyRecipe, type Recipe } from '../src/core/index.ts';
 import { measuresEverything, parseBenchArguments, REFERENCE_ROWS, USAGE, type ApplyChoice, type BenchArguments } from './lib/args.ts';
 import { findResult, type MemoryResult, type TimedResult } from './lib/child-result.ts';
-import { measureInChild, PROJECT_ROOT, runCli, runNode } from './lib/children.ts';
+import { CLI, launcherFlags, measureInChild, PROJECT_ROOT, runCli, runNode } from './lib/children.ts';
 import { cpuShares, describeMachine, machineLine, readCpuTicks } from './lib/machine.ts';
 import { applyFromFile, readTableFromFile } from './lib/paths.ts';
 import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
@@ -103,7 +103,7 @@ async function chooseApplyPath(choice: ApplyChoice, recipeFile: string, recipe: 
   for (let i = 0; i < 3; i++) startups.push((await runCli(['--help'])).wallSeconds);
   return {
     kind: 'cli',
-    command: 'node bin/levelwise.js apply RECIPE FILE -o /dev/null',
+    command: ['node', ...launcherFlags(readFileSync(CLI, 'utf8')), 'bin/levelwise.js apply RECIPE FILE -o /dev/null'].join(' '),
     startupSeconds: median(startups),
     matchesInProcess: cliHash === sha256OfInProcessApply(checkFile, recipe),
   };

@@ -81,7 +81,19 @@ export async function measureInChild<T>(kind: MeasureKind, args: readonly string
   return { result: findResult<T>(run.stdout), peakRssBytes: run.peakRssBytes };
 }
 
-/** `node bin/levelwise.js …args`, the command line exactly as a person starts it. */
+/**
+ * The command line exactly as a person starts it (`npx levelwise …args`, which runs the launcher
+ * through its first line): node with the flags that line gives, then bin/levelwise.js.
+ */
 export function runCli(args: readonly string[], nodeFlags: readonly string[] = []): Promise<ProcessRun> {
-  return runNode(nodeFlags, CLI, args);
+  return runNode([...launcherFlags(readFileSync(CLI, 'utf8')), ...nodeFlags], CLI, args);
+}
+
+/** The node flags on a launcher's first line (`#!/usr/bin/env -S node --flag …`). */
+export function launcherFlags(source: string): string[] {
+  const first = source.slice(0, source.indexOf('\n'));
+  const words = first.replace(/^#!\s*/, '').split(/\s+/).filter((word) => word !== '');
+  const node = words.findIndex((word) => word === 'node' || word.endsWith('/node'));
+  if (node === -1) throw new Error(`the launcher's first line does not start node: ${first}`);
+  return words.slice(node + 1);
 }

@@ -48,7 +48,7 @@ export interface ProfileRun {
 /** The page's worker path: 1 MB slices of bytes → table → profiles → draft recipe. */
 export function profilePath(bytes: Uint8Array, file: string): ProfileRun {
   const t0 = performance.now();
-  const reader = createTableReader({ totalBytes: bytes.length });
+  const reader = createTableReader({ totalBytes: bytes.length, packValues: true });
   for (let at = 0; at < bytes.length; at += CHUNK_BYTES) reader.push(bytes.subarray(at, at + CHUNK_BYTES));
   const { table, delimiter } = reader.finish();
   const t1 = performance.now();
@@ -118,7 +118,8 @@ function startWriting(recipe: Recipe, first: Table, sink: (bytes: Uint8Array) =>
 
 /** Reads the whole file into a table the way the page's worker does, from slices on disk. */
 export function readTableFromFile(path: string): Table {
-  const reader = createTableReader({ totalBytes: statSync(path).size });
+  // Identifiers kept as bytes, as the page keeps them in the files it reads in segments (from 16 MB).
+  const reader = createTableReader({ totalBytes: statSync(path).size, packValues: true });
   forEachChunkOfFile(path, CHUNK_BYTES, (chunk) => reader.push(chunk));
   return reader.finish().table;
 }
