@@ -466,7 +466,7 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
   }
   const result = reader.finish(atEnd);
   const message: FromReader = { type: 'segment', id, bytesRead: position, ...result, table: crossingTable(result.table) };
-  port.postMessage(message, tableBuffers(result.table));
+  port.postMessage(message, tableBuffers(message.table));
 }
 
 function post(port: NonNullable<typeof parentPort>, message: Extract<FromReader, { type: 'batch' }>): void {
