@@ -369,14 +369,10 @@ function joinPackedAscending(columns: readonly Column[], rowCounts: readonly num
   let byteBase = 0;
   parts.forEach((part, k) => {
     const length = rowCounts[k]!;
-    const partCodes = part.codes;
-    if (!(k === 0 && inPlace !== null)) for (let row = 0; row < length; row++) codes[offset + row] = partCodes[row]! + base;
+    if (!(k === 0 && inPlace !== null)) shiftCodes(part.codes, length, base, codes, offset);
     const pack = packs[k]!;
     const values = part.counts.length;
-    for (let code = 0; code < values; code++) {
-      counts[base + code] = part.counts[code] ?? 0;
-      starts[base + code] = byteBase + pack.starts[code]! - pack.starts[0]!;
-    }
+    appendValues(part.counts, pack.starts, base, byteBase, counts, starts);
     bytes.set(pack.bytes.subarray(pack.starts[0]!, pack.starts[values]!), byteBase);
     offset += length;
     base += values;
@@ -384,6 +380,20 @@ function joinPackedAscending(columns: readonly Column[], rowCounts: readonly num
   });
   starts[distinct] = byteBase;
   return withPackedValues({ kind: 'text', name: first.name, length: rows, codes, counts }, { bytes, starts, ascending: true });
+}
+
+/** codes[offset + row] = from[row] + base for the part's rows. */
+function shiftCodes(from: Uint32Array, rows: number, base: number, codes: Uint32Array, offset: number): void {
+  for (let row = 0; row < rows; row++) codes[offset + row] = from[row]! + base;
+}
+
+/** A part's counts and value starts, from code `base` and byte `byteBase` of the joined ones. */
+function appendValues(partCounts: readonly number[], partStarts: Int32Array, base: number, byteBase: number, counts: number[], starts: Int32Array): void {
+  const first = partStarts[0]!;
+  for (let code = 0; code < partCounts.length; code++) {
+    counts[base + code] = partCounts[code] ?? 0;
+    starts[base + code] = byteBase + partStarts[code]! - first;
+  }
 }
 
 function valueBytesOf(pack: PackedTexts): number {

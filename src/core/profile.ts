@@ -193,19 +193,10 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
   // Values kept as bytes that tell the profile all it needs without their text (plain-values.ts).
   const plain = column.packed === undefined ? null : plainValues(column.packed, options.missingTokens);
   const textOf = textsOf(column, plain);
-  // Codes of the levels and of the missing spellings, in dictionary (first appearance) order.
-  const levelCodes = new Int32Array(counts.length);
-  const missingCodes: number[] = [];
-  let levelCount = 0;
-  for (let code = 0; code < counts.length; code++) {
-    if (!((counts[code] ?? 0) > 0)) continue;
-    if (plain?.[code] !== 1 && isMissing(textOf(code))) missingCodes.push(code);
-    else levelCodes[levelCount++] = code;
-  }
-  const byCount = sortCodesByCount(levelCodes.subarray(0, levelCount), counts);
-  const missingSpellings = levelCountsOf(sortCodesByCount(Int32Array.from(missingCodes), counts), textOf, counts);
-  let nonMissing = 0;
-  for (let i = 0; i < byCount.length; i++) nonMissing += counts[byCount[i]!] ?? 0;
+  const { levelCodes, missingCodes } = splitMissing(counts, plain, (code) => isMissing(textOf(code)));
+  const byCount = sortCodesByCount(levelCodes, counts);
+  const missingSpellings = levelCountsOf(sortCodesByCount(missingCodes, counts), textOf, counts);
+  const nonMissing = cellsOf(byCount, counts);
   // Every level, most frequent first: made when first read where plain values stand for most of them.
   const everyLevel = (): LookedAtLevels => {
     const values = plain === null ? null : column.values;
@@ -235,6 +226,29 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     text,
   };
   return plain === null ? profile : withLazyLevels(profile, () => everyLevel().levels);
+}
+
+/**
+ * Codes of the levels and of the missing spellings, in dictionary (first appearance) order; codes
+ * of no cell are neither. Plain values (plain-values.ts) are levels without being asked. Loops over
+ * a million codes live in small functions: run once in a command line, they are optimised sooner.
+ */
+function splitMissing(counts: readonly number[], plain: Uint8Array | null, isMissingCode: (code: number) => boolean): { levelCodes: Int32Array; missingCodes: Int32Array } {
+  const levelCodes = new Int32Array(counts.length);
+  const missingCodes: number[] = [];
+  let levelCount = 0;
+  for (let code = 0; code < counts.length; code++) {
+    if (!((counts[code] ?? 0) > 0)) continue;
+    if (plain?.[code] !== 1 && isMissingCode(code)) missingCodes.push(code);
+    else levelCodes[levelCount++] = code;
+  }
+  return { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes) };
+}
+
+function cellsOf(codes: Int32Array, counts: readonly number[]): number {
+  let cells = 0;
+  for (let i = 0; i < codes.length; i++) cells += counts[codes[i]!] ?? 0;
+  return cells;
 }
 
 /**
@@ -507,37 +521,8 @@ function maybeBlank(text: string): boolean {
 
 function profileNumberColumn(column: NumberColumn, index: number, options: ProfileOptions): ColumnProfile {
   const isMissing = missingTest(options.missingTokens);
-  const { length, values, exceptions } = column;
-  const isException = new Uint8Array(length);
-  for (const row of exceptions.keys()) if (row >= 0 && row < length) isException[row] = 1;
-
-  // The one pass over the cells: plain numbers are gathered, NaN without text is an empty cell, and
-  // the others are counted by their text: exceptions, fixed-decimal cells ("134.00"), and numbers a
-  // missing token spells ("-999"). In row order, as the texts appear in the file.
-  const codedMissing = missingNumbers(options.missingTokens);
-  const fixed = column.fixedDigits;
-  const texts = new Map<string, number>();
-  const plain = new Float64Array(length);
-  let plainCount = 0;
-  let plainFractions = 0;
-  let emptyCells = 0;
-  for (let row = 0; row < length; row++) {
-    const v = values[row] ?? NaN;
-    const digits = fixed === null ? 0 : (fixed[row] ?? 0);
-    let text: string | undefined;
-    if (isException[row] === 1) text = exceptions.get(row);
-    else if (Number.isNaN(v)) emptyCells++;
-    else if (digits > 0) text = v.toFixed(digits);
-    else if (codedMissing.size > 0 && codedMissing.has(v)) text = String(v); // a plain cell's text
-    else {
-      plain[plainCount++] = v;
-      if (!Number.isInteger(v)) plainFractions++;
-    }
-    if (text !== undefined) {
-      isException[row] = 1;
-      texts.set(text, (texts.get(text) ?? 0) + 1);
-    }
-  }
+  const { length } = column;
+  const { isException, texts, plain, plainCount, plainFractions, emptyCells } = tallyNumberCells(column, missingNumbers(options.missingTokens));
 
   const exceptionTexts = splitByMissing(texts, isMissing);
   const format = options.format ?? detectNumberFormat([
@@ -593,7 +578,67 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   };
 }
 
-/** Exception texts grouped by spelling, split into missing and non-missing, in first-seen order. */
+/** What the one pass over a number column's cells finds (tallyNumberCells). */
+interface NumberCells {
+  /** 1 for each row counted by its text. */
+  readonly isException: Uint8Array;
+  /** Those texts with their cells, in the order they first appear. */
+  readonly texts: Map<string, number>;
+  /** The other numbers, in row order: plain[0, plainCount). */
+  readonly plain: Float64Array;
+  readonly plainCount: number;
+  /** Plain numbers that are not whole. */
+  readonly plainFractions: number;
+  readonly emptyCells: number;
+}
+
+/**
+ * The one pass over the cells: plain numbers are gathered, NaN without text is an empty cell, and
+ * the others are counted by their text: exceptions, fixed-decimal cells ("134.00"), and numbers a
+ * missing token spells ("-999"). In row order, as the texts appear in the file. A function of its
+ * own: run once in a command line, it is optimised sooner small than inside the whole profile.
+ */
+function tallyNumberCells(column: NumberColumn, codedMissing: ReadonlySet<number>): NumberCells {
+  const { length, values, exceptions } = column;
+  const isException = new Uint8Array(length);
+  for (const row of exceptions.keys()) if (row >= 0 && row < length) isException[row] = 1;
+  const fixed = column.fixedDigits;
+  const texts = new Map<string, number>();
+  // A fixed-decimal cell's text, made once per number and count of decimals (a tenth of a column
+  // of amounts can be "12.50"s: toFixed for each was most of this pass).
+  const fixedTexts: Map<number, string>[] = [];
+  const plain = new Float64Array(length);
+  let plainCount = 0;
+  let plainFractions = 0;
+  let emptyCells = 0;
+  for (let row = 0; row < length; row++) {
+    const v = values[row] ?? NaN;
+    const digits = fixed === null ? 0 : (fixed[row] ?? 0);
+    let text: string | undefined;
+    if (isException[row] === 1) text = exceptions.get(row);
+    else if (Number.isNaN(v)) emptyCells++;
+    else if (digits > 0) text = fixedText(fixedTexts, v, digits);
+    else if (codedMissing.size > 0 && codedMissing.has(v)) text = String(v); // a plain cell's text
+    else {
+      plain[plainCount++] = v;
+      if (!Number.isInteger(v)) plainFractions++;
+    }
+    if (text !== undefined) {
+      isException[row] = 1;
+      texts.set(text, (texts.get(text) ?? 0) + 1);
+    }
+  }
+  return { isException, texts, plain, plainCount, plainFractions, emptyCells };
+}
+
+/** v.toFixed(digits), from `made` (by count of decimals) when made before. -0 shares 0's: toFixed writes both alike. */
+function fixedText(made: Map<number, string>[], v: number, digits: number): string {
+  const byValue = (made[digits] ??= new Map());
+  let text = byValue.get(v);
+  if (text === undefined) byValue.set(v, (text = v.toFixed(digits)));
+  return text;
+}
+
 /** Texts with their counts, split into missing and non-missing, in first-seen order. */
 function splitByMissing(counts: ReadonlyMap<string, number>, isMissing: MissingTest): { missing: LevelCount[]; nonMissing: LevelCount[] } {
   const missing: LevelCount[] = [];
@@ -606,7 +651,10 @@ function readExceptionNumbers(
   texts: readonly LevelCount[],
   read: NumberReader,
 ): { sorted: Float64Array; invalidCount: number; leadingZeros: number } {
-  const numbers: number[] = [];
+  let cells = 0;
+  for (const { count } of texts) cells += count;
+  const numbers = new Float64Array(cells);
+  let found = 0;
   let invalidCount = 0;
   let leadingZeros = 0;
   for (const { value, count } of texts) {
@@ -615,10 +663,11 @@ function readExceptionNumbers(
       invalidCount += count;
       continue;
     }
-    for (let i = 0; i < count; i++) numbers.push(v);
+    numbers.fill(v, found, found + count);
+    found += count;
     if (hasLeadingZero(value)) leadingZeros += count;
   }
-  return { sorted: sortNumbers(Float64Array.from(numbers)), invalidCount, leadingZeros };
+  return { sorted: sortNumbers(numbers.subarray(0, found)), invalidCount, leadingZeros };
 }
 
 function keepWholeNumbers(values: Float64Array): Float64Array {
