@@ -58,6 +58,12 @@ export interface ParallelReadOptions {
    * calling thread's reader should be made with it too.
    */
   readonly packValues?: boolean;
+  /**
+   * Bytes the calling thread reads more than each other thread (default 0): it starts first, while
+   * the others start up and wait for the header, so with equal shares it would finish first and
+   * wait for them. At most an equal share of the rest; ignored with `segmentBytes`.
+   */
+  readonly headStartBytes?: number;
   /** No segment smaller than this (default 1 byte). */
   readonly minSegmentBytes?: number;
   /** Segments of this size instead of one per thread (more segments than runners: for tests). */
@@ -88,8 +94,12 @@ export interface ParallelRead {
  */
 export function readInParallel(fileBytes: number, runners: readonly SegmentRunner[], options: ParallelReadOptions = {}): ParallelRead {
   const threads = Math.max(1, Math.min(runners.length + 1, Math.floor(fileBytes / (options.minSegmentBytes ?? 1))));
-  const segmentBytes = options.segmentBytes ?? Math.ceil(fileBytes / threads);
-  const firstStop = threads > 1 ? segmentBytes : Infinity;
+  // The calling thread reads its head start on top of an equal share: S + head, others S each;
+  // never more than twice what another reads (a small file still gives every thread its part).
+  const head = Math.min(options.headStartBytes ?? 0, Math.floor(fileBytes / (threads + 1)));
+  const share = Math.ceil((fileBytes - head) / threads);
+  const segmentBytes = options.segmentBytes ?? share;
+  const firstStop = threads > 1 ? (options.segmentBytes ?? share + head) : Infinity;
   const jobs = threads > 1 ? segmentJobs(firstStop, fileBytes, segmentBytes) : [];
   let started = false;
   let request: ((job: SegmentJob) => SegmentRequest) | null = null;
