@@ -101,7 +101,8 @@ export interface Table {
 
 /** The raw text of one cell exactly as the file wrote it, whatever the column's storage. */
 export function cellText(column: Column, row: number): string {
-  if (column.kind === 'text') return column.values[column.codes[row] ?? 0] ?? '';
+  // A packed column's text is made for this cell alone: a preview's rows need not make a million.
+  if (column.kind === 'text') return valueText(column, column.codes[row] ?? 0);
   const raw = column.exceptions.get(row);
   if (raw !== undefined) return raw;
   const v = column.values[row] ?? NaN;

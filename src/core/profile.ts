@@ -2,7 +2,7 @@
  * Profile: what each column holds. Computed per distinct value wherever the storage allows, so a
  * million-row column with a few levels costs a pass over its dictionary, not over its cells.
  */
-import { cellText, valueText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
+import { cellText, valueText, type Column, type NumberColumn, type PackedTexts, type Table, type TextColumn } from './columns.ts';
 import { looksLikeDate } from './dates.ts';
 import { DEFAULT_MISSING_TOKENS, missingNumbers, missingTest, type MissingTest } from './missing.ts';
 import { grow } from './columns-builder.ts';
@@ -225,7 +225,25 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     },
     text,
   };
-  return plain === null ? profile : withLazyLevels(profile, () => everyLevel().levels);
+  return plain === null ? profile : withLazyLevels(profile, () => everyLevel().levels, { codes: byCount, counts, packed: column.packed! });
+}
+
+/**
+ * Where the levels of a profile made only when read come from: their codes, most frequent first,
+ * in a column whose values are kept as bytes. What sends them elsewhere packed (the page's worker)
+ * reads them from there without making a string per level.
+ */
+export interface LevelSource {
+  readonly codes: Int32Array;
+  readonly counts: readonly number[];
+  readonly packed: PackedTexts;
+}
+
+const levelSources = new WeakMap<ColumnProfile, LevelSource>();
+
+/** The source of `profile`'s levels when they are made only when read (withLazyLevels), else null. */
+export function levelSourceOf(profile: ColumnProfile): LevelSource | null {
+  return levelSources.get(profile) ?? null;
 }
 
 /**
@@ -256,10 +274,12 @@ function cellsOf(codes: Int32Array, counts: readonly number[]): number {
  * identifiers' levels cost more than the rest of the profile, and drafting a recipe never reads
  * them (levelCount). Any copy of the profile made by spreading it reads them.
  */
-function withLazyLevels(profile: ColumnProfile, make: () => readonly LevelCount[]): ColumnProfile {
+function withLazyLevels(profile: ColumnProfile, make: () => readonly LevelCount[], source: LevelSource): ColumnProfile {
   let levels: readonly LevelCount[] | null = null;
   // Redefined where it stands, so that the keys keep their order (a profile written as JSON).
-  return Object.defineProperty(profile, 'levels', { enumerable: true, configurable: true, get: () => (levels ??= make()) });
+  const lazy = Object.defineProperty(profile, 'levels', { enumerable: true, configurable: true, get: () => (levels ??= make()) });
+  levelSources.set(lazy, source);
+  return lazy;
 }
 
 /**
@@ -273,10 +293,21 @@ export function levelCount(profile: ColumnProfile): number | null {
 
 /** `profile` with `numeric` replaced; levels made only when read stay so. */
 function withNumeric(profile: ColumnProfile, numeric: NumericSummary): ColumnProfile {
-  return Object.defineProperties({}, {
+  return withField(profile, 'numeric', numeric);
+}
+
+/**
+ * `profile` with one field replaced, copied without reading its other fields: levels made only
+ * when read stay so, and keep their source (levelSourceOf).
+ */
+export function withField<K extends keyof ColumnProfile>(profile: ColumnProfile, key: K, value: ColumnProfile[K]): ColumnProfile {
+  const copy = Object.defineProperties({}, {
     ...Object.getOwnPropertyDescriptors(profile),
-    numeric: { value: numeric, enumerable: true, configurable: true, writable: true },
+    [key]: { value, enumerable: true, configurable: true, writable: true },
   }) as ColumnProfile;
+  const source = levelSources.get(profile);
+  if (source !== undefined && key !== 'levels') levelSources.set(copy, source);
+  return copy;
 }
 
 /**

@@ -8,7 +8,8 @@
  * a few milliseconds to receive, almost nothing to collect. The page needs the objects only when a
  * decision refits that column (core `decide` reads `profile.levels`), so they are built then, once.
  */
-import type { ColumnProfile, LevelCount } from '../core/profile.ts';
+import type { ColumnProfile, LevelCount, LevelSource } from '../core/profile.ts';
+import { utf8Text } from '../core/utf8-text.ts';
 
 /** Profiles with more levels than this travel packed; shorter lists stay plain objects. */
 export const PACK_ABOVE_LEVELS = 10_000;
@@ -47,6 +48,47 @@ export function packLevels(levels: readonly LevelCount[]): PackedLevels[] {
     start = end;
   }
   return runs;
+}
+
+/**
+ * packLevels for levels kept as bytes (core profile.ts LevelSource: codes into a column of ASCII
+ * values): the same runs, made from the bytes, without a string or an object per level.
+ */
+export function packLevelsFromBytes(source: LevelSource): PackedLevels[] {
+  const { codes, counts, packed } = source;
+  const { bytes, starts } = packed;
+  const runs: PackedLevels[] = [];
+  let start = 0;
+  while (start < codes.length) {
+    let end = start;
+    let units = 0;
+    // ASCII: a byte is a UTF-16 code unit.
+    while (end < codes.length && end - start < RUN_LEVELS && (units < RUN_TEXT_UNITS || end === start)) {
+      const code = codes[end++]!;
+      units += starts[code + 1]! - starts[code]!;
+    }
+    runs.push(runFromBytes(codes.subarray(start, end), counts, bytes, starts, units));
+    start = end;
+  }
+  return runs;
+}
+
+function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8Array, starts: Int32Array, units: number): PackedLevels {
+  const lengths = new Uint32Array(codes.length);
+  const levelCounts = new Float64Array(codes.length);
+  const text = new Uint8Array(units);
+  let at = 0;
+  for (let i = 0; i < codes.length; i++) {
+    const code = codes[i]!;
+    const from = starts[code]!;
+    const length = starts[code + 1]! - from;
+    text.set(bytes.subarray(from, from + length), at);
+    at += length;
+    lengths[i] = length;
+    levelCounts[i] = counts[code]!;
+  }
+  // ASCII: one decode of the run's bytes gives one UTF-16 unit per byte.
+  return { text: utf8Text(text, 0, text.length), lengths, counts: levelCounts };
 }
 
 export function unpackLevels(runs: readonly PackedLevels[]): LevelCount[] {

@@ -12,10 +12,10 @@ import { createCsvWriter } from '../core/csv-write.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { draftRecipe } from '../core/fit.ts';
 import { compilePlan, type Plan } from '../core/plan.ts';
-import { profileTable, type ColumnProfile } from '../core/profile.ts';
+import { levelCount, levelSourceOf, profileTable, withField, type ColumnProfile } from '../core/profile.ts';
 import { DEFAULT_MISSING_TOKENS, type Recipe } from '../core/recipe.ts';
 import { fingerprintFile } from './fingerprint.ts';
-import { PACK_ABOVE_LEVELS, packLevels, type PackedLevels } from './packed-levels.ts';
+import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, type PackedLevels } from './packed-levels.ts';
 import {
   Cancelled,
   type CallKind,
@@ -217,12 +217,14 @@ export function createSession(post: Post): Session {
  * Posts each level list longer than PACK_ABOVE_LEVELS ahead, packed (the `levels` message), and
  * returns the profiles with those lists left empty for the `done` answer.
  */
-function sendLongLevelsAhead(profiles: readonly ColumnProfile[], context: Context): ColumnProfile[] {
+export function sendLongLevelsAhead(profiles: readonly ColumnProfile[], context: Pick<Context, 'levels'>): ColumnProfile[] {
   return profiles.map((profile, column) => {
-    const { levels } = profile;
-    if (levels === null || levels.length <= PACK_ABOVE_LEVELS) return profile;
-    for (const run of packLevels(levels)) context.levels(column, run);
-    return { ...profile, levels: [] };
+    const count = levelCount(profile);
+    if (count === null || count <= PACK_ABOVE_LEVELS) return profile;
+    // An identifier's levels, still bytes, go packed from there: no string per level is made here.
+    const source = levelSourceOf(profile);
+    for (const run of source === null ? packLevels(profile.levels ?? []) : packLevelsFromBytes(source)) context.levels(column, run);
+    return withField(profile, 'levels', []);
   });
 }
 

@@ -8,7 +8,7 @@
  * (bench/README.md, "In the page"). Cut down to the window, a text column holds only the values
  * its rows use. Cell texts, numbers and lines are those of the whole table, row for row.
  */
-import type { Column, NumberColumn, Table, TextColumn } from '../core/columns.ts';
+import { valueText, type Column, type NumberColumn, type Table, type TextColumn } from '../core/columns.ts';
 
 /** Rows [from, to) of `table` as a table whose row 0 is row `from`. */
 export function windowTable(table: Table, from: number, to: number): Table {
@@ -45,7 +45,7 @@ function textWindow(column: TextColumn, from: number, to: number): TextColumn {
     if (local === undefined) {
       local = values.length;
       renumbered.set(code, local);
-      values.push(column.values[code] ?? '');
+      values.push(valueText(column, code)); // only the window's values, even of a packed identifier
       counts.push(0);
     }
     counts[local]! += 1;

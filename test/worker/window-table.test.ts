@@ -17,6 +17,23 @@ function tableOf(csv: string, dictionaryCap?: number): Table {
   return readTable(new TextEncoder().encode(csv), dictionaryCap === undefined ? {} : { dictionaryCap }).table;
 }
 
+describe('a window of a table whose identifier is kept as bytes', () => {
+  it('makes the texts of its own rows only, not the million of the column', () => {
+    // An invented identifier column of 200,000 rows, read as the page reads big files (packValues).
+    const ids = Array.from({ length: 200_000 }, (_, i) => `HH-${String(i).padStart(6, '0')}`);
+    const table = readTable(new TextEncoder().encode(`id\n${ids.join('\n')}\n`), { packValues: true }).table;
+    const id = table.columns[0]!;
+    expect(id.kind === 'text' && id.packed !== undefined).toBe(true);
+    let made = 0;
+    const counted = Object.defineProperty({ ...id }, 'values', { get: () => (made++, ids) });
+    const watched: Table = { ...table, columns: [counted] };
+    const window = windowTable(watched, 150_000, 150_003);
+    expect([0, 1, 2].map((row) => cellText(window.columns[0]!, row))).toEqual(['HH-150000', 'HH-150001', 'HH-150002']);
+    expect(cellText(counted, 199_999)).toBe('HH-199999');
+    expect(made).toBe(0);
+  });
+});
+
 describe('a window of a table', () => {
   // Invented rows: a colour, an amount with a gap and a stray text.
   const csv = 'colour,amount\nred,1\nblue,x\nred,3\ngreen,\nblue,5\n';
