@@ -6,7 +6,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { withPackedValues, type PackedTexts, type TextColumn } from '../../src/core/columns.ts';
+import type { TextColumn } from '../../src/core/columns.ts';
 import { looksLikeDate } from '../../src/core/dates.ts';
 import { draftColumn } from '../../src/core/fit.ts';
 import { inferLevel } from '../../src/core/infer.ts';
@@ -16,6 +16,7 @@ import { parseNumber } from '../../src/core/numbers.ts';
 import { plainValues } from '../../src/core/plain-values.ts';
 import { levelCount, profileColumn } from '../../src/core/profile.ts';
 import type { NumberFormat } from '../../src/core/recipe.ts';
+import { packedTexts, textColumnsOf } from '../helpers/text-columns.ts';
 
 /** Characters that make values look like ids, numbers, dates, signs, missing spellings or prose. */
 const PIECES = ['HH-', 'A', 'x', 'K', 'HK$', 'US$', 'CHF', '$', '%', 'kg', '-', '+', '.', ',', '(', ')', '/', ' ', '\t', '0', '1', '7', '12', '2024', 'Mar', 'N/A', 'NA', '#', 'null', 'é'];
@@ -32,39 +33,12 @@ const FORMATS: readonly NumberFormat[] = [
   { decimal: ',', group: '', negative: 'trailing' },
 ];
 
-function packedOf(values: readonly string[]): PackedTexts {
-  const bytes = new TextEncoder().encode(values.join(''));
-  const starts = new Int32Array(values.length + 1);
-  values.forEach((v, i) => (starts[i + 1] = starts[i]! + v.length));
-  return { bytes, starts, ascending: values.every((v, i) => i === 0 || v > values[i - 1]!) };
-}
-
-/** A text column of `cells` (codes in order of first appearance), and the same column with its values kept as bytes. */
-function columnsOf(cells: readonly string[]): { strings: TextColumn; bytes: TextColumn } {
-  const values: string[] = [];
-  const counts: number[] = [];
-  const codeOf = new Map<string, number>();
-  const codes = new Uint32Array(cells.length);
-  cells.forEach((cell, row) => {
-    let code = codeOf.get(cell);
-    if (code === undefined) {
-      code = values.push(cell) - 1;
-      counts.push(0);
-      codeOf.set(cell, code);
-    }
-    counts[code]!++;
-    codes[row] = code;
-  });
-  const strings: TextColumn = { kind: 'text', name: 'id', length: cells.length, codes, values, counts };
-  return { strings, bytes: withPackedValues({ kind: 'text', name: 'id', length: cells.length, codes, counts }, packedOf(values)) };
-}
-
 describe('plain values', () => {
   it('pass every check the profile makes on their text', () => {
     const isMissing = missingTest(DEFAULT_MISSING_TOKENS);
     fc.assert(
       fc.property(fc.uniqueArray(asciiValue, { maxLength: 60 }), (values) => {
-        const plain = plainValues(packedOf(values), DEFAULT_MISSING_TOKENS);
+        const plain = plainValues(packedTexts(values), DEFAULT_MISSING_TOKENS);
         values.forEach((text, code) => {
           if (plain[code] !== 1) return;
           expect(isMissing(text)).toBe(false);
@@ -81,7 +55,7 @@ describe('plain values', () => {
 
   it('are what identifiers written as codes are', () => {
     const values = ['HH-000001', 'HH-000002', 'ORD/2024/17', 'n/a', '12345', 'HK$ 12', 'Flat 3', '2024-03-01'];
-    expect(Array.from(plainValues(packedOf(values), DEFAULT_MISSING_TOKENS))).toEqual([1, 1, 1, 0, 0, 0, 0, 0]);
+    expect(Array.from(plainValues(packedTexts(values), DEFAULT_MISSING_TOKENS))).toEqual([1, 1, 1, 0, 0, 0, 0, 0]);
   });
 });
 
@@ -98,7 +72,7 @@ describe('a column profiled from its bytes', () => {
     );
     fc.assert(
       fc.property(fc.array(cell, { maxLength: 80 }), format, fc.constantFrom(DEFAULT_MISSING_TOKENS, ['null', '-']), (cells, fixed, missingTokens) => {
-        const { strings, bytes } = columnsOf(cells);
+        const { strings, bytes } = textColumnsOf(cells);
         const options = { missingTokens, ...(fixed === undefined ? {} : { format: fixed }) };
         expect(profileColumn(bytes, 0, options)).toEqual(profileColumn(strings, 0, options));
       }),
@@ -108,7 +82,7 @@ describe('a column profiled from its bytes', () => {
 
   it('makes the levels of a million-row identifier only when they are read, and drafting never reads them', () => {
     const cells = Array.from({ length: 200_000 }, (_, i) => `HH-${String(i).padStart(7, '0')}`);
-    const { bytes } = columnsOf(cells);
+    const { bytes } = textColumnsOf(cells);
     let made = 0;
     const counted = Object.defineProperty({ ...bytes }, 'values', { get: () => (made++, cells) }) as TextColumn;
     const profile = profileColumn(counted, 0);

@@ -4,7 +4,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { withPackedValues, type TextColumn } from '../../src/core/columns.ts';
+import type { TextColumn } from '../../src/core/columns.ts';
 import type { LevelCount } from '../../src/core/profile.ts';
 import { levelSourceOf, profileColumn, profileTable } from '../../src/core/profile.ts';
 import { readTable } from '../../src/core/read-table.ts';
@@ -13,6 +13,7 @@ import { createInPagePort } from '../../src/worker/in-page-port.ts';
 import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, RUN_LEVELS, RUN_TEXT_UNITS, unpackLevels, withPackedLevels, type PackedLevels } from '../../src/worker/packed-levels.ts';
 import type { FromWorker } from '../../src/worker/protocol.ts';
 import { createSession, sendLongLevelsAhead } from '../../src/worker/session.ts';
+import { textColumnsOf } from '../helpers/text-columns.ts';
 
 /** Any text a cell may hold, surrogate pairs, empty and line breaks included. */
 const level = fc.record({ value: fc.string({ unit: 'binary', maxLength: 12 }), count: fc.integer({ min: 1, max: 1_000_000 }) });
@@ -90,32 +91,11 @@ describe('opening a file with a column of many distinct values', () => {
 });
 
 describe('packing level lists kept as bytes', () => {
-  /** A column of `cells` with its values kept as bytes (codes in order of first appearance). */
-  function packedColumn(cells: readonly string[]): TextColumn {
-    const values: string[] = [];
-    const counts: number[] = [];
-    const codeOf = new Map<string, number>();
-    const codes = new Uint32Array(cells.length);
-    cells.forEach((cell, row) => {
-      let code = codeOf.get(cell);
-      if (code === undefined) {
-        code = values.push(cell) - 1;
-        counts.push(0);
-        codeOf.set(cell, code);
-      }
-      counts[code]!++;
-      codes[row] = code;
-    });
-    const starts = new Int32Array(values.length + 1);
-    values.forEach((v, i) => (starts[i + 1] = starts[i]! + v.length));
-    return withPackedValues({ kind: 'text', name: 'id', length: cells.length, codes, counts }, { bytes: new TextEncoder().encode(values.join('')), starts, ascending: false });
-  }
-
   it('property: gives the runs the levels themselves give, in the same order (fast-check)', () => {
     const cell = fc.oneof(fc.constantFrom('', 'NA', 'a', 'bb', 'x y'), fc.integer({ min: 0, max: 40 }).map((n) => `K-${n}`), fc.string({ unit: fc.integer({ min: 0x20, max: 0x7e }).map((c) => String.fromCharCode(c)), maxLength: 6 }));
     fc.assert(
       fc.property(fc.array(cell, { maxLength: 200 }), (cells) => {
-        const profile = profileColumn(packedColumn(cells), 0);
+        const profile = profileColumn(textColumnsOf(cells).bytes, 0);
         const source = levelSourceOf(profile);
         expect(source).not.toBeNull();
         expect(packLevelsFromBytes(source!)).toEqual(packLevels(profile.levels ?? []));
@@ -125,7 +105,7 @@ describe('packing level lists kept as bytes', () => {
 
   it('sends a 70,000-row identifier ahead in the same runs, without making its levels', () => {
     const cells = Array.from({ length: 70_000 }, (_, i) => `ID-${String(i).padStart(6, '0')}`);
-    const column = packedColumn(cells);
+    const column = textColumnsOf(cells).bytes;
     let made = 0;
     const counted = Object.defineProperty({ ...column }, 'values', { get: () => (made++, cells) }) as TextColumn;
     const profile = profileColumn(counted, 0);
