@@ -567,11 +567,8 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   // Plain numbers with a fraction do not read in a comma-decimal format: they become invalid cells.
   const plainInvalid = format.decimal === ',' ? plainFractions : 0;
   const plainValid = format.decimal === ',' ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
-  sortNumbers(plainValid);
-  const distinctPlain = countDistinctSorted(plainValid);
-
   const fromExceptions = readExceptionNumbers(exceptionTexts.nonMissing, read);
-  const all = mergeSorted(plainValid, fromExceptions.sorted);
+  const { runs, distinctPlain } = numberRuns(plainValid, fromExceptions);
   const nonMissing = plainCount + sumCounts(exceptionTexts.nonMissing);
   const invalidCount = plainInvalid + fromExceptions.invalidCount;
   const missingSpellings = exceptionTexts.missing;
@@ -579,9 +576,9 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   sortByCountDescending(missingSpellings);
 
   const numeric =
-    all.length === 0
+    runs.length === 0
       ? null
-      : summarize(runsFromSorted(all), {
+      : summarize(runs, {
           format,
           nonMissing,
           invalidCount,
@@ -678,13 +675,17 @@ function splitByMissing(counts: ReadonlyMap<string, number>, isMissing: MissingT
   return { missing, nonMissing };
 }
 
-function readExceptionNumbers(
-  texts: readonly LevelCount[],
-  read: NumberReader,
-): { sorted: Float64Array; invalidCount: number; leadingZeros: number } {
-  let cells = 0;
-  for (const { count } of texts) cells += count;
-  const numbers = new Float64Array(cells);
+/** The numbers of the texts counted apart (exceptions, fixed decimals), one entry per text. */
+interface ExceptionNumbers {
+  readonly values: Float64Array;
+  readonly counts: Float64Array;
+  readonly invalidCount: number;
+  readonly leadingZeros: number;
+}
+
+function readExceptionNumbers(texts: readonly LevelCount[], read: NumberReader): ExceptionNumbers {
+  const values = new Float64Array(texts.length);
+  const counts = new Float64Array(texts.length);
   let found = 0;
   let invalidCount = 0;
   let leadingZeros = 0;
@@ -694,11 +695,141 @@ function readExceptionNumbers(
       invalidCount += count;
       continue;
     }
-    numbers.fill(v, found, found + count);
-    found += count;
+    values[found] = v;
+    counts[found++] = count;
     if (hasLeadingZero(value)) leadingZeros += count;
   }
-  return { sorted: sortNumbers(numbers.subarray(0, found)), invalidCount, leadingZeros };
+  return { values: values.subarray(0, found), counts: counts.subarray(0, found), invalidCount, leadingZeros };
+}
+
+/**
+ * The runs of a number column's numbers (`plain`, one per cell, and the exceptions' numbers with
+ * their counts), and how many distinct numbers `plain` holds. Columns of measurements hold far
+ * fewer distinct numbers than cells (a million amounts in cents: ~50,000): those are counted in a
+ * hash table and only the distinct ones sorted. Past MAX_COUNTED_SHARE of the cells distinct, the
+ * cells are sorted instead, as sorting them all is then the cheaper.
+ */
+function numberRuns(plain: Float64Array, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
+  const tally = new NumberTally(Math.max(MIN_COUNTED, Math.ceil(plain.length * MAX_COUNTED_SHARE)));
+  if (tally.addAll(plain)) {
+    const distinctPlain = tally.distinctNumbers();
+    for (let i = 0; i < exceptions.values.length; i++) tally.add(exceptions.values[i]!, exceptions.counts[i]!);
+    return { runs: tally.runs(), distinctPlain };
+  }
+  sortNumbers(plain);
+  const distinctPlain = countDistinctSorted(plain);
+  return { runs: runsFromSorted(mergeSorted(plain, expanded(exceptions))), distinctPlain };
+}
+
+/** A number's two 32-bit halves mixed so that every bit reaches the low bits a table slot is taken from. */
+function spread(low: number, high: number): number {
+  const h = Math.imul(low, 0x9e3779b1) ^ Math.imul(high, 0x85ebca6b);
+  return h ^ (h >>> 15);
+}
+
+/** Counted in a hash table up to this share of the cells distinct… */
+const MAX_COUNTED_SHARE = 1 / 8;
+/** …or this many, whichever is more. */
+const MIN_COUNTED = 1024;
+
+/** The exceptions' numbers, each as many times as it was counted, sorted. */
+function expanded(exceptions: ExceptionNumbers): Float64Array {
+  let cells = 0;
+  for (let i = 0; i < exceptions.counts.length; i++) cells += exceptions.counts[i]!;
+  const numbers = new Float64Array(cells);
+  let at = 0;
+  for (let i = 0; i < exceptions.values.length; i++) {
+    const count = exceptions.counts[i]!;
+    numbers.fill(exceptions.values[i]!, at, at + count);
+    at += count;
+  }
+  return sortNumbers(numbers);
+}
+
+/**
+ * Numbers with their counts, by their bits (so -0 apart from 0, as a sort keeps them apart too),
+ * open addressing with linear probing; at most `most` distinct.
+ */
+class NumberTally {
+  private readonly most: number;
+  private readonly mask: number;
+  /** Per slot: the number's two 32-bit halves. */
+  private readonly words: Int32Array;
+  /** Per slot: its count; 0 marks a free slot. */
+  private readonly counts: Float64Array;
+  private readonly keys: Float64Array;
+  private size = 0;
+  private readonly bits = new Float64Array(1);
+  private readonly halves = new Int32Array(this.bits.buffer);
+
+  constructor(most: number) {
+    this.most = most;
+    let slots = 16;
+    while (slots < 2 * most) slots *= 2;
+    this.mask = slots - 1;
+    this.words = new Int32Array(2 * slots);
+    this.counts = new Float64Array(slots);
+    this.keys = new Float64Array(most);
+  }
+
+  /** Adds each number once; false as soon as there are more than `most` distinct (the tally is then of no use). */
+  addAll(values: Float64Array): boolean {
+    for (let i = 0; i < values.length; i++) if (!this.add(values[i]!, 1)) return false;
+    return true;
+  }
+
+  add(value: number, count: number): boolean {
+    this.bits[0] = value;
+    const low = this.halves[0]!;
+    const high = this.halves[1]!;
+    const { words, counts, mask } = this;
+    for (let slot = spread(low, high) & mask; ; slot = (slot + 1) & mask) {
+      if (counts[slot] === 0) {
+        if (this.size === this.most) return false;
+        words[2 * slot] = low;
+        words[2 * slot + 1] = high;
+        counts[slot] = count;
+        this.keys[this.size++] = value;
+        return true;
+      }
+      if (words[2 * slot] === low && words[2 * slot + 1] === high) {
+        counts[slot]! += count;
+        return true;
+      }
+    }
+  }
+
+  /** Distinct numbers so far, -0 and 0 being one. */
+  distinctNumbers(): number {
+    return this.size - (this.countOf(0) > 0 && this.countOf(-0) > 0 ? 1 : 0);
+  }
+
+  /** The runs: distinct numbers ascending with their counts, -0 and 0 in one run (as runsFromSorted makes them). */
+  runs(): Runs {
+    const sorted = sortNumbers(this.keys.slice(0, this.size));
+    const values = new Float64Array(sorted.length);
+    const counts = new Float64Array(sorted.length);
+    let n = 0;
+    for (let i = 0; i < sorted.length; i++) {
+      const v = sorted[i]!;
+      if (n > 0 && values[n - 1] === v) counts[n - 1]! += this.countOf(v);
+      else {
+        values[n] = v;
+        counts[n++] = this.countOf(v);
+      }
+    }
+    return { values, counts, length: n };
+  }
+
+  private countOf(value: number): number {
+    this.bits[0] = value;
+    const low = this.halves[0]!;
+    const high = this.halves[1]!;
+    for (let slot = spread(low, high) & this.mask; ; slot = (slot + 1) & this.mask) {
+      if (this.counts[slot] === 0) return 0;
+      if (this.words[2 * slot] === low && this.words[2 * slot + 1] === high) return this.counts[slot]!;
+    }
+  }
 }
 
 function keepWholeNumbers(values: Float64Array): Float64Array {
