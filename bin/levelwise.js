@@ -1,11 +1,8 @@
-#!/usr/bin/env -S node --no-concurrent-recompilation
-// The flag on the first line: V8 compiles hot code on the thread that runs it, not on a helper
-// thread of its own. The command line keeps every core busy reading (one thread per core), so a
-// helper thread had to wait for a core, and hot loops ran unoptimised meanwhile: on 2 cores,
-// `levelwise draft` took 1.48 s and 2.3 s of CPU against 1.36 s and 2.1 s with it, and `apply`
-// 1.73 s and 2.95 s against 1.67 s and 2.6 s (medians of 5-6 interleaved runs, bench/README.md).
-// It applies where the first line is read: `npx levelwise`, an installed `levelwise`, or
-// ./bin/levelwise.js; `node bin/levelwise.js` runs the same code with V8's default.
+#!/usr/bin/env node
+// No node flags on the line above: a line with flags needs `env -S`, which BusyBox (Alpine images)
+// and coreutils before 8.30 lack, and a scheduled job there would not start. V8's
+// --no-concurrent-recompilation made draft and apply 4-8 % faster on 2 cores (bench/README.md);
+// `node --no-concurrent-recompilation bin/levelwise.js …` still gets that by hand.
 // Launcher for the `levelwise` command line, which is written in TypeScript (src/cli/main.ts).
 //
 // A fresh clone needs no build step. Compiling the sources on every run (tsx's loader) took most of
