@@ -269,6 +269,7 @@ function numberRowsCopy(column: NumberColumn, rows: number): NumberColumn {
   return { ...column, values: column.values.slice(0, rows), fixedDigits: column.fixedDigits?.slice(0, rows) ?? null };
 }
 
+/** The profile a reading thread answers `request` with. */
 async function answerOf(inbox: Inbox, worker: number, request: ToReader): Promise<ColumnProfile> {
   const answer = await inbox.next(inbox.send(worker, request));
   if (answer.type !== 'profile') throw new Error(`reading thread: unexpected ${answer.type} message`);
@@ -285,10 +286,7 @@ function profileOnThreads(table: Table, options: ProfileOptions, inbox: Inbox, t
     const started = early.get(index);
     if (started !== undefined) return started;
     if (threads === 0) return profileColumn(column, index, options);
-    const id = inbox.send(next++ % threads, { type: 'profile', id: 0, column, index, options });
-    const answer = await inbox.next(id);
-    if (answer.type !== 'profile') throw new Error(`reading thread: unexpected ${answer.type} message`);
-    return answer.profile;
+    return answerOf(inbox, next++ % threads, { type: 'profile', id: 0, column, index, options });
   });
 }
 

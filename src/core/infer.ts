@@ -210,17 +210,17 @@ const numberedScale: InferenceRule = {
 const nominal: InferenceRule = {
   name: 'nominal',
   test: (p, ctx) => {
-    const levels = ctx.cleanedLevelCount;
-    if (levels === null) {
+    const count = ctx.cleanedLevelCount;
+    if (count === null) {
       const share = p.numeric === null ? '0%' : percent(p.numeric.share);
       return excluded(
         `only ${share} of ${countText(ctx.nonMissing)} values read as numbers and ${countText(p.distinct)} distinct values are too many for categories`,
       );
     }
-    const after = levels < p.distinct ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
+    const after = count < p.distinct ? ` after cleaning (${countText(p.distinct)} spellings)` : '';
     return {
       level: 'nominal',
-      reason: `${countText(levels)} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
+      reason: `${countText(count)} distinct values${after} with no order recognised${almostNumbersHint(p)}`,
       cleaning: ctx.cleaning,
     };
   },

@@ -27,12 +27,7 @@ export interface PackedLevels {
 
 /** Splits `levels` into packed runs, in order. */
 export function packLevels(levels: readonly LevelCount[]): PackedLevels[] {
-  const runs: PackedLevels[] = [];
-  let start = 0;
-  while (start < levels.length) {
-    let end = start;
-    let units = 0;
-    while (end < levels.length && end - start < RUN_LEVELS && (units < RUN_TEXT_UNITS || end === start)) units += levels[end++]!.value.length;
+  return runsOf(levels.length, (i) => levels[i]!.value.length).map(([start, end]) => {
     // Plain loops into arrays made once: the mapping forms of Array/TypedArray.from cost several
     // times as much on a million levels.
     const values = new Array<string>(end - start);
@@ -44,10 +39,8 @@ export function packLevels(levels: readonly LevelCount[]): PackedLevels[] {
       lengths[i - start] = value.length;
       counts[i - start] = count;
     }
-    runs.push({ text: values.join(''), lengths, counts });
-    start = end;
-  }
-  return runs;
+    return { text: values.join(''), lengths, counts };
+  });
 }
 
 /**
@@ -57,35 +50,44 @@ export function packLevels(levels: readonly LevelCount[]): PackedLevels[] {
 export function packLevelsFromBytes(source: LevelSource): PackedLevels[] {
   const { codes, counts, packed } = source;
   const { bytes, starts } = packed;
-  const runs: PackedLevels[] = [];
+  // ASCII: a byte is a UTF-16 code unit.
+  const unitsOf = (i: number): number => starts[codes[i]! + 1]! - starts[codes[i]!]!;
+  return runsOf(codes.length, unitsOf).map(([start, end]) => runFromBytes(codes.subarray(start, end), counts, bytes, starts));
+}
+
+/**
+ * Where the runs of `count` levels start and end: a run ends after RUN_LEVELS levels, or once its
+ * text (`unitsOf(i)` code units for level i) passes RUN_TEXT_UNITS, holding one level at least.
+ */
+function runsOf(count: number, unitsOf: (i: number) => number): [number, number][] {
+  const runs: [number, number][] = [];
   let start = 0;
-  while (start < codes.length) {
+  while (start < count) {
     let end = start;
     let units = 0;
-    // ASCII: a byte is a UTF-16 code unit.
-    while (end < codes.length && end - start < RUN_LEVELS && (units < RUN_TEXT_UNITS || end === start)) {
-      const code = codes[end++]!;
-      units += starts[code + 1]! - starts[code]!;
-    }
-    runs.push(runFromBytes(codes.subarray(start, end), counts, bytes, starts, units));
+    while (end < count && end - start < RUN_LEVELS && (units < RUN_TEXT_UNITS || end === start)) units += unitsOf(end++);
+    runs.push([start, end]);
     start = end;
   }
   return runs;
 }
 
-function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8Array, starts: Int32Array, units: number): PackedLevels {
+function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8Array, starts: Int32Array): PackedLevels {
   const lengths = new Uint32Array(codes.length);
   const levelCounts = new Float64Array(codes.length);
+  let units = 0;
+  for (let i = 0; i < codes.length; i++) {
+    const code = codes[i]!;
+    lengths[i] = starts[code + 1]! - starts[code]!;
+    levelCounts[i] = counts[code]!;
+    units += lengths[i]!;
+  }
   const text = new Uint8Array(units);
   let at = 0;
   for (let i = 0; i < codes.length; i++) {
-    const code = codes[i]!;
-    const from = starts[code]!;
-    const length = starts[code + 1]! - from;
-    text.set(bytes.subarray(from, from + length), at);
-    at += length;
-    lengths[i] = length;
-    levelCounts[i] = counts[code]!;
+    const from = starts[codes[i]!]!;
+    text.set(bytes.subarray(from, from + lengths[i]!), at);
+    at += lengths[i]!;
   }
   // ASCII: one decode of the run's bytes gives one UTF-16 unit per byte.
   return { text: utf8Text(text, 0, text.length), lengths, counts: levelCounts };
