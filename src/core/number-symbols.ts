@@ -106,15 +106,34 @@ export function knownSymbolOf(text: string): NumberSymbol | null {
  * sign at the start, without making that text (profile.ts, for a million identifiers kept as bytes).
  */
 export function mayHaveKnownSymbol(bytes: Uint8Array, start: number, end: number): boolean {
-  if (end - start < 2 || (ASCII_FIRST[bytes[start]!] === 0 && ASCII_LAST[bytes[end - 1]!] === 0)) return false;
+  if (end - start < 2) return false;
+  // Two bytes at each end rule out an identifier starting with "H" (as "HK$" does) at one lookup.
+  if (FIRST_PAIRS[(bytes[start]! << 8) | bytes[start + 1]!] === 0 && LAST_PAIRS[(bytes[end - 2]! << 8) | bytes[end - 1]!] === 0) return false;
   for (const symbol of symbolsAt(BY_FIRST, bytes[start]!)) if (bytesStartWith(bytes, start, end, symbol)) return true;
   for (const symbol of symbolsAt(BY_LAST, bytes[end - 1]!)) if (bytesStartWith(bytes, end - symbol.length, end, symbol)) return true;
   return false;
 }
 
-/** By byte: 1 when a known symbol starts (ends) with that ASCII character. */
-const ASCII_FIRST = Uint8Array.from({ length: 256 }, (_, b) => (b < 128 && BY_FIRST.ascii[b]!.length > 0 ? 1 : 0));
-const ASCII_LAST = Uint8Array.from({ length: 256 }, (_, b) => (b < 128 && BY_LAST.ascii[b]!.length > 0 ? 1 : 0));
+/**
+ * By a text's first (last) two bytes, as `first << 8 | second`: 1 when a known ASCII symbol may
+ * start (end) it: its own first (last) two characters, or its one character and any byte.
+ */
+const FIRST_PAIRS = asciiPairs((symbol, mark) => (symbol.length === 1 ? markAll(mark, (b) => (symbol.charCodeAt(0) << 8) | b) : mark((symbol.charCodeAt(0) << 8) | symbol.charCodeAt(1))));
+const LAST_PAIRS = asciiPairs((symbol, mark) => {
+  const n = symbol.length;
+  if (n === 1) markAll(mark, (b) => (b << 8) | symbol.charCodeAt(0));
+  else mark((symbol.charCodeAt(n - 2) << 8) | symbol.charCodeAt(n - 1));
+});
+
+function asciiPairs(markSymbol: (symbol: string, mark: (pair: number) => void) => void): Uint8Array {
+  const pairs = new Uint8Array(1 << 16);
+  for (const symbol of KNOWN_SYMBOLS) if (/^[\x00-\x7f]+$/.test(symbol)) markSymbol(symbol, (pair) => void (pairs[pair] = 1));
+  return pairs;
+}
+
+function markAll(mark: (pair: number) => void, pairOf: (byte: number) => number): void {
+  for (let b = 0; b < 256; b++) mark(pairOf(b));
+}
 
 /** Whether bytes[start, end) begin with `ascii` (false for a symbol that is not ASCII: such bytes never hold it). */
 function bytesStartWith(bytes: Uint8Array, start: number, end: number, ascii: string): boolean {

@@ -10,6 +10,7 @@ import { knownSymbolOf } from './number-symbols.ts';
 import { detectNumberFormat, hasLeadingZero, mayStartNumber, numberReader, type NumberReader } from './numbers.ts';
 import { plainValues } from './plain-values.ts';
 import type { NumberFormat } from './recipe.ts';
+import { NumberTally } from './number-tally.ts';
 import { sortNumbers } from './sort-numbers.ts';
 
 export interface LevelCount {
@@ -553,7 +554,8 @@ function maybeBlank(text: string): boolean {
 function profileNumberColumn(column: NumberColumn, index: number, options: ProfileOptions): ColumnProfile {
   const isMissing = missingTest(options.missingTokens);
   const { length } = column;
-  const { isException, texts, plain, plainCount, plainFractions, emptyCells } = tallyNumberCells(column, missingNumbers(options.missingTokens));
+  const codedMissing = missingNumbers(options.missingTokens);
+  const { texts, plain, plainCount, plainFractions, emptyCells } = tallyNumberCells(column, codedMissing);
 
   const exceptionTexts = splitByMissing(texts, isMissing);
   const format = options.format ?? detectNumberFormat([
@@ -566,9 +568,8 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
 
   // Plain numbers with a fraction do not read in a comma-decimal format: they become invalid cells.
   const plainInvalid = format.decimal === ',' ? plainFractions : 0;
-  const plainValid = format.decimal === ',' ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
   const fromExceptions = readExceptionNumbers(exceptionTexts.nonMissing, read);
-  const { runs, distinctPlain } = numberRuns(plainValid, fromExceptions);
+  const { runs, distinctPlain } = numberRuns(plain, plainCount, format.decimal === ',', fromExceptions);
   const nonMissing = plainCount + sumCounts(exceptionTexts.nonMissing);
   const invalidCount = plainInvalid + fromExceptions.invalidCount;
   const missingSpellings = exceptionTexts.missing;
@@ -583,7 +584,7 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
           nonMissing,
           invalidCount,
           invalidExamples:
-            invalidCount > 0 ? numberColumnInvalidRows(column, isException, read, isMissing, format) : [],
+            invalidCount > 0 ? numberColumnInvalidRows(column, codedMissing, read, isMissing, format) : [],
           leadingZeros: fromExceptions.leadingZeros,
         });
   const distinct = distinctPlain + exceptionTexts.nonMissing.length;
@@ -608,63 +609,95 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
 
 /** What the one pass over a number column's cells finds (tallyNumberCells). */
 interface NumberCells {
-  /** 1 for each row counted by its text. */
-  readonly isException: Uint8Array;
-  /** Those texts with their cells, in the order they first appear. */
+  /** The cells counted by their text, in the order the texts first appear: exceptions, fixed-decimal cells, coded missing numbers. */
   readonly texts: Map<string, number>;
-  /** The other numbers, in row order: plain[0, plainCount). */
-  readonly plain: Float64Array;
+  /**
+   * The other numbers ("plain"): counted by value, or, past the most distinct numbers worth
+   * counting (MAX_COUNTED_SHARE), every one of them in an array, in no particular order.
+   */
+  readonly plain: NumberTally | Float64Array;
   readonly plainCount: number;
   /** Plain numbers that are not whole. */
   readonly plainFractions: number;
   readonly emptyCells: number;
 }
 
+/** Counted in a hash table up to this share of the cells distinct… */
+const MAX_COUNTED_SHARE = 1 / 8;
+/** …or this many, whichever is more. */
+const MIN_COUNTED = 1024;
+
 /**
- * The one pass over the cells: plain numbers are gathered, NaN without text is an empty cell, and
- * the others are counted by their text: exceptions, fixed-decimal cells ("134.00"), and numbers a
- * missing token spells ("-999"). In row order, as the texts appear in the file. A function of its
- * own: run once in a command line, it is optimised sooner small than inside the whole profile.
+ * The one pass over the cells: plain numbers are counted by value, NaN without text is an empty
+ * cell, and the others are counted by their text: exceptions, fixed-decimal cells ("134.00"), and
+ * numbers a missing token spells ("-999"). Fixed-decimal cells are counted by number too, and get
+ * their text once per distinct number: a tenth of a column of amounts can be "12.50"s. A function
+ * of its own: run once in a command line, it is optimised sooner small than inside the whole profile.
  */
 function tallyNumberCells(column: NumberColumn, codedMissing: ReadonlySet<number>): NumberCells {
-  const { length, values, exceptions } = column;
-  const isException = new Uint8Array(length);
-  for (const row of exceptions.keys()) if (row >= 0 && row < length) isException[row] = 1;
+  const { length, values } = column;
+  const isException = exceptionRows(column);
   const fixed = column.fixedDigits;
-  const texts = new Map<string, number>();
-  // A fixed-decimal cell's text, made once per number and count of decimals (a tenth of a column
-  // of amounts can be "12.50"s: toFixed for each was most of this pass).
-  const fixedTexts: Map<number, string>[] = [];
-  const plain = new Float64Array(length);
+  const most = Math.max(MIN_COUNTED, Math.ceil(length * MAX_COUNTED_SHARE));
+  /** By count of decimals. */
+  const fixedNumbers: NumberTally[] = [];
+  const textCells = new Map<string, TextCells>();
+  const tally = new NumberTally();
+  let all: Float64Array | null = null;
   let plainCount = 0;
   let plainFractions = 0;
   let emptyCells = 0;
   for (let row = 0; row < length; row++) {
-    const v = values[row] ?? NaN;
-    const digits = fixed === null ? 0 : (fixed[row] ?? 0);
-    let text: string | undefined;
-    if (isException[row] === 1) text = exceptions.get(row);
-    else if (Number.isNaN(v)) emptyCells++;
-    else if (digits > 0) text = fixedText(fixedTexts, v, digits);
-    else if (codedMissing.size > 0 && codedMissing.has(v)) text = String(v); // a plain cell's text
-    else {
-      plain[plainCount++] = v;
-      if (!Number.isInteger(v)) plainFractions++;
+    if (isException[row] === 1) continue; // counted by text below
+    const v = values[row]!;
+    if (v !== v) {
+      emptyCells++;
+      continue;
     }
-    if (text !== undefined) {
-      isException[row] = 1;
-      texts.set(text, (texts.get(text) ?? 0) + 1);
+    const digits = fixed === null ? 0 : fixed[row]!;
+    if (digits > 0) (fixedNumbers[digits] ??= new NumberTally()).add(v, 1, row);
+    else if (codedMissing.size > 0 && codedMissing.has(v)) countText(textCells, String(v), 1, row); // a plain cell's text
+    else {
+      if (!Number.isInteger(v)) plainFractions++;
+      if (all !== null) all[plainCount] = v;
+      else {
+        tally.add(v, 1);
+        if (tally.distinct > most) all = tally.expandInto(new Float64Array(length));
+      }
+      plainCount++;
     }
   }
-  return { isException, texts, plain, plainCount, plainFractions, emptyCells };
+  for (const [row, text] of column.exceptions) if (row >= 0 && row < length) countText(textCells, text, 1, row);
+  fixedNumbers.forEach((numbers, digits) => numbers.forEach((v, count, firstRow) => countText(textCells, v.toFixed(digits), count, firstRow)));
+  return { texts: inFirstRowOrder(textCells), plain: all === null ? tally : all.subarray(0, plainCount), plainCount, plainFractions, emptyCells };
 }
 
-/** v.toFixed(digits), from `made` (by count of decimals) when made before. -0 shares 0's: toFixed writes both alike. */
-function fixedText(made: Map<number, string>[], v: number, digits: number): string {
-  const byValue = (made[digits] ??= new Map());
-  let text = byValue.get(v);
-  if (text === undefined) byValue.set(v, (text = v.toFixed(digits)));
-  return text;
+/** 1 for each row of the column's exceptions. */
+function exceptionRows(column: NumberColumn): Uint8Array {
+  const isException = new Uint8Array(column.length);
+  for (const row of column.exceptions.keys()) if (row >= 0 && row < column.length) isException[row] = 1;
+  return isException;
+}
+
+/** The cells of one text, and the first row among them. */
+interface TextCells {
+  count: number;
+  firstRow: number;
+}
+
+function countText(texts: Map<string, TextCells>, text: string, count: number, row: number): void {
+  const known = texts.get(text);
+  if (known === undefined) texts.set(text, { count, firstRow: row });
+  else {
+    known.count += count;
+    known.firstRow = Math.min(known.firstRow, row);
+  }
+}
+
+/** Texts with their cells, in the order of their first rows: the order they appear in the file. */
+function inFirstRowOrder(texts: ReadonlyMap<string, TextCells>): Map<string, number> {
+  const entries = [...texts].sort((a, b) => a[1].firstRow - b[1].firstRow);
+  return new Map(entries.map(([text, cells]) => [text, cells.count]));
 }
 
 /** Texts with their counts, split into missing and non-missing, in first-seen order. */
@@ -703,34 +736,30 @@ function readExceptionNumbers(texts: readonly LevelCount[], read: NumberReader):
 }
 
 /**
- * The runs of a number column's numbers (`plain`, one per cell, and the exceptions' numbers with
- * their counts), and how many distinct numbers `plain` holds. Columns of measurements hold far
- * fewer distinct numbers than cells (a million amounts in cents: ~50,000): those are counted in a
- * hash table and only the distinct ones sorted. Past MAX_COUNTED_SHARE of the cells distinct, the
- * cells are sorted instead, as sorting them all is then the cheaper.
+ * The runs of a number column's numbers (the plain ones, counted or all in an array, and the
+ * exceptions' numbers with their counts), and how many distinct numbers the plain ones are. In a
+ * comma-decimal format (`decimalComma`) only the plain whole numbers count: "2.5" does not read.
  */
-function numberRuns(plain: Float64Array, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
-  const tally = new NumberTally(Math.max(MIN_COUNTED, Math.ceil(plain.length * MAX_COUNTED_SHARE)));
-  if (tally.addAll(plain)) {
-    const distinctPlain = tally.distinctNumbers();
-    for (let i = 0; i < exceptions.values.length; i++) tally.add(exceptions.values[i]!, exceptions.counts[i]!);
-    return { runs: tally.runs(), distinctPlain };
+function numberRuns(plain: NumberTally | Float64Array, plainCount: number, decimalComma: boolean, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
+  if (plain instanceof NumberTally) {
+    const counted = decimalComma ? wholeNumbersOf(plain) : plain;
+    const distinctPlain = counted.distinct;
+    for (let i = 0; i < exceptions.values.length; i++) counted.add(exceptions.values[i]!, exceptions.counts[i]!);
+    return { runs: counted.runs(sortNumbers), distinctPlain };
   }
-  sortNumbers(plain);
-  const distinctPlain = countDistinctSorted(plain);
-  return { runs: runsFromSorted(mergeSorted(plain, expanded(exceptions))), distinctPlain };
+  const valid = decimalComma ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
+  sortNumbers(valid);
+  const distinctPlain = countDistinctSorted(valid);
+  return { runs: runsFromSorted(mergeSorted(valid, expanded(exceptions))), distinctPlain };
 }
 
-/** A number's two 32-bit halves mixed so that every bit reaches the low bits a table slot is taken from. */
-function spread(low: number, high: number): number {
-  const h = Math.imul(low, 0x9e3779b1) ^ Math.imul(high, 0x85ebca6b);
-  return h ^ (h >>> 15);
+function wholeNumbersOf(tally: NumberTally): NumberTally {
+  const whole = new NumberTally();
+  tally.forEach((value, count, firstRow) => {
+    if (Number.isInteger(value)) whole.add(value, count, firstRow);
+  });
+  return whole;
 }
-
-/** Counted in a hash table up to this share of the cells distinct… */
-const MAX_COUNTED_SHARE = 1 / 8;
-/** …or this many, whichever is more. */
-const MIN_COUNTED = 1024;
 
 /** The exceptions' numbers, each as many times as it was counted, sorted. */
 function expanded(exceptions: ExceptionNumbers): Float64Array {
@@ -746,116 +775,32 @@ function expanded(exceptions: ExceptionNumbers): Float64Array {
   return sortNumbers(numbers);
 }
 
-/**
- * Numbers with their counts, by their bits (so -0 apart from 0, as a sort keeps them apart too),
- * open addressing with linear probing; at most `most` distinct.
- */
-class NumberTally {
-  private readonly most: number;
-  private readonly mask: number;
-  /** Per slot: the number's two 32-bit halves. */
-  private readonly words: Int32Array;
-  /** Per slot: its count; 0 marks a free slot. */
-  private readonly counts: Float64Array;
-  private readonly keys: Float64Array;
-  private size = 0;
-  private readonly bits = new Float64Array(1);
-  private readonly halves = new Int32Array(this.bits.buffer);
-
-  constructor(most: number) {
-    this.most = most;
-    let slots = 16;
-    while (slots < 2 * most) slots *= 2;
-    this.mask = slots - 1;
-    this.words = new Int32Array(2 * slots);
-    this.counts = new Float64Array(slots);
-    this.keys = new Float64Array(most);
-  }
-
-  /** Adds each number once; false as soon as there are more than `most` distinct (the tally is then of no use). */
-  addAll(values: Float64Array): boolean {
-    for (let i = 0; i < values.length; i++) if (!this.add(values[i]!, 1)) return false;
-    return true;
-  }
-
-  add(value: number, count: number): boolean {
-    this.bits[0] = value;
-    const low = this.halves[0]!;
-    const high = this.halves[1]!;
-    const { words, counts, mask } = this;
-    for (let slot = spread(low, high) & mask; ; slot = (slot + 1) & mask) {
-      if (counts[slot] === 0) {
-        if (this.size === this.most) return false;
-        words[2 * slot] = low;
-        words[2 * slot + 1] = high;
-        counts[slot] = count;
-        this.keys[this.size++] = value;
-        return true;
-      }
-      if (words[2 * slot] === low && words[2 * slot + 1] === high) {
-        counts[slot]! += count;
-        return true;
-      }
-    }
-  }
-
-  /** Distinct numbers so far, -0 and 0 being one. */
-  distinctNumbers(): number {
-    return this.size - (this.countOf(0) > 0 && this.countOf(-0) > 0 ? 1 : 0);
-  }
-
-  /** The runs: distinct numbers ascending with their counts, -0 and 0 in one run (as runsFromSorted makes them). */
-  runs(): Runs {
-    const sorted = sortNumbers(this.keys.slice(0, this.size));
-    const values = new Float64Array(sorted.length);
-    const counts = new Float64Array(sorted.length);
-    let n = 0;
-    for (let i = 0; i < sorted.length; i++) {
-      const v = sorted[i]!;
-      if (n > 0 && values[n - 1] === v) counts[n - 1]! += this.countOf(v);
-      else {
-        values[n] = v;
-        counts[n++] = this.countOf(v);
-      }
-    }
-    return { values, counts, length: n };
-  }
-
-  private countOf(value: number): number {
-    this.bits[0] = value;
-    const low = this.halves[0]!;
-    const high = this.halves[1]!;
-    for (let slot = spread(low, high) & this.mask; ; slot = (slot + 1) & this.mask) {
-      if (this.counts[slot] === 0) return 0;
-      if (this.words[2 * slot] === low && this.words[2 * slot + 1] === high) return this.counts[slot]!;
-    }
-  }
-}
-
 function keepWholeNumbers(values: Float64Array): Float64Array {
   return values.filter((v) => Number.isInteger(v));
 }
 
 /**
  * Invalid cells of a number-stored column in row order. A second look at the cells, made only
- * when there are invalid cells, and stopped at the cap.
+ * when there are invalid cells, and stopped at the cap. The cells counted by their text
+ * (tallyNumberCells) are read from it.
  */
 function numberColumnInvalidRows(
   column: NumberColumn,
-  isException: Uint8Array,
+  codedMissing: ReadonlySet<number>,
   read: NumberReader,
   isMissing: MissingTest,
   format: NumberFormat,
 ): { row: number; text: string }[] {
   const examples: { row: number; text: string }[] = [];
+  const isException = exceptionRows(column);
+  const { values, fixedDigits } = column;
   for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
-    if (isException[row] === 1) {
+    const v = values[row] ?? NaN;
+    const countedByText = isException[row] === 1 || (fixedDigits !== null && fixedDigits[row]! > 0 && !Number.isNaN(v)) || (codedMissing.size > 0 && codedMissing.has(v));
+    if (countedByText) {
       const text = cellText(column, row);
       if (!isMissing(text) && Number.isNaN(read(text))) examples.push({ row, text });
-    } else {
-      const v = column.values[row] ?? NaN;
-      if (format.decimal === ',' && !Number.isNaN(v) && !Number.isInteger(v)) examples.push({ row, text: String(v) });
-    }
+    } else if (format.decimal === ',' && !Number.isNaN(v) && !Number.isInteger(v)) examples.push({ row, text: String(v) });
   }
   return examples;
 }

@@ -13,7 +13,7 @@ import { inferLevel } from '../../src/core/infer.ts';
 import { DEFAULT_MISSING_TOKENS, missingTest } from '../../src/core/missing.ts';
 import { knownSymbolOf } from '../../src/core/number-symbols.ts';
 import { parseNumber } from '../../src/core/numbers.ts';
-import { plainValues } from '../../src/core/plain-values.ts';
+import { firstNotPrintable, plainValues } from '../../src/core/plain-values.ts';
 import { levelCount, profileColumn } from '../../src/core/profile.ts';
 import type { NumberFormat } from '../../src/core/recipe.ts';
 import { packedTexts, textColumnsOf } from '../helpers/text-columns.ts';
@@ -56,6 +56,31 @@ describe('plain values', () => {
   it('are what identifiers written as codes are', () => {
     const values = ['HH-000001', 'HH-000002', 'ORD/2024/17', 'n/a', '12345', 'HK$ 12', 'Flat 3', '2024-03-01'];
     expect(Array.from(plainValues(packedTexts(values), DEFAULT_MISSING_TOKENS))).toEqual([1, 1, 1, 0, 0, 0, 0, 0]);
+  });
+});
+
+describe('firstNotPrintable', () => {
+  it('finds the first byte outside 0x21–0x7e as a byte-by-byte scan does, at any alignment', () => {
+    // Mostly printable bytes with a few of each kind around the edges (0x20, 0x21, 0x7e, 0x7f, 0x80, 0xff, 0x00).
+    const byte = fc.oneof({ weight: 20, arbitrary: fc.integer({ min: 0x21, max: 0x7e }) }, { weight: 1, arbitrary: fc.constantFrom(0x00, 0x09, 0x20, 0x7f, 0x80, 0xc3, 0xff) });
+    fc.assert(
+      fc.property(fc.array(byte, { maxLength: 200 }), fc.nat(7), fc.nat(200), fc.nat(200), (values, offset, a, b) => {
+        const buffer = new Uint8Array(values.length + offset);
+        buffer.set(values, offset);
+        const bytes = buffer.subarray(offset);
+        const from = Math.min(a, b, values.length);
+        const to = Math.min(Math.max(a, b), values.length);
+        let expected = to;
+        for (let i = from; i < to; i++) {
+          if (bytes[i]! < 0x21 || bytes[i]! > 0x7e) {
+            expected = i;
+            break;
+          }
+        }
+        expect(firstNotPrintable(bytes, from, to)).toBe(expected);
+      }),
+      { numRuns: 2000 },
+    );
   });
 });
 

@@ -232,6 +232,23 @@ describe('number-stored columns (one pass over the numbers, then the exceptions)
     }
   });
 
+  it('lists missing spellings of equal counts in the order they first appear, whichever way number storage keeps them', () => {
+    // "-999" is a number a token spells, "0.00" a fixed-decimal cell, "NA" kept as its text: three
+    // ways number storage holds a cell, each spelling twice, first seen in this order.
+    const numbers = Array.from({ length: 200 }, (_, i) => String(i + 1));
+    const cells = [...numbers.slice(0, 50), '-999', ...numbers.slice(50, 100), '0.00', 'NA', ...numbers.slice(100), 'NA', '0.00', '-999'];
+    const options = { missingTokens: ['NA', '-999', '0.00'] };
+    const asText = profileColumn(firstColumn(cells, 1 << 20), 0, options);
+    const asNumbers = profileColumn(firstColumn(cells, 16), 0, options);
+    expect(firstColumn(cells, 16).kind).toBe('number');
+    expect(asText.missingSpellings).toEqual([
+      { value: '-999', count: 2 },
+      { value: '0.00', count: 2 },
+      { value: 'NA', count: 2 },
+    ]);
+    expect(asNumbers.missingSpellings).toEqual(asText.missingSpellings);
+  });
+
   it('property: storage does not change the profile of the cells', () => {
     const cell = fc.oneof(
       fc.integer({ min: -50, max: 50 }).map(String),
@@ -244,6 +261,7 @@ describe('number-stored columns (one pass over the numbers, then the exceptions)
         const asNumbers = profileOf(cells, 2);
         expect(asNumbers.missing).toBe(asText.missing);
         expect(asRecord(asNumbers.missingSpellings)).toEqual(asRecord(asText.missingSpellings));
+        expect(asNumbers.missingSpellings.filter((s) => s.value !== "").map((s) => s.value)).toEqual(asText.missingSpellings.filter((s) => s.value !== "").map((s) => s.value));
         expect(asNumbers.distinct).toBe(asText.distinct);
         const a = asText.numeric;
         const b = asNumbers.numeric;
