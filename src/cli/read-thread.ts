@@ -77,7 +77,6 @@ interface Settings {
 type ToReader =
   | { readonly type: 'start'; readonly id: number; readonly settings: Settings; readonly stopAt: number }
   | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest }
-  | { readonly type: 'profile'; readonly id: number; readonly column: NumberColumn; readonly index: number; readonly options: ProfileOptions }
   | {
       readonly type: 'profile-parts';
       readonly id: number;
@@ -213,11 +212,13 @@ export async function readTableInThreads(
     return { ...answer, table: arrivedTable(answer.table) };
   });
   // Number columns are profiled on the reading threads from their parts while this thread joins the table.
-  let early = new Map<number, Promise<ColumnProfile>>();
+  let numberProfiles: NumberProfiles | null = null;
   const onPart = (parts: readonly Table[]): void => {
-    if (profiling !== null && workers.length > 0) early = profileNumberParts(parts, profiling, inbox, workers.length);
+    if (profiling !== null && workers.length > 0) numberProfiles = new NumberProfiles(parts, profiling, inbox, workers.length);
   };
-  const parallel = readInParallel(fileBytes, runners, { packValues: true, onPart, headStartBytes: HEAD_START_BYTES });
+  // A table read to be profiled has its cells joined only if something reads them: draft and
+  // profile read none but those of the rare cells that are not numbers.
+  const parallel = readInParallel(fileBytes, runners, { packValues: true, onPart, headStartBytes: HEAD_START_BYTES, cellsWhenRead: profiling !== null });
   try {
     const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop, packValues: true });
     // Chunks no larger than the first segment, so that the reader can stop near its end; the first
@@ -238,31 +239,68 @@ export async function readTableInThreads(
       closeSync(fd);
     }
     const result = await parallel.finish(reader.finish());
-    return { ...result, profiles: profiling === null ? null : await profileOnThreads(result.table, profiling, inbox, workers.length, early) };
+    const profiles = profiling === null ? null : await profileTableSharing(result.table, profiling, (_, index) => numberProfiles?.take(index) ?? null);
+    return { ...result, profiles };
   } finally {
     await Promise.all(workers.map((worker) => worker.terminate()));
   }
 }
 
 /**
- * Profiles of the columns that every part holds as numbers, each joined and profiled on a reading
- * thread (in turn) from copies of its parts, by column index. The costly columns to profile (a
- * million numbers sorted) so start while this thread is still joining the table.
+ * The columns that every part holds as numbers, profiled on the reading threads from copies of
+ * their parts, one column per thread at a time: the costly columns to profile (a million numbers
+ * counted) so start while this thread is still joining the table. A column no thread has started
+ * when this thread asks for it (`take`) is left to this thread: the threads share the columns as
+ * they come free, whichever finishes its own work first.
  */
-function profileNumberParts(parts: readonly Table[], options: ProfileOptions, inbox: Inbox, threads: number): Map<number, Promise<ColumnProfile>> {
-  const profiles = new Map<number, Promise<ColumnProfile>>();
-  const rowCounts = parts.map((part) => part.rowCount);
-  parts[0]?.columns.forEach((_, index) => {
-    const columns = parts.map((part) => part.columns[index]!);
-    if (!columns.every((column) => column.kind === 'number')) return;
-    // Copies of the rows only: the first part's arrays have room for the whole file and are joined in place.
-    const copies = columns.map((column, k) => numberRowsCopy(column, rowCounts[k]!));
-    const request: ToReader = { type: 'profile-parts', id: 0, parts: copies, rowCounts, index, options };
-    const pending = answerOf(inbox, profiles.size % threads, request);
-    pending.catch(() => undefined); // awaited later, or not at all when the read fails
-    profiles.set(index, pending);
-  });
-  return profiles;
+class NumberProfiles {
+  private readonly parts: readonly Table[];
+  private readonly options: ProfileOptions;
+  private readonly inbox: Inbox;
+  /** Column indices not yet started, in column order. */
+  private readonly waiting: number[] = [];
+  private readonly started = new Map<number, Promise<ColumnProfile>>();
+  private readonly free: number[];
+
+  constructor(parts: readonly Table[], options: ProfileOptions, inbox: Inbox, threads: number) {
+    this.parts = parts;
+    this.options = options;
+    this.inbox = inbox;
+    this.free = Array.from({ length: threads }, (_, w) => w);
+    parts[0]?.columns.forEach((_, index) => {
+      if (parts.every((part) => part.columns[index]!.kind === 'number')) this.waiting.push(index);
+    });
+    this.startWhileFree();
+  }
+
+  /** The profile of column `index` from a reading thread, or null when none has it or is free to take it. */
+  take(index: number): Promise<ColumnProfile> | null {
+    const started = this.started.get(index);
+    if (started !== undefined) return started;
+    const at = this.waiting.indexOf(index);
+    if (at < 0) return null;
+    this.waiting.splice(at, 1);
+    const worker = this.free.pop();
+    return worker === undefined ? null : this.start(worker, index);
+  }
+
+  private startWhileFree(): void {
+    while (this.free.length > 0 && this.waiting.length > 0) this.start(this.free.pop()!, this.waiting.shift()!);
+  }
+
+  private start(worker: number, index: number): Promise<ColumnProfile> {
+    const rowCounts = this.parts.map((part) => part.rowCount);
+    // Copies of the rows only: the first part's arrays have room for the whole file, and this thread keeps the parts.
+    const copies = this.parts.map((part, k) => numberRowsCopy(part.columns[index] as NumberColumn, rowCounts[k]!));
+    const pending = answerOf(this.inbox, worker, { type: 'profile-parts', id: 0, parts: copies, rowCounts, index, options: this.options });
+    const profiled = pending.finally(() => {
+      this.free.push(worker);
+      this.startWhileFree();
+    });
+    profiled.catch(() => undefined); // awaited when taken, or not at all when the read fails
+    this.started.set(index, profiled);
+    return profiled;
+  }
 }
 
 function numberRowsCopy(column: NumberColumn, rows: number): NumberColumn {
@@ -274,20 +312,6 @@ async function answerOf(inbox: Inbox, worker: number, request: ToReader): Promis
   const answer = await inbox.next(inbox.send(worker, request));
   if (answer.type !== 'profile') throw new Error(`reading thread: unexpected ${answer.type} message`);
   return answer.profile;
-}
-
-/**
- * The table's profile, its number columns handed round the reading threads (none: all here); those
- * profiled from their parts already (`early`) are taken from there.
- */
-function profileOnThreads(table: Table, options: ProfileOptions, inbox: Inbox, threads: number, early: ReadonlyMap<number, Promise<ColumnProfile>>): Promise<ColumnProfile[]> {
-  let next = 0;
-  return profileTableSharing(table, options, async (column, index) => {
-    const started = early.get(index);
-    if (started !== undefined) return started;
-    if (threads === 0) return profileColumn(column, index, options);
-    return answerOf(inbox, next++ % threads, { type: 'profile', id: 0, column, index, options });
-  });
 }
 
 /**
@@ -414,7 +438,6 @@ function serve(path: string, port: NonNullable<typeof parentPort>): void {
     try {
       if (request.type === 'start') readStart(request, fd, buffer, port);
       else if (request.type === 'segment') readSegment(request, fd, buffer, port);
-      else if (request.type === 'profile') port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(request.column, request.index, request.options) } satisfies FromReader);
       else port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(concatColumns(request.parts, request.rowCounts), request.index, request.options) } satisfies FromReader);
     } catch (error) {
       port.postMessage(failed(error));

@@ -29,6 +29,21 @@ export interface ConcatOptions {
    * The first part must not be used afterwards.
    */
   readonly reuseFirst?: boolean;
+  /**
+   * Join each column's cells (a dictionary's codes; numbers, their texts and decimals) the first
+   * time they are read, not now. A dictionary column's values and counts, and every column's
+   * storage, are joined at once. For a table read to be profiled: the profile of a dictionary
+   * column is made from its values and counts alone (its codes are read only to find the rows of
+   * cells that are not numbers), and a command line that only drafts a recipe never reads them.
+   * The parts must then not be changed or given up while the table is in use.
+   */
+  readonly cellsWhenRead?: boolean;
+}
+
+/** How a column is joined: in the first part's storage (reuseFirst), now or when read (cellsWhenRead). */
+interface JoinMode {
+  readonly reuse: boolean;
+  readonly later: boolean;
 }
 
 /**
@@ -44,7 +59,8 @@ export function concatTables(parts: readonly Table[], options: ConcatOptions = {
   const cap = options.dictionaryCap ?? DEFAULT_DICTIONARY_CAP;
   const rowCounts = parts.map((part) => part.rowCount);
   const reuse = options.reuseFirst === true;
-  const columns = first.names.map((_, c) => joinColumn(parts.map((part) => part.columns[c]!), rowCounts, cap, reuse));
+  const mode: JoinMode = { reuse, later: options.cellsWhenRead === true };
+  const columns = first.names.map((_, c) => joinColumn(parts.map((part) => part.columns[c]!), rowCounts, cap, mode));
   const rowIssues: RowIssue[] = [];
   for (const part of parts) for (const issue of part.rowIssues) rowIssues.push(issue);
   return {
@@ -63,7 +79,7 @@ export function concatTables(parts: readonly Table[], options: ConcatOptions = {
  */
 export function concatColumns(parts: readonly Column[], rowCounts: readonly number[], options: Pick<ConcatOptions, 'dictionaryCap'> = {}): Column {
   if (parts.length === 1) return parts[0]!;
-  return joinColumn(parts, rowCounts, options.dictionaryCap ?? DEFAULT_DICTIONARY_CAP, false);
+  return joinColumn(parts, rowCounts, options.dictionaryCap ?? DEFAULT_DICTIONARY_CAP, { reuse: false, later: false });
 }
 
 function checkSameNames(parts: readonly Table[]): void {
@@ -75,9 +91,28 @@ function checkSameNames(parts: readonly Table[]): void {
   }
 }
 
-function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap: number, reuse: boolean): Column {
-  if (storageOfWhole(parts, rowCounts, cap) === 'number') return joinAsNumbers(parts, rowCounts, reuse);
-  return joinPackedAscending(parts, rowCounts, reuse) ?? joinAsText(parts, rowCounts, reuse);
+function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap: number, mode: JoinMode): Column {
+  if (storageOfWhole(parts, rowCounts, cap) === 'number') {
+    const join = (): NumberColumn => joinAsNumbers(parts, rowCounts, mode.reuse);
+    return mode.later ? numberCellsWhenRead(parts[0]!.name, sum(rowCounts), join) : join();
+  }
+  return joinPackedAscending(parts, rowCounts, mode) ?? joinAsText(parts, rowCounts, mode);
+}
+
+/** A number column whose cells are joined by `join` the first time any of them is read. */
+function numberCellsWhenRead(name: string, length: number, join: () => NumberColumn): NumberColumn {
+  let joined: NumberColumn | null = null;
+  const column = { kind: 'number', name, length };
+  for (const key of ['values', 'exceptions', 'fixedDigits'] as const) {
+    Object.defineProperty(column, key, { enumerable: true, configurable: true, get: () => (joined ??= join())[key] });
+  }
+  return column as NumberColumn;
+}
+
+/** `column` with its codes made by `join` the first time they are read. */
+function codesWhenRead(column: TextColumn, join: () => Uint32Array): TextColumn {
+  let codes: Uint32Array | null = null;
+  return Object.defineProperty(column, 'codes', { enumerable: true, configurable: true, get: () => (codes ??= join()) });
 }
 
 /**
@@ -312,18 +347,30 @@ function writeTextAsNumbers(
 /** A part's dictionary codes in the joined dictionary: `base + code`, or `remap[code]`. */
 type CodeMap = { readonly base: number } | { readonly remap: Uint32Array };
 
-function joinAsText(columns: readonly Column[], rowCounts: readonly number[], reuse: boolean): TextColumn {
+function joinAsText(columns: readonly Column[], rowCounts: readonly number[], mode: JoinMode): TextColumn {
   const parts = columns.map((column, k) => (column.kind === 'text' ? column : numbersAsText(column, rowCounts[k]!)));
   const dictionary = joinDictionaries(parts);
   const rows = sum(rowCounts);
+  const column = { kind: 'text' as const, name: columns[0]!.name, length: rows, codes: NO_CODES, values: dictionary.values, counts: dictionary.counts };
   // The first part's codes stay what they are (its values come first in the joined dictionary):
   // with reuseFirst they are filled on in place.
   const firstMap = dictionary.maps[0]!;
-  const inPlace = reuse && columns[0]!.kind === 'text' && 'base' in firstMap && firstMap.base === 0 ? withRoomFor(parts[0]!.codes, rows) : null;
+  const reuse = mode.reuse && columns[0]!.kind === 'text' && 'base' in firstMap && firstMap.base === 0;
+  const join = (): Uint32Array => joinCodes(parts, dictionary.maps, rowCounts, reuse);
+  return mode.later ? codesWhenRead(column, join) : { ...column, codes: join() };
+}
+
+/** Stands for codes joined only when read. */
+const NO_CODES = new Uint32Array(0);
+
+/** The parts' codes in the joined dictionary (`maps`), in one array; `reuse`: filled on in the first part's. */
+function joinCodes(parts: readonly TextColumn[], maps: readonly CodeMap[], rowCounts: readonly number[], reuse: boolean): Uint32Array {
+  const rows = sum(rowCounts);
+  const inPlace = reuse ? withRoomFor(parts[0]!.codes, rows) : null;
   const codes = inPlace ?? new Uint32Array(rows);
   let offset = 0;
   parts.forEach((part, k) => {
-    const map = dictionary.maps[k]!;
+    const map = maps[k]!;
     const length = rowCounts[k]!;
     const partCodes = part.codes;
     if (k === 0 && inPlace !== null) {
@@ -339,7 +386,7 @@ function joinAsText(columns: readonly Column[], rowCounts: readonly number[], re
     }
     offset += length;
   });
-  return { kind: 'text', name: columns[0]!.name, length: rows, codes, values: dictionary.values, counts: dictionary.counts };
+  return codes;
 }
 
 /**
@@ -348,7 +395,7 @@ function joinAsText(columns: readonly Column[], rowCounts: readonly number[], re
  * the parts before: every value is new, so the joined dictionary is the parts' one after another,
  * and stays bytes. No string is made. null when the parts are not all so.
  */
-function joinPackedAscending(columns: readonly Column[], rowCounts: readonly number[], reuse: boolean): TextColumn | null {
+function joinPackedAscending(columns: readonly Column[], rowCounts: readonly number[], mode: JoinMode): TextColumn | null {
   const packs: PackedTexts[] = [];
   for (const column of columns) {
     if (column.kind !== 'text' || column.packed === undefined || !column.packed.ascending) return null;
@@ -358,28 +405,38 @@ function joinPackedAscending(columns: readonly Column[], rowCounts: readonly num
   const parts = columns as readonly TextColumn[];
   const rows = sum(rowCounts);
   const distinct = sum(parts.map((part) => part.counts.length));
-  const first = parts[0]!;
-  const inPlace = reuse ? withRoomFor(first.codes, rows) : null;
-  const codes = inPlace ?? new Uint32Array(rows);
   const counts = new Array<number>(distinct);
   const bytes = new Uint8Array(sum(packs.map((pack) => valueBytesOf(pack))));
   const starts = new Int32Array(distinct + 1);
-  let offset = 0;
   let base = 0;
   let byteBase = 0;
   parts.forEach((part, k) => {
-    const length = rowCounts[k]!;
-    if (!(k === 0 && inPlace !== null)) shiftCodes(part.codes, length, base, codes, offset);
     const pack = packs[k]!;
     const values = part.counts.length;
     appendValues(part.counts, pack.starts, base, byteBase, counts, starts);
     bytes.set(pack.bytes.subarray(pack.starts[0]!, pack.starts[values]!), byteBase);
-    offset += length;
     base += values;
     byteBase += valueBytesOf(pack);
   });
   starts[distinct] = byteBase;
-  return withPackedValues({ kind: 'text', name: first.name, length: rows, codes, counts }, { bytes, starts, ascending: true });
+  const join = (): Uint32Array => joinAscendingCodes(parts, rowCounts, mode.reuse);
+  const column = withPackedValues({ kind: 'text', name: parts[0]!.name, length: rows, codes: mode.later ? NO_CODES : join(), counts }, { bytes, starts, ascending: true });
+  return mode.later ? codesWhenRead(column, join) : column;
+}
+
+/** The parts' codes, each part's after the codes of the parts before it. */
+function joinAscendingCodes(parts: readonly TextColumn[], rowCounts: readonly number[], reuse: boolean): Uint32Array {
+  const inPlace = reuse ? withRoomFor(parts[0]!.codes, sum(rowCounts)) : null;
+  const codes = inPlace ?? new Uint32Array(sum(rowCounts));
+  let offset = 0;
+  let base = 0;
+  parts.forEach((part, k) => {
+    const length = rowCounts[k]!;
+    if (!(k === 0 && inPlace !== null)) shiftCodes(part.codes, length, base, codes, offset);
+    offset += length;
+    base += part.counts.length;
+  });
+  return codes;
 }
 
 /** codes[offset + row] = from[row] + base for the part's rows. */

@@ -74,6 +74,12 @@ export interface ParallelReadOptions {
    * line profiles number columns so). The parts must not be changed; the first is joined in place.
    */
   readonly onPart?: (parts: readonly Table[]) => void;
+  /**
+   * Join the columns' cells only when read (ConcatOptions.cellsWhenRead): for a table read to be
+   * profiled, whose dictionaries' codes are then never joined. The parts are kept until the table
+   * goes, not given up once joined.
+   */
+  readonly cellsWhenRead?: boolean;
 }
 
 export interface ParallelRead {
@@ -173,8 +179,9 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
       }
       options.onPart?.(parts);
       // The first part was read into storage reserved for the whole file: the others join it there.
-      const table = concatTables(parts, { ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }), reuseFirst: true });
-      releaseJoinedParts(parts.slice(1));
+      const later = options.cellsWhenRead === true;
+      const table = concatTables(parts, { ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }), reuseFirst: true, cellsWhenRead: later });
+      if (!later) releaseJoinedParts(parts.slice(1));
       return { ...first, table, totalRows: table.rowCount, emptyLinesSkipped, stoppedAt: null, lineBreaks: order.lineBreaks, bytes: fileBytes };
     },
   };

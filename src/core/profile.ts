@@ -156,22 +156,40 @@ export function profileTable(table: Table, options: ProfileOptions = DEFAULT_PRO
   return table.columns.map((column, index) => withInvalidLines(profileColumn(column, index, options), table.lineOfRow));
 }
 
-/** Profiles one column elsewhere (another thread): what profileColumn gives for it. */
-export type ColumnProfiler = (column: NumberColumn, index: number, options: ProfileOptions) => Promise<ColumnProfile>;
+/**
+ * A number column's profile from elsewhere (another thread): what profileColumn gives for it; or
+ * null when no other thread has the column or is free to take it now, and this thread profiles it.
+ */
+export type ColumnProfiler = (column: NumberColumn, index: number, options: ProfileOptions) => Promise<ColumnProfile> | null;
 
 /**
- * profileTable, with the columns in number storage handed to `elsewhere` (another thread) while
- * this thread profiles the others. Those are the costly ones per cell (a million numbers sorted),
- * cheap to send (typed arrays) and their profiles small to send back (no levels); text columns cost
- * per distinct value and stay here. The result is profileTable's.
+ * profileTable, with columns in number storage profiled elsewhere (other threads) where they can
+ * be. Those are the costly ones per cell (a million numbers counted and sorted), cheap to send
+ * (typed arrays) and their profiles small to send back (no levels); text columns cost per distinct
+ * value and are profiled here first. Then each number column goes to `elsewhere`, or is profiled
+ * here when no other thread has it or is free: the threads share them as they come free. Between
+ * two number columns this thread lets messages in, so that a thread that has finished one may
+ * take the next. The result is profileTable's.
  */
 export async function profileTableSharing(table: Table, options: ProfileOptions, elsewhere: ColumnProfiler): Promise<ColumnProfile[]> {
-  // Sent first, so that the other thread works while this one does.
-  const sent = table.columns.map((column, index) => (column.kind === 'number' ? elsewhere(column, index, options) : null));
-  for (const pending of sent) pending?.catch(() => undefined);
   const here = table.columns.map((column, index) => (column.kind === 'number' ? null : profileColumn(column, index, options)));
-  const profiles = await Promise.all(here.map((profile, index) => profile ?? sent[index]!));
-  return profiles.map((profile) => withInvalidLines(profile, table.lineOfRow));
+  const profiles: (ColumnProfile | Promise<ColumnProfile>)[] = [];
+  for (const [index, column] of table.columns.entries()) {
+    const profiled = here[index];
+    if (profiled !== null && profiled !== undefined) profiles.push(profiled);
+    else if (column.kind === 'number') {
+      await messagesIn();
+      const pending = elsewhere(column, index, options);
+      pending?.catch(() => undefined); // awaited below, once this thread has done its share
+      profiles.push(pending ?? profileColumn(column, index, options));
+    }
+  }
+  return (await Promise.all(profiles)).map((profile) => withInvalidLines(profile, table.lineOfRow));
+}
+
+/** A turn of the event loop: messages from other threads that came meanwhile are handled. */
+function messagesIn(): Promise<void> {
+  return new Promise((resolve) => setTimeout(resolve, 0));
 }
 
 /** Invalid cells are told by the file line a person finds them on, not only by row index. */

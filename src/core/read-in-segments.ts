@@ -17,6 +17,8 @@ export interface SegmentedReadOptions {
   readonly packValues?: boolean;
   /** Sees each part joined, the first included, in file order, rows already numbered from the file's start. */
   readonly onPart?: (part: Table) => void;
+  /** Columns' cells joined only when read (ParallelReadOptions.cellsWhenRead), as the command line reads a table to profile. */
+  readonly cellsWhenRead?: boolean;
 }
 
 export interface SegmentedReadResult extends ReadResult {
@@ -54,7 +56,8 @@ async function readSegments(bytes: Uint8Array, segmentBytes: number, options: Se
   // Two runners taking segments in turn; each reads its segment from the bytes, here.
   const runner: SegmentRunner = async (request) => readSegment(bytes, request);
   const parts: Table[] = [];
-  const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, segmentBytes, onPart: (joined) => parts.push(...joined) });
+  const later = options.cellsWhenRead === true ? { cellsWhenRead: true } : {};
+  const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, ...later, segmentBytes, onPart: (joined) => parts.push(...joined) });
   // Sized for the whole file, as the page and the command line do: the other parts join it in place.
   const reader = createTableReader({ ...cap, stopAt: parallel.firstStop, totalBytes: bytes.length });
   for (let at = 0; at < bytes.length && reader.stoppedAt === null; at += PUSH_BYTES) {

@@ -145,6 +145,13 @@ describe('reading in segments and joining them gives the whole read', () => {
         // Once joined, the later parts have given up their storage (parallel-read.ts releaseJoinedParts).
         for (const part of parts.slice(1)) expect(tableBuffers(part).map((buffer) => buffer.byteLength)).toEqual(tableBuffers(part).map(() => 0));
 
+        // Cells joined only when read (as the command line reads a table to profile): the profile,
+        // made before any cell is read, and then the cells are the whole read's.
+        const later = await readInSegments(bytes, segmentBytes, { dictionaryCap: cap, cellsWhenRead: true });
+        expect(profileTable(later.table)).toEqual(profileTable(whole.table));
+        expect(later.table.columns.map(storageOf)).toEqual(whole.table.columns.map(storageOf));
+        expect(cellsOf(later.table)).toEqual(cellsOf(whole.table));
+
         met.redone += joined.segments.redone;
         met.skipped += joined.segments.skipped;
         notePairs(parts, joined.table);
@@ -185,6 +192,9 @@ describe('reading in segments and joining them gives the whole read', () => {
         expect(cellsOf(joined.table)).toEqual(cellsOf(whole.table));
         expect(joined.table.columns.map(storageOf)).toEqual(whole.table.columns.map(storageOf));
         expect(profileTable(joined.table)).toEqual(profileTable(whole.table));
+        const later = await readInSegments(bytes, segmentBytes, { packValues: true, cellsWhenRead: true });
+        expect(profileTable(later.table)).toEqual(profileTable(whole.table));
+        expect(later.table.columns.map(storageOf)).toEqual(whole.table.columns.map(storageOf));
         const id = joined.table.columns[0]!;
         // Sorted identifiers join as bytes, without a lookup; any other order falls back to strings.
         expect(id.kind === 'text' && id.packed?.ascending === true).toBe(order === 'sorted');

@@ -7,10 +7,12 @@ import {
   MAX_INVALID_EXAMPLES,
   profileColumn,
   profileTable,
+  profileTableSharing,
   type ColumnProfile,
 } from '../../src/core/profile.ts';
 import { DEFAULT_MISSING_TOKENS } from '../../src/core/recipe.ts';
 import { columnTable, vegaTable } from './helpers/tables.ts';
+import { readTable } from '../../src/core/read-table.ts';
 
 function firstColumn(cells: readonly string[], dictionaryCap?: number): Column {
   const column = columnTable('x', cells, dictionaryCap).columns[0];
@@ -430,5 +432,29 @@ describe('cars (vega-datasets cars.json, 406 rows; the UCI Auto MPG data)', () =
     const n = byName(profiles, 'Cylinders').numeric!;
     expect([n.distinct, n.min, n.max, n.integer]).toEqual([5, 3, 8, true]);
     expect(asRecord(byName(profiles, 'Cylinders').levels)).toEqual({ '3': 4, '4': 207, '5': 3, '6': 84, '8': 108 });
+  });
+});
+
+describe('profileTableSharing', () => {
+  it('gives profileTable\'s profiles whether each number column is profiled elsewhere or left here', async () => {
+    // 3,000 invented rows: three columns in number storage (more distinct values than the cap of 64), one text column.
+    const rows = Array.from({ length: 3000 }, (_, i) => `${i * 7},${(i % 500) / 4},${i % 50 === 0 ? 'NA' : String(i * 13)},${['red', 'blue'][i % 2]}`);
+    const { table } = readTable(new TextEncoder().encode(`a,b,c,colour\n${rows.join('\n')}\n`), { dictionaryCap: 64 });
+    expect(table.columns.map((column) => column.kind)).toEqual(['number', 'number', 'number', 'text']);
+    const expected = profileTable(table, DEFAULT_PROFILE_OPTIONS);
+    for (const taken of [[], [0], [1, 2], [0, 1, 2]]) {
+      const asked: number[] = [];
+      const profiles = await profileTableSharing(table, DEFAULT_PROFILE_OPTIONS, (column, index, options) => {
+        asked.push(index);
+        return taken.includes(index) ? Promise.resolve(profileColumn(column, index, options)) : null;
+      });
+      expect(asked).toEqual([0, 1, 2]);
+      expect(profiles).toEqual(expected);
+    }
+  });
+
+  it('fails with the failure of a column profiled elsewhere', async () => {
+    const { table } = readTable(new TextEncoder().encode(`a\n${Array.from({ length: 200 }, (_, i) => i).join('\n')}\n`), { dictionaryCap: 8 });
+    await expect(profileTableSharing(table, DEFAULT_PROFILE_OPTIONS, () => Promise.reject(new Error('a reading thread stopped')))).rejects.toThrow('a reading thread stopped');
   });
 });
