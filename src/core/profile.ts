@@ -212,17 +212,18 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
   // Values kept as bytes that tell the profile all it needs without their text (plain-values.ts).
   const plain = column.packed === undefined ? null : plainValues(column.packed, options.missingTokens);
   const textOf = textsOf(column, plain);
-  const { levelCodes, missingCodes } = splitMissing(counts, plain, (code) => isMissing(textOf(code)));
-  const byCount = sortCodesByCount(levelCodes, counts);
-  const missingSpellings = levelCountsOf(sortCodesByCount(missingCodes, counts), textOf, counts);
-  const nonMissing = cellsOf(byCount, counts);
+  const isMissingCode = (code: number): boolean => isMissing(textOf(code));
+  const split = plain === null ? splitMissing(counts, isMissingCode) : splitPackedLevels(column, plain, isMissingCode, textOf);
+  const byCount = split.inOrder ? split.levelCodes : sortCodesByCount(split.levelCodes, counts);
+  const missingSpellings = levelCountsOf(sortCodesByCount(split.missingCodes, counts), textOf, counts);
+  const nonMissing = split.nonMissing;
   // Every level, most frequent first: made when first read where plain values stand for most of them.
   const everyLevel = (): LookedAtLevels => {
     const values = plain === null ? null : column.values;
     const levels = levelCountsOf(byCount, values === null ? textOf : (code) => values[code] ?? '', counts);
     return { codes: byCount, levels, plain: null, plainCells: 0, plainCharacters: 0 };
   };
-  const looked = plain === null ? everyLevel() : lookedAtLevels(byCount, plain, textOf, column);
+  const looked = split.looked ?? everyLevel();
   const numeric = summarizeTextNumbers(column, looked, everyLevel, nonMissing, options.format);
   const text = textShape(looked, nonMissing);
   const distinct = byCount.length;
@@ -267,25 +268,81 @@ export function levelSourceOf(profile: ColumnProfile): LevelSource | null {
 
 /**
  * Codes of the levels and of the missing spellings, in dictionary (first appearance) order; codes
- * of no cell are neither. Plain values (plain-values.ts) are levels without being asked. Loops over
- * a million codes live in small functions: run once in a command line, they are optimised sooner.
+ * of no cell are neither; the cells of the levels; whether the levels' counts never rise in that
+ * order (then it is the most-frequent-first order already).
  */
-function splitMissing(counts: readonly number[], plain: Uint8Array | null, isMissingCode: (code: number) => boolean): { levelCodes: Int32Array; missingCodes: Int32Array } {
+interface SplitLevels {
+  readonly levelCodes: Int32Array;
+  readonly missingCodes: Int32Array;
+  readonly nonMissing: number;
+  readonly inOrder: boolean;
+  /** For a column kept as bytes: the levels whose text the profile reads, and what the plain ones add up to. */
+  readonly looked: LookedAtLevels | null;
+}
+
+/**
+ * The levels and missing spellings of a dictionary. Loops over a million codes live in small
+ * functions: run once in a command line, they are optimised sooner.
+ */
+function splitMissing(counts: readonly number[], isMissingCode: (code: number) => boolean): SplitLevels {
   const levelCodes = new Int32Array(counts.length);
   const missingCodes: number[] = [];
   let levelCount = 0;
+  let nonMissing = 0;
+  let previous = Infinity;
+  let inOrder = true;
   for (let code = 0; code < counts.length; code++) {
-    if (!((counts[code] ?? 0) > 0)) continue;
-    if (plain?.[code] !== 1 && isMissingCode(code)) missingCodes.push(code);
-    else levelCodes[levelCount++] = code;
+    const count = counts[code] ?? 0;
+    if (!(count > 0)) continue;
+    if (isMissingCode(code)) {
+      missingCodes.push(code);
+      continue;
+    }
+    levelCodes[levelCount++] = code;
+    nonMissing += count;
+    if (count > previous) inOrder = false;
+    previous = count;
   }
-  return { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes) };
+  return { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes), nonMissing, inOrder, looked: null };
 }
 
-function cellsOf(codes: Int32Array, counts: readonly number[]): number {
-  let cells = 0;
-  for (let i = 0; i < codes.length; i++) cells += counts[codes[i]!] ?? 0;
-  return cells;
+/**
+ * splitMissing for a column kept as bytes, with the levels whose text the profile reads, in the same one pass
+ * over its (a million) values: plain values (plain-values.ts) are levels without being asked, and
+ * only add up their cells and characters; the others are looked at as every value of an unpacked
+ * column is. Their order is the levels' most frequent first, restricted to them: sorted among
+ * themselves by the same rule, without a pass over the levels.
+ */
+function splitPackedLevels(column: TextColumn, plain: Uint8Array, isMissingCode: (code: number) => boolean, textOf: (code: number) => string): SplitLevels {
+  const { counts } = column;
+  const starts = column.packed!.starts;
+  const levelCodes = new Int32Array(counts.length);
+  const missingCodes: number[] = [];
+  const lookedAt: number[] = [];
+  let levelCount = 0;
+  let nonMissing = 0;
+  let plainCells = 0;
+  let plainCharacters = 0;
+  let previous = Infinity;
+  let inOrder = true;
+  for (let code = 0; code < counts.length; code++) {
+    const count = counts[code] ?? 0;
+    if (!(count > 0)) continue;
+    if (plain[code] === 1) {
+      plainCells += count;
+      plainCharacters += (starts[code + 1]! - starts[code]!) * count;
+    } else if (isMissingCode(code)) {
+      missingCodes.push(code);
+      continue;
+    } else lookedAt.push(code);
+    levelCodes[levelCount++] = code;
+    nonMissing += count;
+    if (count > previous) inOrder = false;
+    previous = count;
+  }
+  const codes = sortCodesByCount(Int32Array.from(lookedAt), counts);
+  const looked = { codes, levels: levelCountsOf(codes, textOf, counts), plain, plainCells, plainCharacters };
+  return { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes), nonMissing, inOrder, looked };
 }
 
 /**
@@ -351,27 +408,6 @@ interface LookedAtLevels {
   readonly plainCells: number;
   /** The plain values' characters, each times its count (ASCII: a byte is a character). */
   readonly plainCharacters: number;
-}
-
-function lookedAtLevels(byCount: Int32Array, plain: Uint8Array, textOf: (code: number) => string, column: TextColumn): LookedAtLevels {
-  const { counts } = column;
-  const starts = column.packed!.starts;
-  const codes: number[] = [];
-  const levels: LevelCount[] = [];
-  let plainCells = 0;
-  let plainCharacters = 0;
-  for (let i = 0; i < byCount.length; i++) {
-    const code = byCount[i]!;
-    const count = counts[code] ?? 0;
-    if (plain[code] === 1) {
-      plainCells += count;
-      plainCharacters += (starts[code + 1]! - starts[code]!) * count;
-    } else {
-      codes.push(code);
-      levels.push({ value: textOf(code), count });
-    }
-  }
-  return { codes: Int32Array.from(codes), levels, plain, plainCells, plainCharacters };
 }
 
 /**
