@@ -25,7 +25,8 @@
  * thread finds its role in `workerData` (from the TypeScript sources, read-thread-sources.mjs loads
  * this file). The command line itself reads on threads only from its bundle (`canReadInThread`);
  * from its sources it reads on one, the reference the tests compare the threads with. After a
- * whole-table read, the threads also profile the columns kept as numbers (`profiling`).
+ * whole-table read, the threads also profile the columns kept as numbers, sharing them with this
+ * thread as each comes free (`profiling`, NumberProfiles).
  */
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
@@ -190,7 +191,8 @@ export interface ThreadTableResult extends ReadResult {
  * The whole table of the file at `path` (profile, draft), read on this thread and the reading
  * threads, one segment each, joined in file order (core parallel-read.ts). `onBytes` is told the
  * bytes read so far, for progress. With `profiling`, the table is profiled before the threads go,
- * its number columns on them (core profileTableSharing).
+ * its number columns on them where they are free (core profileTableSharing), and its cells are
+ * joined only if something reads them (core ConcatOptions.cellsWhenRead).
  */
 export async function readTableInThreads(
   path: string,
