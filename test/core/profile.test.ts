@@ -234,6 +234,20 @@ describe('number-stored columns (one pass over the numbers, then the exceptions)
     }
   });
 
+  it('counts an exception\'s number when the plain numbers fill the hash table to its last slot', () => {
+    // 8,192 cells hold 1,024 distinct plain numbers (the most a column of 8,192 cells is counted
+    // for, 1 in 8); "007" (kept as its text) adds a 1,025th number, 7, which must not be lost.
+    const cells = Array.from({ length: 8192 }, (_, i) => String(100 + (i % 1024)));
+    cells.push('007');
+    const asNumbers = profileColumn(firstColumn(cells, 64), 0);
+    const asText = profileColumn(firstColumn(cells, 1 << 20), 0);
+    expect(firstColumn(cells, 64).kind).toBe('number');
+    expect(asNumbers.numeric!.min).toBe(7);
+    expect(asNumbers.numeric!.count).toBe(8193);
+    expect([asNumbers.distinct, asNumbers.numeric!.median, asNumbers.numeric!.leadingZeros]).toEqual([asText.distinct, asText.numeric!.median, asText.numeric!.leadingZeros]);
+    expect(asNumbers.numeric!.histogram.counts).toEqual(asText.numeric!.histogram.counts);
+  });
+
   it('lists missing spellings of equal counts in the order they first appear, whichever way number storage keeps them', () => {
     // "-999" is a number a token spells, "0.00" a fixed-decimal cell, "NA" kept as its text: three
     // ways number storage holds a cell, each spelling twice, first seen in this order.
