@@ -277,6 +277,14 @@ describe('amounts written with currency and percent signs', () => {
     expect(text(run.stdout)).toContain('   numbers (written like 1234,5%): min 0, max 45,');
   });
 
+  it('profile names a stray text by its first five lines', () => {
+    // An invented meter log: 40 readings, "unknown" on 8 lines (2 and every fifth line after it).
+    const rows = Array.from({ length: 40 }, (_, i) => `M${i},${i % 5 === 0 ? 'unknown' : String(1200 + i * 7)}`);
+    const run = levelwise(['profile', file('meters (invented).csv', `meter,kwh\n${rows.join('\n')}\n`)]);
+    expect(run.status).toBe(0);
+    expect(text(run.stdout)).toContain('; 8 not numbers: "unknown" (lines 2, 7, 12, 17, 22, …)');
+  });
+
   it('draft reads them as numbers in their format, and apply writes the numbers', () => {
     const draft = levelwise(['draft', prices, '-o', recipePath]);
     expect(draft.status).toBe(0);

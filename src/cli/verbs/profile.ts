@@ -22,6 +22,8 @@ const TOP_LEVELS = 5;
 const SHOWN_ROWS = 5;
 /** Texts that are not numbers shown per column, each with its lines. */
 const SHOWN_STRAY = 3;
+/** Lines shown for one stray text (the core keeps up to 100 examples, often all of one text). */
+const SHOWN_LINES = 5;
 
 export async function profileVerb(argv: readonly string[]): Promise<ExitCode> {
   const args = parseArgs(VERB, argv, [{ name: 'format', choices: ['text', 'json'] }, OUTPUT_OPTION, ...READ_OPTIONS]);
@@ -87,7 +89,7 @@ function strayText(examples: readonly { row?: number; text: string; line?: numbe
     if (line !== undefined) lines.push(line);
     byText.set(e.text, lines);
   }
-  const shown = [...byText].slice(0, SHOWN_STRAY).map(([text, lines]) => (lines.length === 0 ? quoted(text) : `${quoted(text)} (${linesText(lines)})`));
+  const shown = [...byText].slice(0, SHOWN_STRAY).map(([text, lines]) => (lines.length === 0 ? quoted(text) : `${quoted(text)} (${linesText(lines.slice(0, SHOWN_LINES), lines.length)})`));
   return shown.join(', ') + (total > examples.length || byText.size > SHOWN_STRAY ? ', …' : '');
 }
 
