@@ -213,7 +213,7 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
   const plain = column.packed === undefined ? null : plainValues(column.packed, options.missingTokens);
   const textOf = textsOf(column, plain);
   const isMissingCode = (code: number): boolean => isMissing(textOf(code));
-  const split = plain === null ? splitMissing(counts, isMissingCode) : splitPackedLevels(column, plain, isMissingCode, textOf);
+  const split = splitLevels(column, plain, isMissingCode, textOf);
   const byCount = split.inOrder ? split.levelCodes : sortCodesByCount(split.levelCodes, counts);
   const missingSpellings = levelCountsOf(sortCodesByCount(split.missingCodes, counts), textOf, counts);
   const nonMissing = split.nonMissing;
@@ -281,41 +281,16 @@ interface SplitLevels {
 }
 
 /**
- * The levels and missing spellings of a dictionary. Loops over a million codes live in small
- * functions: run once in a command line, they are optimised sooner.
+ * The levels and missing spellings of a dictionary, in one pass over its (maybe a million) values.
+ * In a column kept as bytes (`plain` given), plain values (plain-values.ts) are levels without
+ * being asked, and only add up their cells and characters; the others are looked at as every value
+ * of an unpacked column is. Their order is the levels' most frequent first, restricted to them:
+ * sorted among themselves by the same rule, without a pass over the levels. A loop over a million
+ * codes lives in a small function: run once in a command line, it is optimised sooner.
  */
-function splitMissing(counts: readonly number[], isMissingCode: (code: number) => boolean): SplitLevels {
-  const levelCodes = new Int32Array(counts.length);
-  const missingCodes: number[] = [];
-  let levelCount = 0;
-  let nonMissing = 0;
-  let previous = Infinity;
-  let inOrder = true;
-  for (let code = 0; code < counts.length; code++) {
-    const count = counts[code] ?? 0;
-    if (!(count > 0)) continue;
-    if (isMissingCode(code)) {
-      missingCodes.push(code);
-      continue;
-    }
-    levelCodes[levelCount++] = code;
-    nonMissing += count;
-    if (count > previous) inOrder = false;
-    previous = count;
-  }
-  return { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes), nonMissing, inOrder, looked: null };
-}
-
-/**
- * splitMissing for a column kept as bytes, with the levels whose text the profile reads, in the same one pass
- * over its (a million) values: plain values (plain-values.ts) are levels without being asked, and
- * only add up their cells and characters; the others are looked at as every value of an unpacked
- * column is. Their order is the levels' most frequent first, restricted to them: sorted among
- * themselves by the same rule, without a pass over the levels.
- */
-function splitPackedLevels(column: TextColumn, plain: Uint8Array, isMissingCode: (code: number) => boolean, textOf: (code: number) => string): SplitLevels {
+function splitLevels(column: TextColumn, plain: Uint8Array | null, isMissingCode: (code: number) => boolean, textOf: (code: number) => string): SplitLevels {
   const { counts } = column;
-  const starts = column.packed!.starts;
+  const starts = column.packed?.starts ?? null;
   const levelCodes = new Int32Array(counts.length);
   const missingCodes: number[] = [];
   const lookedAt: number[] = [];
@@ -328,21 +303,22 @@ function splitPackedLevels(column: TextColumn, plain: Uint8Array, isMissingCode:
   for (let code = 0; code < counts.length; code++) {
     const count = counts[code] ?? 0;
     if (!(count > 0)) continue;
-    if (plain[code] === 1) {
+    if (plain !== null && plain[code] === 1) {
       plainCells += count;
-      plainCharacters += (starts[code + 1]! - starts[code]!) * count;
+      plainCharacters += (starts![code + 1]! - starts![code]!) * count;
     } else if (isMissingCode(code)) {
       missingCodes.push(code);
       continue;
-    } else lookedAt.push(code);
+    } else if (plain !== null) lookedAt.push(code);
     levelCodes[levelCount++] = code;
     nonMissing += count;
     if (count > previous) inOrder = false;
     previous = count;
   }
+  const split = { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes), nonMissing, inOrder };
+  if (plain === null) return { ...split, looked: null };
   const codes = sortCodesByCount(Int32Array.from(lookedAt), counts);
-  const looked = { codes, levels: levelCountsOf(codes, textOf, counts), plain, plainCells, plainCharacters };
-  return { levelCodes: levelCodes.subarray(0, levelCount), missingCodes: Int32Array.from(missingCodes), nonMissing, inOrder, looked };
+  return { ...split, looked: { codes, levels: levelCountsOf(codes, textOf, counts), plain, plainCells, plainCharacters } };
 }
 
 /**
