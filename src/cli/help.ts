@@ -1,10 +1,19 @@
 /** The --help text of the command and of each verb. docs/cli.md says the same at more length. */
+import { DEFAULT_MISSING_TOKENS } from '../core/missing.ts';
 
 const READING = `Reading files:
   FILE is a CSV or other delimited text file, an .xlsx workbook, or - for standard input.
   --delimiter comma|semicolon|tab|pipe   instead of detecting it
   --encoding utf-8|utf-16le|utf-16be|windows-1252   instead of detecting it
   --sheet NAME   the sheet of a workbook to read (default: the first)`;
+
+const MISSING = `Missing values:
+  An empty cell is missing, and so are cells spelled
+  ${DEFAULT_MISSING_TOKENS.slice(0, -1).join('  ')}  or  ${DEFAULT_MISSING_TOKENS.at(-1)}
+  (spaces around them do not count).
+  --missing SPELLING       read SPELLING as missing too, e.g. --missing -999 --missing unknown
+  --not-missing SPELLING   read SPELLING as a value, e.g. --not-missing None
+  Both may be given several times.`;
 
 const EXIT_CODES = `Exit codes: 0 done; 1 the data does not fit the recipe; 2 wrong command or unreadable input.`;
 
@@ -32,6 +41,8 @@ levels or a summary of the numbers, and the level of measurement Levelwise propo
   --format text|json   text for people (default), JSON for programs
   -o, --output OUT     write to OUT instead of standard output
 
+${MISSING}
+
 ${READING}
 ${EXIT_CODES}
 `,
@@ -53,6 +64,9 @@ Profiles FILE and writes the recipe Levelwise proposes, changed by your choices,
   --naming readable|safe       output names like "heating=heat pump" or "heating__heat_pump"
 Options that name a column may be given several times. They apply in this order:
 --set, --numbers, --keep-top, --order, --reference, --positive, --naming.
+
+${MISSING}
+The recipe keeps the spellings: apply, check and sql read new files the same way.
 
 ${READING}
 ${EXIT_CODES}

@@ -1,5 +1,6 @@
 /** Which cell texts mean "no value". */
 import { numberValue } from './columns-builder.ts';
+import type { ColumnProfile } from './profile.ts';
 
 /** The spellings of a missing value a new recipe starts with (besides the empty cell). */
 export const DEFAULT_MISSING_TOKENS: readonly string[] = ['NA', 'N/A', 'n/a', '#N/A', 'NaN', 'null', 'NULL', 'None', '.', '?', '-'];
@@ -45,4 +46,32 @@ export function missingNumbers(tokens: readonly string[]): ReadonlySet<number> {
     if (!Number.isNaN(value)) numbers.add(value);
   }
   return numbers;
+}
+
+/** A missing spelling met in more cells of a column than all of the column's values together. */
+export interface OutnumberingSpelling {
+  readonly column: string;
+  readonly spelling: string;
+  /** Cells spelled so. */
+  readonly cells: number;
+  /** Cells holding a value (not missing). */
+  readonly valueCells: number;
+}
+
+/**
+ * Missing spellings that may be values in disguise: one that outnumbers all of a column's values
+ * together ("None" in 89 % of a damage column, where it says there was no damage) is worth a
+ * second look before a model learns from the column without it. The empty cell is always missing
+ * and never named; a column with no value at all is left alone (there is nothing to mistake).
+ */
+export function spellingsOutnumberingValues(profiles: readonly ColumnProfile[]): OutnumberingSpelling[] {
+  const found: OutnumberingSpelling[] = [];
+  for (const profile of profiles) {
+    const valueCells = profile.count - profile.missing;
+    if (valueCells <= 0) continue;
+    for (const { value, count } of profile.missingSpellings) {
+      if (value !== '' && count > valueCells) found.push({ column: profile.name, spelling: value, cells: count, valueCells });
+    }
+  }
+  return found;
 }

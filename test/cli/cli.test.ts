@@ -369,6 +369,64 @@ describe('check', () => {
   });
 });
 
+describe('missing spellings: --missing and --not-missing', () => {
+  // "None" says there was no damage; -999 is a sensor's code for no reading (common practice in lab and field sheets).
+  const csv = 'id,damage,reading\n1,None,21.5\n2,None,-999\n3,None,19.0\n4,Minor,-999\n5,None,20.0\n6,Severe,-999\n';
+  const note = 'damage: "None" is read as missing in 4 cells, more than all of its values together (2 cells). If "None" is a value here, run again with --not-missing None.';
+
+  it('draft and profile note a spelling read as missing in more cells than the column has values', () => {
+    const input = file('spellings.csv', csv);
+    const draft = levelwise(['draft', input]);
+    expect(draft.status).toBe(0);
+    expect(draft.stderr).toBe(`levelwise draft: ${note}\n`);
+    expect(parsed(draft.stdout.toString()).reading.missingTokens).toEqual(DEFAULT_MISSING_TOKENS);
+    const profile = levelwise(['profile', input, '--missing', '-999']);
+    expect(profile.stderr).toBe(`levelwise profile: ${note}\n`);
+    expect(profile.stdout.toString()).toContain('3. reading — ');
+    expect(profile.stdout.toString()).toContain('   3 missing ("-999" 3), 3 distinct');
+  });
+
+  it('the recipe keeps the spellings chosen, and apply reads the file with them', () => {
+    const input = file('spellings2.csv', csv);
+    const draft = levelwise(['draft', input, '--not-missing', 'None', '--missing=-999', '--set', 'reading=continuous:none', '--set', 'damage=nominal']);
+    expect(draft.stderr).toBe('');
+    const recipe = parsed(draft.stdout.toString());
+    expect(recipe.reading.missingTokens).toEqual([...DEFAULT_MISSING_TOKENS.filter((t) => t !== 'None'), '-999']);
+    const applied = levelwise(['apply', file('spellings2.recipe.json', draft.stdout), input]);
+    expect(applied.status).toBe(0);
+    // By hand: "None" is a level of its own; -999 is missing, filled with the mean of 21.5, 19 and 20 (60.5 / 3).
+    expect(text(applied.stdout)).toBe(
+      [
+        'id,damage=None,damage=Minor,damage=Severe,reading,reading (missing)',
+        '1,1,0,0,21.5,0',
+        '2,1,0,0,20.166666666666668,1',
+        '3,1,0,0,19,0',
+        '4,0,1,0,20.166666666666668,1',
+        '5,1,0,0,20,0',
+        '6,0,0,1,20.166666666666668,1',
+        '',
+      ].join('\r\n'),
+    );
+  });
+
+  it('refuses the empty cell, a spelling not on the list, and one given to both options', () => {
+    const input = file('spellings3.csv', csv);
+    expectOneLineError(levelwise(['draft', input, '--not-missing', 'Unknown']), /--not-missing Unknown: "Unknown" is not read as missing to begin with\. The spellings read as missing are "NA", .*"-" and the empty cell\./);
+    expectOneLineError(levelwise(['profile', input, '--not-missing', ' ']), /--not-missing "": an empty cell is always read as missing/);
+    expectOneLineError(levelwise(['draft', input, '--missing', '']), /--missing "": an empty cell is read as missing already/);
+    expectOneLineError(levelwise(['draft', input, '--missing', 'x', '--not-missing', 'x']), /"x" was given to both --missing and --not-missing/);
+  });
+
+  it('the help of draft and profile lists every spelling read as missing', () => {
+    for (const verb of ['draft', 'profile']) {
+      const help = levelwise([verb, '--help']).stdout.toString();
+      const line = help.split('\n').find((l) => l.includes('NA  N/A'))!;
+      expect(line.trim().split(/\s+/).filter((w) => w !== 'or')).toEqual(DEFAULT_MISSING_TOKENS);
+      expect(help).toContain('--not-missing SPELLING');
+    }
+  });
+});
+
 describe('sql', () => {
   it('writes compileSql’s query with a closing semicolon', () => {
     const c = goldenCases().find((x) => x.name === 'continuous-scaling')!;

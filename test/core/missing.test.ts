@@ -5,8 +5,13 @@
  * which String.prototype.trim removes).
  */
 import fc from 'fast-check';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { missingTest } from '../../src/core/missing.ts';
+import { missingTest, spellingsOutnumberingValues } from '../../src/core/missing.ts';
+import { profileTable } from '../../src/core/profile.ts';
+import { readTable, tableFromRows } from '../../src/core/read-table.ts';
 import { DEFAULT_MISSING_TOKENS } from '../../src/core/recipe.ts';
 
 /** The definition, written the plain way. */
@@ -41,5 +46,50 @@ describe('missingTest', () => {
       }),
       { numRuns: 3000 },
     );
+  });
+});
+
+describe('spellingsOutnumberingValues: missing spellings that may be values', () => {
+  const profilesOf = (rows: string[][], tokens = DEFAULT_MISSING_TOKENS) => profileTable(tableFromRows(rows).table, { missingTokens: tokens });
+
+  it('names a spelling met in more cells than all of the column\'s values together, with both counts', () => {
+    const rows = [['damage', 'note', 'size']];
+    // damage: "None" 5 against 3 values; note: "NA" 3 against 5 values; size: "-" 4 against 4 values (not more).
+    const damage = ['None', 'None', 'Minor', 'None', '', 'Severe', 'None', 'Minor', 'None'];
+    const note = ['NA', 'a', 'b', 'NA', 'c', 'd', 'NA', 'e', ''];
+    const size = ['-', 'S', '-', 'M', '-', 'L', '-', 'S', ''];
+    damage.forEach((d, i) => rows.push([d, note[i]!, size[i]!]));
+    expect(spellingsOutnumberingValues(profilesOf(rows))).toEqual([{ column: 'damage', spelling: 'None', cells: 5, valueCells: 3 }]);
+  });
+
+  it('never names the empty cell, nor a column with no value at all, nor a spelling taken off the list', () => {
+    const rows = [['a', 'b', 'c'], ['', 'NA', 'None'], ['', 'NA', 'None'], ['x', 'NA', 'y']];
+    // a: 2 empty against 1 value (empty is never named); b: nothing but "NA"; c: "None" read as a value.
+    expect(spellingsOutnumberingValues(profilesOf(rows, DEFAULT_MISSING_TOKENS.filter((t) => t !== 'None')))).toEqual([]);
+    expect(spellingsOutnumberingValues(profilesOf(rows))).toEqual([{ column: 'c', spelling: 'None', cells: 2, valueCells: 1 }]);
+  });
+
+  it('counts "-999" in a column kept as numbers', () => {
+    const cells = Array.from({ length: 300 }, (_, i) => (i % 3 === 0 ? String(i) : '-999'));
+    const profiles = profileTable(readTable(new TextEncoder().encode(`t\n${cells.join('\n')}\n`), { dictionaryCap: 16 }).table, {
+      missingTokens: [...DEFAULT_MISSING_TOKENS, '-999'],
+    });
+    expect(spellingsOutnumberingValues(profiles)).toEqual([{ column: 't', spelling: '-999', cells: 200, valueCells: 100 }]);
+  });
+
+  // Published dataset: vega-datasets birdstrikes.csv (a sample of the FAA wildlife strike records),
+  // whose damage column spells "no damage" as "None". The counts are taken with papaparse, an
+  // independent reader, not typed in.
+  it('birdstrikes (vega-datasets): "None" in "Effect Amount of damage" outnumbers the other values', () => {
+    const path = join(import.meta.dirname, '../../node_modules/vega-datasets/data/birdstrikes.csv');
+    const text = readFileSync(path, 'utf8');
+    const records = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
+    const damage = records.map((r) => r['Effect Amount of damage'] ?? '');
+    const none = damage.filter((d) => d.trim() === 'None').length;
+    const values = damage.filter((d) => !missingTest(DEFAULT_MISSING_TOKENS)(d)).length;
+    expect(records.length).toBe(10000);
+    expect(none).toBeGreaterThan(values);
+    const found = spellingsOutnumberingValues(profileTable(readTable(new TextEncoder().encode(text)).table, { missingTokens: DEFAULT_MISSING_TOKENS }));
+    expect(found).toContainEqual({ column: 'Effect Amount of damage', spelling: 'None', cells: none, valueCells: values });
   });
 });

@@ -1,7 +1,7 @@
 /**
  * levelwise draft FILE [-o RECIPE] [--set column=level[:coding]]... [--numbers column=example]...
  *   [--reference column=level]... [--positive column=level]... [--order column=a,b,c]...
- *   [--keep-top column=N]... [--naming readable|safe]
+ *   [--keep-top column=N]... [--naming readable|safe] [--missing spelling]... [--not-missing spelling]...
  *
  * Profiles FILE, proposes a recipe (core's draftRecipe) and applies the person's choices as core
  * decisions (decide), the same decisions the page makes. The options are applied in a fixed order:
@@ -16,13 +16,14 @@ import { formatFromExample } from '../../core/numbers.ts';
 import { sensitiveAttributeCaution } from '../../core/infer.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import { stringifyRecipe } from '../../core/recipe-io.ts';
-import { DEFAULT_MISSING_TOKENS, LEVELS, type ColumnRecipe, type ContinuousColumn, type MeasurementLevel, type NumberFormat, type Recipe } from '../../core/recipe.ts';
+import { LEVELS, type ColumnRecipe, type ContinuousColumn, type MeasurementLevel, type NumberFormat, type Recipe } from '../../core/recipe.ts';
 import { optionValue, parseArgs, positionals, type ParsedArgs } from '../args.ts';
 import { count, note, OUTPUT_OPTION, plural, READ_OPTIONS, readSettings } from '../common.ts';
 import { CliFailure, EXIT, usageFailure, type ExitCode } from '../failure.ts';
 import { inputSource, readWholeTable } from '../input.ts';
 import { openOutput } from '../output.ts';
 import { findingsLines } from '../reading-findings.ts';
+import { MISSING_OPTIONS, missingSpellings, outnumberingNotes } from '../missing-spellings.ts';
 
 const VERB = 'draft';
 /** Rows with the wrong number of fields shown on standard error. */
@@ -45,12 +46,14 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
     { name: 'order', repeatable: true },
     { name: 'keep-top', repeatable: true },
     { name: 'naming', choices: ['readable', 'safe'] },
+    ...MISSING_OPTIONS,
     ...READ_OPTIONS,
   ]);
   const [filePath = ''] = positionals(VERB, args, ['FILE']);
+  const missingTokens = missingSpellings(VERB, args);
   const source = await inputSource(filePath);
   const settings = readSettings(args);
-  const { table, summary, profiles } = await readWholeTable(source, settings, { missingTokens: DEFAULT_MISSING_TOKENS });
+  const { table, summary, profiles } = await readWholeTable(source, settings, { missingTokens });
   if (summary.rows === 0) {
     throw new CliFailure(
       `cannot draft a recipe from "${source.label}": it has a header but no data rows, so there is nothing to learn levels or numbers from. Nothing was written.`,
@@ -58,7 +61,8 @@ export async function draftVerb(argv: readonly string[]): Promise<ExitCode> {
     );
   }
   for (const line of findingsLines(source.label, summary.names, summary.findings, VERB, SHOWN_ROWS)) note(VERB, line);
-  const drafted = draftRecipe(profiles, { file: source.fileName, rows: table.rowCount }, { delimiter: settings.delimiter });
+  for (const line of outnumberingNotes(profiles)) note(VERB, line);
+  const drafted = draftRecipe(profiles, { file: source.fileName, rows: table.rowCount }, { delimiter: settings.delimiter, missingTokens });
   const recipe = applyChoices(drafted, args, profiles);
 
   for (const column of recipe.columns) {

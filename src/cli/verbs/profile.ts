@@ -1,11 +1,11 @@
 /**
- * levelwise profile FILE [--format text|json] [-o OUT]
+ * levelwise profile FILE [--format text|json] [-o OUT] [--missing SPELLING]... [--not-missing SPELLING]...
  *
  * What each column holds — missing cells, distinct values, the most frequent levels or the
  * numbers' summary — and the level of measurement Levelwise would propose, with its reason.
  */
 import { numberFormatExample } from '../../core/numbers.ts';
-import { DEFAULT_MISSING_TOKENS, type NumberFormat } from '../../core/recipe.ts';
+import type { NumberFormat } from '../../core/recipe.ts';
 import { inferLevel, sensitiveAttributeCaution, type Inference } from '../../core/infer.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import { optionValue, parseArgs, positionals } from '../args.ts';
@@ -15,6 +15,7 @@ import { EXIT, type ExitCode } from '../failure.ts';
 import { inputSource, readWholeTable, type ReadSummary } from '../input.ts';
 import { openOutput } from '../output.ts';
 import { findingsLines } from '../reading-findings.ts';
+import { MISSING_OPTIONS, missingSpellings, outnumberingNotes } from '../missing-spellings.ts';
 
 const VERB = 'profile';
 const TOP_LEVELS = 5;
@@ -26,17 +27,19 @@ const SHOWN_STRAY = 3;
 const SHOWN_LINES = 5;
 
 export async function profileVerb(argv: readonly string[]): Promise<ExitCode> {
-  const args = parseArgs(VERB, argv, [{ name: 'format', choices: ['text', 'json'] }, OUTPUT_OPTION, ...READ_OPTIONS]);
+  const args = parseArgs(VERB, argv, [{ name: 'format', choices: ['text', 'json'] }, OUTPUT_OPTION, ...MISSING_OPTIONS, ...READ_OPTIONS]);
   const [filePath = ''] = positionals(VERB, args, ['FILE']);
+  const missingTokens = missingSpellings(VERB, args);
   const source = await inputSource(filePath);
-  const { table, summary, profiles } = await readWholeTable(source, readSettings(args), { missingTokens: DEFAULT_MISSING_TOKENS });
+  const { table, summary, profiles } = await readWholeTable(source, readSettings(args), { missingTokens });
   for (const line of findingsLines(source.label, summary.names, summary.findings, VERB, SHOWN_ROWS)) note(VERB, line);
+  for (const line of outnumberingNotes(profiles)) note(VERB, line);
   if (summary.rows === 0) note(VERB, `"${source.label}" has a header but no data rows: there is nothing to profile, only the columns' names.`);
   const suggestions = profiles.map((p) => inferLevel(p));
   const output = openOutput(optionValue(args, 'output'));
   if (optionValue(args, 'format') === 'json') {
     const columns = profiles.map((profile, i) => ({ ...profile, suggestion: suggestions[i], caution: sensitiveAttributeCaution(profile.name) }));
-    output.write(`${JSON.stringify({ file: source.fileName, ...summary, columns }, null, 2)}\n`);
+    output.write(`${JSON.stringify({ file: source.fileName, ...summary, missingTokens, columns }, null, 2)}\n`);
   } else {
     output.write(profileText(source.label, summary, table, profiles, suggestions));
   }
