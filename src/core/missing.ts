@@ -75,3 +75,17 @@ export function spellingsOutnumberingValues(profiles: readonly ColumnProfile[]):
   }
   return found;
 }
+
+/** Cells per missing spelling over every column ('' for the empty cell), most frequent first. */
+export function missingSpellingCells(profiles: readonly ColumnProfile[]): { readonly spelling: string; readonly cells: number }[] {
+  const cells = new Map<string, number>();
+  for (const profile of profiles) for (const { value, count } of profile.missingSpellings) cells.set(value, (cells.get(value) ?? 0) + count);
+  return [...cells].map(([spelling, n]) => ({ spelling, cells: n })).sort((a, b) => b.cells - a.cells);
+}
+
+/** Whether two lists of missing spellings read the same cells as missing (order and repeats aside). */
+export function sameMissingTokens(a: readonly string[], b: readonly string[]): boolean {
+  const left = new Set(a.map((t) => t.trim()));
+  const right = new Set(b.map((t) => t.trim()));
+  return left.size === right.size && [...left].every((t) => right.has(t));
+}

@@ -13,6 +13,7 @@ import { ColumnEditor } from './columns/ColumnEditor.tsx';
 import { ColumnList } from './columns/ColumnList.tsx';
 import { DropOverlay, useFileDrop } from './files/DropZone.tsx';
 import { FileSummary } from './files/FileSummary.tsx';
+import { MissingSpellings } from './files/MissingSpellings.tsx';
 import { Notices } from './files/Notices.tsx';
 import { DATA_FILE_ACCEPT, OpenFileButton } from './files/OpenFileButton.tsx';
 import { TakeAway } from './files/TakeAway.tsx';
@@ -27,7 +28,8 @@ import { useUndoKeys } from './state/useUndoKeys.ts';
 import { useWorkbench } from './state/useWorkbench.ts';
 import { WidthMeter } from './width/WidthMeter.tsx';
 
-type CentreTab = 'column' | 'width';
+type CentreTab = 'column' | 'width' | 'missing';
+const CENTRE_TABS: readonly CentreTab[] = ['column', 'width', 'missing'];
 
 export function App() {
   const wb = useWorkbench();
@@ -141,17 +143,24 @@ export function App() {
             <button type="button" role="tab" id="tab-width" aria-controls="panel-width" aria-selected={tab === 'width'} tabIndex={tab === 'width' ? 0 : -1} className="tab" onClick={() => setTab('width')} onKeyDown={(e) => tabKeys(e, setTab)}>
               Output width{forecast ? `: ${forecast.total.before} → ${forecast.total.after}` : ''}
             </button>
+            <button type="button" role="tab" id="tab-missing" aria-controls="panel-missing" aria-selected={tab === 'missing'} tabIndex={tab === 'missing' ? 0 : -1} className="tab" onClick={() => setTab('missing')} onKeyDown={(e) => tabKeys(e, setTab)}>
+              Missing values{recipe ? `: ${recipe.reading.missingTokens.length + 1} spellings` : ''}
+            </button>
           </div>
-          <div key={tab === 'column' ? `column:${selected ?? ''}` : 'width'} className="pane-scroll" role="tabpanel" id={tab === 'column' ? 'panel-column' : 'panel-width'} aria-labelledby={tab === 'column' ? 'tab-column' : 'tab-width'} tabIndex={0}>
+          <div key={tab === 'column' ? `column:${selected ?? ''}` : tab} className="pane-scroll" role="tabpanel" id={`panel-${tab}`} aria-labelledby={`tab-${tab}`} tabIndex={0}>
             {tab === 'column' ? (
               profile && column ? (
                 <ColumnEditor profile={profile} column={column} onDecide={wb.decide} />
               ) : (
                 <p className="muted pane-empty">Choose a column on the left.</p>
               )
-            ) : forecast ? (
-              <WidthMeter forecast={forecast} onDecide={wb.decide} />
-            ) : null}
+            ) : tab === 'width' ? (
+              forecast ? <WidthMeter forecast={forecast} onDecide={wb.decide} /> : null
+            ) : table && recipe ? (
+              <MissingSpellings profiles={table.profiles} tokens={recipe.reading.missingTokens} busy={wb.task !== null} onChange={(tokens) => void wb.readMissingAs(tokens)} />
+            ) : (
+              <p className="muted pane-empty">Open a file to see how its missing values are spelled.</p>
+            )}
           </div>
         </section>
 
@@ -185,11 +194,12 @@ export function App() {
   );
 }
 
-/** Left and right arrows move between the two tabs (WAI-ARIA Authoring Practices, tabs pattern). */
+/** Left and right arrows move between the tabs, round from the last to the first (WAI-ARIA Authoring Practices, tabs pattern). */
 function tabKeys(event: KeyboardEvent<HTMLButtonElement>, setTab: (tab: CentreTab) => void) {
   if (event.key !== 'ArrowLeft' && event.key !== 'ArrowRight') return;
   event.preventDefault();
-  const next: CentreTab = event.currentTarget.id === 'tab-column' ? 'width' : 'column';
+  const at = CENTRE_TABS.indexOf(event.currentTarget.id.slice('tab-'.length) as CentreTab);
+  const next = CENTRE_TABS[(at + (event.key === 'ArrowRight' ? 1 : CENTRE_TABS.length - 1)) % CENTRE_TABS.length]!;
   setTab(next);
   document.getElementById(`tab-${next}`)?.focus();
 }

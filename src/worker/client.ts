@@ -10,6 +10,7 @@ import {
   type FromWorker,
   type OpenedTable,
   type Phase,
+  type Reprofiled,
   type RequestOf,
   type ResultOf,
   type ToWorker,
@@ -48,7 +49,7 @@ interface Pending {
   resolve(result: unknown): void;
   reject(error: unknown): void;
   handlers: JobHandlers;
-  /** Packed runs of profile levels that came ahead of an `open` answer, by column. */
+  /** Packed runs of profile levels that came ahead of an `open` or `reprofile` answer, by column. */
   levelRuns?: Map<number, PackedLevels[]>;
 }
 
@@ -112,7 +113,7 @@ export class WorkbenchClient {
       }
       case 'done':
         this.pending.delete(message.id);
-        pending.resolve(pending.levelRuns ? withLevelRuns(message.result as OpenedTable, pending.levelRuns) : message.result);
+        pending.resolve(pending.levelRuns ? withLevelRuns(message.result as OpenedTable | Reprofiled, pending.levelRuns) : message.result);
         return;
       case 'failed':
         this.pending.delete(message.id);
@@ -133,8 +134,8 @@ export class WorkbenchClient {
   }
 }
 
-/** An `open` answer with the level runs that came ahead of it given back to their profiles. */
-function withLevelRuns(table: OpenedTable, runs: ReadonlyMap<number, PackedLevels[]>): OpenedTable {
+/** An `open` or `reprofile` answer with the level runs that came ahead of it given back to their profiles. */
+function withLevelRuns<T extends OpenedTable | Reprofiled>(table: T, runs: ReadonlyMap<number, PackedLevels[]>): T {
   const profiles = table.profiles.map((profile, column) => {
     const packed = runs.get(column);
     return packed === undefined ? profile : withPackedLevels(profile, packed);

@@ -152,6 +152,21 @@ export interface CheckRequest {
   readonly recipe: Recipe;
 }
 
+/** The open table profiled and drafted again with other missing spellings (no reading again). */
+export interface ReprofileRequest {
+  readonly type: 'reprofile';
+  readonly slot: Slot;
+  readonly version: number;
+  /** Cell texts (after trimming) read as missing; the empty cell always is. */
+  readonly missingTokens: readonly string[];
+}
+
+export interface Reprofiled {
+  readonly profiles: readonly ColumnProfile[];
+  /** The recipe proposed under these spellings; they are in its `reading.missingTokens`. */
+  readonly draft: Recipe;
+}
+
 export interface CloseRequest {
   readonly type: 'close';
   readonly slot: Slot;
@@ -163,6 +178,7 @@ export interface Call {
   window: { request: WindowRequest; result: PreviewWindow };
   export: { request: ExportRequest; result: ExportSummary };
   check: { request: CheckRequest; result: ApplyReport };
+  reprofile: { request: ReprofileRequest; result: Reprofiled };
   close: { request: CloseRequest; result: null };
 }
 

@@ -171,6 +171,18 @@ export function createSession(post: Post): Session {
       return { result };
     },
 
+    async reprofile(request, context) {
+      const state = slotFor(request.slot, request.version);
+      context.progress('profiling', 0, null);
+      await breathe(context.signal);
+      const { table } = state;
+      const missingTokens = [...request.missingTokens];
+      const profiles = profileTable(table, { missingTokens });
+      const draft = draftRecipe(profiles, { file: state.fileName, rows: table.rowCount }, { missingTokens, delimiter: null });
+      if (context.signal.aborted) throw new Cancelled();
+      return { result: { profiles: sendLongLevelsAhead(profiles, context), draft } };
+    },
+
     async close(request) {
       slots.delete(request.slot);
       return { result: null };

@@ -491,6 +491,38 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await shot('number-format');
   });
 
+  it('notes a spelling read as missing that fills most of a column, reads it as a value on request, and keeps the spellings for the file', async () => {
+    // An invented strike log: "None" says there was no damage (4 of 6 rows); -999 is a sensor's "no reading".
+    const log = 'strike,damage,reading\nS1,None,21.5\nS2,None,-999\nS3,Minor,19\nS4,None,-999\nS5,None,20\nS6,Severe,22\n';
+    await dropFile('strikes (invented).csv', log);
+    await waitForFile('strikes (invented).csv', 6);
+    const doubt = page.getByRole('status').filter({ hasText: '“None” may be a value of damage' });
+    await expect.poll(() => doubt.textContent()).toContain('It is read as missing in 4 cells, more than all of the column\'s values together (2 cells).');
+    // With "None" missing, damage has two values, Minor and Severe: a binary column (Severe, the later seen of equal counts, coded 1) and its missing indicator.
+    expect((await outputHeaders()).filter((h) => h.startsWith('damage'))).toEqual(['damage=Severe', 'damage (missing)']);
+    await doubt.getByRole('button', { name: 'Read “None” as a value' }).click();
+    await expect.poll(async () => (await outputHeaders()).filter((h) => h.startsWith('damage'))).toEqual(['damage=None', 'damage=Minor', 'damage=Severe']);
+    expect(await previewCell(0, 'damage=None')).toBe('1');
+
+    await page.getByRole('tab', { name: /Missing values/ }).click();
+    await page.getByLabel('Also read as missing').fill('-999');
+    await page.getByRole('button', { name: 'Read as missing' }).click();
+    const met = page.getByRole('list', { name: 'Missing spellings in this file' });
+    await expect.poll(() => met.textContent()).toContain('-9992 cells');
+    expect(await met.textContent()).not.toContain('None');
+    await shot('missing-spellings');
+    const { text } = await downloadText(() => page.getByRole('button', { name: 'Recipe', exact: true }).click());
+    expect(JSON.parse(text).reading.missingTokens).toEqual(['NA', 'N/A', 'n/a', '#N/A', 'NaN', 'null', 'NULL', '.', '?', '-', '-999']);
+
+    // The same file after a reload: read with the spellings chosen for it.
+    await page.reload();
+    await waitForFile('household-energy-survey (invented).csv', 2000);
+    await dropFile('strikes (invented).csv', log);
+    await waitForFile('strikes (invented).csv', 6);
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'Restored' }).first().textContent()).toContain('Restored the missing spellings saved for this file');
+    await expect.poll(async () => (await outputHeaders()).filter((h) => h.startsWith('damage'))).toEqual(['damage=None', 'damage=Minor', 'damage=Severe']);
+  });
+
   it('raised no script errors and sent nothing beyond localhost', () => {
     expect(pageErrors).toEqual([]);
     const outside = requests.filter((url) => !url.startsWith(app.url) && !url.startsWith('blob:') && !url.startsWith('data:'));

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { decide, type Decision } from '../../src/core/decisions.ts';
 import { encodeToCsv } from '../../src/core/encode-csv.ts';
 import { readTable } from '../../src/core/read-table.ts';
-import type { Recipe } from '../../src/core/recipe.ts';
+import { DEFAULT_MISSING_TOKENS, type Recipe } from '../../src/core/recipe.ts';
 import { WorkbenchClient } from '../../src/worker/client.ts';
 import { createInPagePort } from '../../src/worker/in-page-port.ts';
 import { Cancelled, WorkerProblem, type FromWorker, type OpenedTable } from '../../src/worker/protocol.ts';
@@ -216,6 +216,35 @@ describe('a recipe made in the page', () => {
     const report = await client.call('check', { slot: 'reuse', version: reuse.version, recipe });
     expect(report.missingColumns).toEqual([]);
     expect(report.fits).toBe(true);
+  });
+});
+
+describe('reading the open file with other missing spellings', () => {
+  // An invented damage log: "None" says there was no damage; -999 is a sensor's "no reading".
+  const LOG = 'strike,damage,reading\nS1,None,21.5\nS2,None,-999\nS3,Minor,19\nS4,None,-999\nS5,None,20\nS6,Severe,22\n';
+
+  it('profiles and drafts the table again without reading it, the spellings in the recipe', async () => {
+    const client = newClient();
+    const opened = await openSmall(client, LOG, 'log.csv');
+    expect(opened.profiles.map((p) => p.missing)).toEqual([0, 4, 0]);
+    const tokens = [...DEFAULT_MISSING_TOKENS.filter((t) => t !== 'None'), '-999'];
+    const again = await client.call('reprofile', { slot: 'work', version: opened.version, missingTokens: tokens });
+    expect(again.profiles.map((p) => p.missing)).toEqual([0, 0, 2]);
+    expect(again.profiles[1]?.levels?.map((l) => [l.value, l.count])).toEqual([['None', 4], ['Minor', 1], ['Severe', 1]]);
+    expect(again.draft.reading.missingTokens).toEqual(tokens);
+    // The table is the one read before: the preview still answers for its version.
+    await client.call('use-recipe', { slot: 'work', version: opened.version, revision: 1, recipe: again.draft });
+    await expect(client.call('reprofile', { slot: 'work', version: opened.version + 99, missingTokens: tokens })).rejects.toBeInstanceOf(Cancelled);
+  });
+
+  it('sends a long list of levels ahead, packed, as the first reading did', async () => {
+    const rows = Array.from({ length: 30_000 }, (_, i) => `K${i},${i % 2 === 0 ? 'None' : 'hit'}`);
+    const client = newClient();
+    const opened = await openSmall(client, `key,damage\n${rows.join('\n')}\n`, 'keys.csv');
+    const again = await client.call('reprofile', { slot: 'work', version: opened.version, missingTokens: ['NA'] });
+    expect(again.profiles[0]?.levels?.length).toBe(30_000);
+    expect(again.profiles[0]?.levels?.[29_999]).toEqual(opened.profiles[0]?.levels?.[29_999]);
+    expect(again.profiles[1]?.levels?.map((l) => [l.value, l.count])).toEqual([['None', 15_000], ['hit', 15_000]]);
   });
 });
 

@@ -5,14 +5,16 @@
  */
 import { useCallback, useEffect, useMemo, useReducer, useRef, useState } from 'react';
 import type { Decision } from '../../core/decisions.ts';
+import { DEFAULT_MISSING_TOKENS, sameMissingTokens, spellingsOutnumberingValues } from '../../core/missing.ts';
+import type { ColumnProfile } from '../../core/profile.ts';
 import type { Recipe } from '../../core/recipe.ts';
 import { DEMO_ROW_COUNT } from '../../demo/household-energy.ts';
 import { startWorkbenchWorker, type WorkbenchClient } from '../../worker/client.ts';
-import { Cancelled, WorkerProblem, type OpenedTable, type Problem, type RecipeInUse, type TableSource } from '../../worker/protocol.ts';
+import { Cancelled, WorkerProblem, type OpenedTable, type Problem, type RecipeInUse, type Reprofiled, type TableSource } from '../../worker/protocol.ts';
 import { formatCount } from '../columns/labels.ts';
 import { readingNotices } from '../files/reading-notices.ts';
 import { EMPTY_HISTORY, historyReducer } from './history.ts';
-import { browserStore, forgetDecisions, loadDecisions, saveDecisions } from './persist.ts';
+import { browserStore, forgetDecisions, loadDecisions, loadMissingTokens, saveDecisions } from './persist.ts';
 import { useTask } from './useTask.ts';
 
 export interface Notice {
@@ -88,6 +90,56 @@ export function useWorkbench() {
 
   const selectedRef = useRef(selected);
   selectedRef.current = selected;
+  const tableRef = useRef(table);
+  tableRef.current = table;
+  const decisionsRef = useRef<readonly Decision[]>([]);
+  decisionsRef.current = history.present?.decisions ?? [];
+
+  /** The open table profiled and drafted again with `tokens` as its missing spellings; null when that did not happen. */
+  const reprofile = useCallback(
+    async (opened: OpenedTable, tokens: readonly string[], label: string): Promise<Reprofiled | null> => {
+      try {
+        return await run(label, (onProgress) => client.start('reprofile', { slot: 'work', version: opened.version, missingTokens: tokens }, { onProgress }));
+      } catch (error) {
+        if (!(error instanceof Cancelled)) notify(errorNotice(error, 'The missing spellings were not changed'));
+        return null;
+      }
+    },
+    [client, notify, run],
+  );
+
+  // Set below; the notices' buttons call it.
+  const readMissingAsRef = useRef<(tokens: readonly string[], replay?: readonly Decision[]) => Promise<void>>(async () => undefined);
+
+  /** A spelling read as missing in more cells of a column than its values may be a value: say so, with a button. */
+  const spellingNotices = useCallback(
+    (profiles: readonly ColumnProfile[], tokens: readonly string[]) => {
+      for (const found of spellingsOutnumberingValues(profiles).slice(0, 2)) {
+        notify({
+          tone: 'warning',
+          title: `“${found.spelling}” may be a value of ${found.column}`,
+          detail: `It is read as missing in ${formatCount(found.cells)} cells, more than all of the column's values together (${formatCount(found.valueCells)} cells).`,
+          action: { label: `Read “${found.spelling}” as a value`, run: () => void readMissingAsRef.current(tokens.filter((t) => t !== found.spelling)) },
+        });
+      }
+    },
+    [notify],
+  );
+
+  const readMissingAs = useCallback(
+    async (tokens: readonly string[], replay: readonly Decision[] = decisionsRef.current) => {
+      const current = tableRef.current;
+      if (current === null) return;
+      const again = await reprofile(current, tokens, 'Reading the missing values again');
+      if (again === null) return;
+      setTable({ ...current, profiles: again.profiles, draft: again.draft });
+      // The decisions made so far are made again on the new proposal; any that no longer fits is named.
+      dispatch({ type: 'start', recipe: again.draft, profiles: again.profiles, replay });
+      spellingNotices(again.profiles, tokens);
+    },
+    [reprofile, spellingNotices],
+  );
+  readMissingAsRef.current = readMissingAs;
 
   const open = useCallback(
     async (source: TableSource) => {
@@ -103,33 +155,48 @@ export function useWorkbench() {
       }
       if (opened.draft === null) return;
       const replay = loadDecisions(store, opened.fingerprint);
+      // Spellings changed when the person last worked on this file: the proposal is made with them again.
+      const savedTokens = loadMissingTokens(store, opened.fingerprint);
+      let tokensRestored = false;
+      if (savedTokens !== null && !sameMissingTokens(savedTokens, opened.draft.reading.missingTokens)) {
+        const again = await reprofile(opened, savedTokens, 'Reading with the missing spellings saved for this file');
+        if (again !== null) {
+          opened = { ...opened, profiles: again.profiles, draft: again.draft };
+          tokensRestored = true;
+        }
+      }
+      const draft = opened.draft;
+      if (draft === null) return;
       // Messages about the previous file no longer apply.
       setNotices([]);
       setTable(opened);
       setShown(null);
       setLastFile(source.kind === 'file' ? source.file : null);
-      dispatch({ type: 'start', recipe: opened.draft, profiles: opened.profiles, replay });
+      dispatch({ type: 'start', recipe: draft, profiles: opened.profiles, replay });
       const keep = selectedRef.current !== null && opened.names.includes(selectedRef.current);
       setSelected(keep ? selectedRef.current : (opened.names[0] ?? null));
-      if (replay.length > 0) {
-        const draft = opened.draft;
+      if (replay.length > 0 || tokensRestored) {
         const { fingerprint, profiles } = opened;
+        const decisions = replay.length === 0 ? '' : `${replay.length} ${replay.length === 1 ? 'decision' : 'decisions'}`;
+        const what = tokensRestored ? (decisions === '' ? 'the missing spellings' : `the missing spellings and ${decisions}`) : decisions;
         notify({
           tone: 'info',
-          title: `Restored ${replay.length} ${replay.length === 1 ? 'decision' : 'decisions'} saved for this file`,
+          title: `Restored ${what} saved for this file`,
           detail: 'They were kept in this browser when you last worked on the same file.',
           action: {
             label: 'Start from the proposal',
             run: () => {
               forgetDecisions(store, fingerprint);
-              dispatch({ type: 'start', recipe: draft, profiles });
+              if (tokensRestored) void readMissingAsRef.current(DEFAULT_MISSING_TOKENS, []);
+              else dispatch({ type: 'start', recipe: draft, profiles });
             },
           },
         });
       }
       for (const notice of readingNotices(opened)) notify(notice);
+      spellingNotices(opened.profiles, draft.reading.missingTokens);
     },
-    [client, notify, run, store],
+    [client, notify, run, store, reprofile, spellingNotices],
   );
 
   const openFile = useCallback((file: File, sheet?: string) => open({ kind: 'file', file, sheet: sheet ?? null }), [open]);
@@ -143,7 +210,9 @@ export function useWorkbench() {
   const redo = useCallback(() => dispatch({ type: 'redo' }), []);
 
   useEffect(() => {
-    if (table && history.present) saveDecisions(store, table.fingerprint, history.present.decisions);
+    if (!table || !history.present) return;
+    const tokens = history.present.recipe.reading.missingTokens;
+    saveDecisions(store, table.fingerprint, history.present.decisions, new Date(), sameMissingTokens(tokens, DEFAULT_MISSING_TOKENS) ? null : tokens);
   }, [store, table, history.present]);
 
   useEffect(() => {
@@ -193,6 +262,8 @@ export function useWorkbench() {
     decide: decideNow,
     undo,
     redo,
+    /** Profiles the open file again with these missing spellings, and makes the decisions so far again. */
+    readMissingAs,
   };
 }
 

@@ -13,7 +13,7 @@ import { profileTable } from '../../../src/core/profile.ts';
 import { readTable } from '../../../src/core/read-table.ts';
 import { DEFAULT_MISSING_TOKENS, type NominalColumn } from '../../../src/core/recipe.ts';
 import { EMPTY_HISTORY, HISTORY_LIMIT, historyReducer, redoLabel, undoLabel, type HistoryAction, type RecipeHistory } from '../../../src/ui/state/history.ts';
-import { loadDecisions, saveDecisions, SAVED_FILES_LIMIT, type KeyValueStore } from '../../../src/ui/state/persist.ts';
+import { loadDecisions, loadMissingTokens, saveDecisions, SAVED_FILES_LIMIT, type KeyValueStore } from '../../../src/ui/state/persist.ts';
 
 const CSV = 'colour,size,score\nred,S,1\nblue,M,2\nred,L,\ngreen,M,4\n';
 const table = readTable(new TextEncoder().encode(CSV)).table;
@@ -163,6 +163,22 @@ describe('saving decisions per file', () => {
     expect(store.getItem('levelwise.decisions.v1:fp')).toBeNull();
     store.setItem('levelwise.decisions.v1:bad', '{not json');
     expect(loadDecisions(store, 'bad')).toEqual([]);
+  });
+
+  it('keeps the missing spellings beside the decisions, even with no decision, and forgets them with the decisions', () => {
+    const tokens = ['NA', '-999'];
+    saveDecisions(store, 'fp', [], new Date(), tokens);
+    expect(loadMissingTokens(store, 'fp')).toEqual(tokens);
+    expect(loadDecisions(store, 'fp')).toEqual([]);
+    saveDecisions(store, 'fp', [toDummy], new Date(), tokens);
+    expect([loadDecisions(store, 'fp'), loadMissingTokens(store, 'fp')]).toEqual([[toDummy], tokens]);
+    // The usual spellings are not stored (null): a file opened again is then read with whatever the usual ones are by then.
+    saveDecisions(store, 'fp', [toDummy]);
+    expect(loadMissingTokens(store, 'fp')).toBeNull();
+    saveDecisions(store, 'fp', []);
+    expect(store.getItem('levelwise.decisions.v1:fp')).toBeNull();
+    store.setItem('levelwise.decisions.v1:odd', JSON.stringify({ decisions: [], missingTokens: ['NA', 7] }));
+    expect(loadMissingTokens(store, 'odd')).toBeNull();
   });
 
   it('remembers at most the most recent files', () => {
