@@ -78,6 +78,15 @@ function writtenLike(format: NumberFormat): string {
   return `, read from text written like ${example}${format.symbol === undefined ? '' : ` (the number as written, without “${format.symbol.text}”)`}`;
 }
 
+/** Which cells were read as missing: the reader of the codebook must know that "None" or "-999" meant no value. */
+export function missingSentence(recipe: Recipe): string {
+  const tokens = recipe.reading.missingTokens;
+  if (tokens.length === 0) return 'A cell counts as missing when it is empty.';
+  const quoted = tokens.map((t) => `“${t}”`);
+  const list = quoted.length === 1 ? quoted[0] : `${quoted.slice(0, -1).join(', ')} or ${quoted.at(-1)}`;
+  return `A cell counts as missing when it is empty or, spaces around it aside, spelled ${list}.`;
+}
+
 function numberText(n: number): string {
   return Object.is(n, -0) ? '0' : String(n);
 }
@@ -90,7 +99,7 @@ export function codebookMarkdown(recipe: Recipe): string {
   const lines = [
     `# Codebook${recipe.source.file ? ` for ${escapeMarkdown(recipe.source.file)}` : ''}`,
     '',
-    `Made by Levelwise from a recipe fitted on ${countText(recipe.source.rows)} rows.`,
+    `Made by Levelwise from a recipe fitted on ${countText(recipe.source.rows)} rows. ${escapeMarkdown(missingSentence(recipe))}`,
     '',
     '| output column | source column | level | encoding | meaning |',
     '|---|---|---|---|---|',
@@ -112,7 +121,7 @@ export function codebookHtml(recipe: Recipe): string {
 <style>body{font:14px system-ui,sans-serif;margin:2rem}table{border-collapse:collapse}td,th{border:1px solid #999;padding:4px 8px;text-align:left;vertical-align:top}</style>
 </head><body>
 <h1>Codebook${recipe.source.file ? ` for ${escapeHtml(recipe.source.file)}` : ''}</h1>
-<p>Made by Levelwise from a recipe fitted on ${countText(recipe.source.rows)} rows.</p>
+<p>Made by Levelwise from a recipe fitted on ${countText(recipe.source.rows)} rows. ${escapeHtml(missingSentence(recipe))}</p>
 <table><thead><tr><th>output column</th><th>source column</th><th>level</th><th>encoding</th><th>meaning</th></tr></thead>
 <tbody>
 ${rows}
