@@ -76,11 +76,26 @@ export function spellingsOutnumberingValues(profiles: readonly ColumnProfile[]):
   return found;
 }
 
-/** Cells per missing spelling over every column ('' for the empty cell), most frequent first. */
-export function missingSpellingCells(profiles: readonly ColumnProfile[]): { readonly spelling: string; readonly cells: number }[] {
-  const cells = new Map<string, number>();
-  for (const profile of profiles) for (const { value, count } of profile.missingSpellings) cells.set(value, (cells.get(value) ?? 0) + count);
-  return [...cells].map(([spelling, n]) => ({ spelling, cells: n })).sort((a, b) => b.cells - a.cells);
+/** A missing spelling met in a file: its cells over every column, and the columns it is in (file order). */
+export interface SpellingCells {
+  /** '' for the empty cell. */
+  readonly spelling: string;
+  readonly cells: number;
+  readonly columns: readonly string[];
+}
+
+/** Every missing spelling met in the profiled columns, most cells first. */
+export function missingSpellingCells(profiles: readonly ColumnProfile[]): SpellingCells[] {
+  const met = new Map<string, { cells: number; columns: string[] }>();
+  for (const profile of profiles) {
+    for (const { value, count } of profile.missingSpellings) {
+      let entry = met.get(value);
+      if (entry === undefined) met.set(value, (entry = { cells: 0, columns: [] }));
+      entry.cells += count;
+      entry.columns.push(profile.name);
+    }
+  }
+  return [...met].map(([spelling, { cells, columns }]) => ({ spelling, cells, columns })).sort((a, b) => b.cells - a.cells);
 }
 
 /** Whether two lists of missing spellings read the same cells as missing (order and repeats aside). */

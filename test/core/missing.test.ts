@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { missingTest, spellingsOutnumberingValues } from '../../src/core/missing.ts';
+import { missingSpellingCells, missingTest, sameMissingTokens, spellingsOutnumberingValues } from '../../src/core/missing.ts';
 import { profileTable } from '../../src/core/profile.ts';
 import { readTable, tableFromRows } from '../../src/core/read-table.ts';
 import { DEFAULT_MISSING_TOKENS } from '../../src/core/recipe.ts';
@@ -91,5 +91,23 @@ describe('spellingsOutnumberingValues: missing spellings that may be values', ()
     expect(none).toBeGreaterThan(values);
     const found = spellingsOutnumberingValues(profileTable(readTable(new TextEncoder().encode(text)).table, { missingTokens: DEFAULT_MISSING_TOKENS }));
     expect(found).toContainEqual({ column: 'Effect Amount of damage', spelling: 'None', cells: none, valueCells: values });
+  });
+});
+
+describe('missingSpellingCells and sameMissingTokens', () => {
+  it('adds up each spelling over the columns, naming them in file order, most cells first', () => {
+    const rows = [['a', 'b', 'c'], ['NA', '', '?'], ['NA', 'NA', '?'], ['1', '?', '?'], ['2', '3', '4']];
+    const profiles = profileTable(tableFromRows(rows).table, { missingTokens: DEFAULT_MISSING_TOKENS });
+    // "?" 1 in b + 3 in c; "NA" 2 in a + 1 in b; the empty cell once in b.
+    expect(missingSpellingCells(profiles)).toEqual([
+      { spelling: '?', cells: 4, columns: ['b', 'c'] },
+      { spelling: 'NA', cells: 3, columns: ['a', 'b'] },
+      { spelling: '', cells: 1, columns: ['b'] },
+    ]);
+  });
+
+  it('compares lists as the cells they read as missing: order, repeats and spaces aside', () => {
+    expect(sameMissingTokens(['NA', '-999'], [' -999', 'NA', 'NA'])).toBe(true);
+    expect(sameMissingTokens(['NA'], ['NA', 'na'])).toBe(false);
   });
 });

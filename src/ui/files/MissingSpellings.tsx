@@ -4,7 +4,7 @@
  * be values in disguise). Changing the list profiles the file again (useWorkbench.readMissingAs).
  */
 import { useId, useState, type FormEvent } from 'react';
-import { DEFAULT_MISSING_TOKENS, missingSpellingCells, sameMissingTokens, spellingsOutnumberingValues } from '../../core/missing.ts';
+import { DEFAULT_MISSING_TOKENS, missingSpellingCells, sameMissingTokens, spellingsOutnumberingValues, type SpellingCells } from '../../core/missing.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
 import { countOf, formatCount } from '../columns/labels.ts';
 import '../columns/fields.css';
@@ -23,7 +23,8 @@ export function MissingSpellings({ profiles, tokens, busy, onChange }: MissingSp
   const id = useId();
   const [typed, setTyped] = useState('');
   const [error, setError] = useState<string | null>(null);
-  const cells = new Map(missingSpellingCells(profiles).map((c) => [c.spelling, c.cells]));
+  const spelled = new Map(missingSpellingCells(profiles).map((c) => [c.spelling, c]));
+  const cells = new Map([...spelled].map(([spelling, c]) => [spelling, c.cells]));
   const outnumbering = spellingsOutnumberingValues(profiles);
   const usual = sameMissingTokens(tokens, DEFAULT_MISSING_TOKENS);
   // The spellings met, most cells first (a stable sort keeps the list's order between equals).
@@ -63,13 +64,13 @@ export function MissingSpellings({ profiles, tokens, busy, onChange }: MissingSp
       <ul className="lw-missing__list" aria-label="Missing spellings in this file">
         <li className="lw-missing__item">
           <span className="lw-missing__spelling lw-missing__spelling--empty">empty cell</span>
-          <span className="lw-missing__cells">{cellsText(cells.get('') ?? 0)}</span>
+          <span className="lw-missing__cells">{whereText(spelled.get(''))}</span>
           <span className="lw-missing__fixed">always missing</span>
         </li>
         {met.map((token) => (
           <li key={token} className="lw-missing__item">
             <code className="lw-missing__spelling">{token}</code>
-            <span className="lw-missing__cells">{cellsText(cells.get(token) ?? 0)}</span>
+            <span className="lw-missing__cells">{whereText(spelled.get(token))}</span>
             <button type="button" className="lw-button" disabled={busy} aria-label={`Read “${token}” as a value`} onClick={() => drop(token)}>
               Read as a value
             </button>
@@ -130,6 +131,13 @@ export function MissingSpellings({ profiles, tokens, busy, onChange }: MissingSp
   );
 }
 
-function cellsText(n: number): string {
-  return n === 0 ? 'none in this file' : countOf(n, 'cell', 'cells');
+/** Shown columns per spelling, before "and N more". */
+const SHOWN_COLUMNS = 3;
+
+/** "88 cells in satisfaction, comment" */
+function whereText(met: SpellingCells | undefined): string {
+  if (met === undefined || met.cells === 0) return 'none in this file';
+  const shown = met.columns.slice(0, SHOWN_COLUMNS).join(', ');
+  const more = met.columns.length > SHOWN_COLUMNS ? ` and ${countOf(met.columns.length - SHOWN_COLUMNS, 'more column', 'more columns')}` : '';
+  return `${countOf(met.cells, 'cell', 'cells')} in ${shown}${more}`;
 }

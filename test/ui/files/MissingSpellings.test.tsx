@@ -32,14 +32,22 @@ function shown(tokens: readonly string[] = DEFAULT_MISSING_TOKENS, busy = false)
 }
 
 describe('the missing spellings of the open file', () => {
+  it('names at most three columns a spelling is in, then how many more', () => {
+    const wide = [['a', 'b', 'c', 'd', 'e'], ['NA', 'NA', 'NA', 'NA', 'x'], ['1', '2', '3', '4', 'NA']];
+    const profiles = profileTable(tableFromRows(wide).table, { missingTokens: DEFAULT_MISSING_TOKENS });
+    render(<MissingSpellings profiles={profiles} tokens={DEFAULT_MISSING_TOKENS} busy={false} onChange={() => undefined} />);
+    const met = screen.getByRole('list', { name: 'Missing spellings in this file' });
+    expect(within(met).getAllByRole('listitem')[1]?.textContent).toBe('NA5 cells in a, b, c and 2 more columnsRead as a value');
+  });
+
   it('lists the spellings met with their cells, the others apart, and names the one that outnumbers a column', () => {
     shown();
     const met = screen.getByRole('list', { name: 'Missing spellings in this file' });
     // empty 1 (S4's reading), "None" 4, "n/a" 1.
     expect(within(met).getAllByRole('listitem').map((li) => li.textContent)).toEqual([
-      'empty cell1 cellalways missing',
-      'None4 cellsRead as a value',
-      'n/a1 cellRead as a value',
+      'empty cell1 cell in readingalways missing',
+      'None4 cells in damageRead as a value',
+      'n/a1 cell in readingRead as a value',
     ]);
     const unmet = screen.getByRole('list', { name: 'Missing spellings not met in this file' });
     expect(within(unmet).getAllByRole('listitem').map((li) => li.textContent?.replace('×', ''))).toEqual(DEFAULT_MISSING_TOKENS.filter((t) => t !== 'None' && t !== 'n/a'));
