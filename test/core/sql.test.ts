@@ -459,6 +459,33 @@ describe('numbers are read as numbers.ts reads them', () => {
   }
 });
 
+describe('missing spellings chosen by the person', () => {
+  // "None" read as a value; -999 (a sensor's "no reading"), a spelling with a quote and a word added.
+  const tokens = [...DEFAULT_MISSING_TOKENS.filter((t) => t !== 'None'), '-999', "n'a", 'unknown'];
+  const cells = ['1', '-999', ' -999 ', '-999.0', "n'a", 'None', 'unknown', '', '2', 'NA'];
+  for (const engineName of ENGINE_NAMES) {
+    it(`${engineName}: a number column reads "-999" as missing but "-999.0" as a number, as the core does`, async () => {
+      const recipe = { ...numberRecipe({ decimal: '.', group: '' }), reading: { delimiter: null, missingTokens: tokens } };
+      const compared = await compareOnEngine(engineNamed(engineName), recipe, oneColumn('x', cells));
+      expect(compared.cells).toBe(cells.length * 2);
+      // By hand, the missing indicator (x (missing)): -999 and " -999 " missing, -999.0 a number; "n'a", "unknown", "" and "NA" missing; "None" not a number (missing too).
+      expect(coreAnswer(recipe, oneColumn('x', cells)).rows.map((row) => row[1])).toEqual([0, 1, 1, 0, 1, 1, 1, 1, 0, 1]);
+    });
+    it(`${engineName}: a text column keeps "None" as a level`, async () => {
+      const table = oneColumn('v', ['None', 'Minor', 'None', '-999', "n'a", 'Severe', 'None']);
+      const profiles = profileTable(table, { missingTokens: tokens });
+      const decisions: readonly Decision[] = [
+        { type: 'set-level', column: 'v', level: 'nominal' },
+        { type: 'set-level', column: 'n', level: 'excluded' },
+      ];
+      const recipe = decisions.reduce((r, d) => decide(r, d, profiles), draftRecipe(profiles, { file: null, rows: table.rowCount }, { missingTokens: tokens }));
+      expect(recipe.columns[1]?.level === 'nominal' && recipe.columns[1].levels.map((l) => l.value)).toEqual(['None', 'Minor', 'Severe', '(missing)']);
+      const compared = await compareOnEngine(engineNamed(engineName), recipe, table);
+      expect(compared.cells).toBeGreaterThan(0);
+    });
+  }
+});
+
 /** Draft a nominal recipe for one column of `fitCells`, with the given cleaning and rare/unseen rules. */
 function levelRecipe(fitCells: readonly string[], decisions: readonly Decision[]): Recipe {
   const table = oneColumn('v', fitCells);
