@@ -7,7 +7,7 @@
 import { DEFAULT_MISSING_TOKENS, spellingsOutnumberingValues } from '../core/missing.ts';
 import type { ColumnProfile } from '../core/profile.ts';
 import type { OptionSpec, ParsedArgs } from './args.ts';
-import { count } from './common.ts';
+import { plural } from './common.ts';
 import { usageFailure } from './failure.ts';
 
 export const MISSING_OPTIONS: readonly OptionSpec[] = [
@@ -34,13 +34,23 @@ export function missingSpellings(verb: string, args: ParsedArgs): string[] {
   return [...kept, ...added.filter((s, i) => !kept.includes(s) && added.indexOf(s) === i)];
 }
 
+/** Notes shown one by one; past them, one line counts the rest (a sheet of mostly empty "NA" columns would fill the screen). */
+const SHOWN_NOTES = 5;
+
 /** Notes on the spellings read as missing in more cells of a column than its values; see core spellingsOutnumberingValues. */
 export function outnumberingNotes(profiles: readonly ColumnProfile[]): string[] {
-  return spellingsOutnumberingValues(profiles).map(
+  const found = spellingsOutnumberingValues(profiles);
+  const notes = found.slice(0, SHOWN_NOTES).map(
     ({ column, spelling, cells, valueCells }) =>
-      `${column}: "${spelling}" is read as missing in ${count(cells)} cells, more than all of its values together (${count(valueCells)} cells). ` +
+      `${column}: "${spelling}" is read as missing in ${plural(cells, 'cell')}, more than all of its values together (${plural(valueCells, 'cell')}). ` +
       `If "${spelling}" is a value here, run again with --not-missing ${shellWord(spelling)}.`,
   );
+  const rest = found.slice(SHOWN_NOTES);
+  if (rest.length > 0) {
+    const columns = [...new Set(rest.map((f) => f.column))];
+    notes.push(`… and in ${plural(columns.length, 'more column')} (${columns.slice(0, SHOWN_NOTES).join(', ')}${columns.length > SHOWN_NOTES ? ', …' : ''}) a missing spelling fills more cells than the values do.`);
+  }
+  return notes;
 }
 
 /** A spelling as one shell word: quoted when it holds anything but letters, digits and . _ / - */

@@ -409,6 +409,17 @@ describe('missing spellings: --missing and --not-missing', () => {
     );
   });
 
+  it('names five such columns, then counts the rest', () => {
+    // Eight invented columns, each "NA" in 3 of 4 rows.
+    const header = Array.from({ length: 8 }, (_, i) => `c${i + 1}`);
+    const rows = [header.map(() => 'NA'), header.map(() => 'NA'), header.map(() => 'NA'), header.map((_, i) => String(i))];
+    const run = levelwise(['profile', file('mostly-na.csv', [header, ...rows].map((r) => r.join(',')).join('\n') + '\n')]);
+    const lines = stderrLines(run);
+    expect(lines).toHaveLength(6);
+    expect(lines[0]).toBe('levelwise profile: c1: "NA" is read as missing in 3 cells, more than all of its values together (1 cell). If "NA" is a value here, run again with --not-missing NA.');
+    expect(lines[5]).toBe('levelwise profile: … and in 3 more columns (c6, c7, c8) a missing spelling fills more cells than the values do.');
+  });
+
   it('refuses the empty cell, a spelling not on the list, and one given to both options', () => {
     const input = file('spellings3.csv', csv);
     expectOneLineError(levelwise(['draft', input, '--not-missing', 'Unknown']), /--not-missing Unknown: "Unknown" is not read as missing to begin with\. The spellings read as missing are "NA", .*"-" and the empty cell\./);

@@ -11,7 +11,7 @@ import type { Recipe } from '../../core/recipe.ts';
 import { DEMO_ROW_COUNT } from '../../demo/household-energy.ts';
 import { startWorkbenchWorker, type WorkbenchClient } from '../../worker/client.ts';
 import { Cancelled, WorkerProblem, type OpenedTable, type Problem, type RecipeInUse, type Reprofiled, type TableSource } from '../../worker/protocol.ts';
-import { formatCount } from '../columns/labels.ts';
+import { countOf, formatCount } from '../columns/labels.ts';
 import { readingNotices } from '../files/reading-notices.ts';
 import { EMPTY_HISTORY, historyReducer } from './history.ts';
 import { browserStore, forgetDecisions, loadDecisions, loadMissingTokens, saveDecisions } from './persist.ts';
@@ -118,7 +118,7 @@ export function useWorkbench() {
         notify({
           tone: 'warning',
           title: `“${found.spelling}” may be a value of ${found.column}`,
-          detail: `It is read as missing in ${formatCount(found.cells)} cells, more than all of the column's values together (${formatCount(found.valueCells)} cells).`,
+          detail: `It is read as missing in ${countOf(found.cells, 'cell', 'cells')}, more than all of the column's values together (${countOf(found.valueCells, 'cell', 'cells')}).`,
           action: { label: `Read “${found.spelling}” as a value`, run: () => void readMissingAsRef.current(tokens.filter((t) => t !== found.spelling)) },
         });
       }
