@@ -53,12 +53,13 @@ export function MissingSpellings({ profiles, tokens, busy, onChange }: MissingSp
       </p>
       {outnumbering.length > 0 ? (
         <div className="lw-missing__doubts" role="note">
-          {outnumbering.map((o) => (
+          {outnumbering.slice(0, SHOWN_DOUBTS).map((o) => (
             <p key={`${o.column}\u0000${o.spelling}`}>
               “{o.spelling}” fills {countOf(o.cells, 'cell', 'cells')} of <strong>{o.column}</strong>, more than all of its values together ({formatCount(o.valueCells)}): it may be
               a value there.
             </p>
           ))}
+          {outnumbering.length > SHOWN_DOUBTS ? <p>… and {countOf(outnumbering.length - SHOWN_DOUBTS, 'more such column', 'more such columns')}.</p> : null}
         </div>
       ) : null}
       <ul className="lw-missing__list" aria-label="Missing spellings in this file">
@@ -130,6 +131,9 @@ export function MissingSpellings({ profiles, tokens, busy, onChange }: MissingSp
     </section>
   );
 }
+
+/** Spellings that may be values, named one by one before the rest are counted. */
+const SHOWN_DOUBTS = 5;
 
 /** Shown columns per spelling, before "and N more". */
 const SHOWN_COLUMNS = 3;

@@ -40,6 +40,17 @@ describe('the missing spellings of the open file', () => {
     expect(within(met).getAllByRole('listitem')[1]?.textContent).toBe('NA5 cells in a, b, c and 2 more columnsRead as a value');
   });
 
+  it('names five columns a spelling may be a value in, then counts the rest', () => {
+    const header = Array.from({ length: 7 }, (_, i) => `c${i + 1}`);
+    const rows = [header, header.map(() => 'NA'), header.map(() => 'NA'), header.map((_, i) => String(i))];
+    const profiles = profileTable(tableFromRows(rows).table, { missingTokens: DEFAULT_MISSING_TOKENS });
+    render(<MissingSpellings profiles={profiles} tokens={DEFAULT_MISSING_TOKENS} busy={false} onChange={() => undefined} />);
+    const lines = [...screen.getByRole('note').querySelectorAll('p')].map((p) => p.textContent);
+    expect(lines).toHaveLength(6);
+    expect(lines[0]).toBe('“NA” fills 2 cells of c1, more than all of its values together (1): it may be a value there.');
+    expect(lines[5]).toBe('… and 2 more such columns.');
+  });
+
   it('lists the spellings met with their cells, the others apart, and names the one that outnumbers a column', () => {
     shown();
     const met = screen.getByRole('list', { name: 'Missing spellings in this file' });
