@@ -24,12 +24,12 @@ export function MissingSpellings({ profiles, tokens, busy, onChange }: MissingSp
   const [typed, setTyped] = useState('');
   const [error, setError] = useState<string | null>(null);
   const spelled = new Map(missingSpellingCells(profiles).map((c) => [c.spelling, c]));
-  const cells = new Map([...spelled].map(([spelling, c]) => [spelling, c.cells]));
+  const cellsOf = (token: string): number => spelled.get(token)?.cells ?? 0;
   const outnumbering = spellingsOutnumberingValues(profiles);
   const usual = sameMissingTokens(tokens, DEFAULT_MISSING_TOKENS);
   // The spellings met, most cells first (a stable sort keeps the list's order between equals).
-  const met = tokens.filter((t) => (cells.get(t) ?? 0) > 0).sort((a, b) => (cells.get(b) ?? 0) - (cells.get(a) ?? 0));
-  const unmet = tokens.filter((t) => !((cells.get(t) ?? 0) > 0));
+  const met = tokens.filter((t) => cellsOf(t) > 0).sort((a, b) => cellsOf(b) - cellsOf(a));
+  const unmet = tokens.filter((t) => cellsOf(t) === 0);
   const drop = (token: string) => onChange(tokens.filter((t) => t !== token));
 
   const add = (event: FormEvent) => {

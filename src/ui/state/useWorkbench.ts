@@ -155,6 +155,8 @@ export function useWorkbench() {
       }
       if (opened.draft === null) return;
       const replay = loadDecisions(store, opened.fingerprint);
+      // Messages about the previous file no longer apply.
+      setNotices([]);
       // Spellings changed when the person last worked on this file: the proposal is made with them again.
       const savedTokens = loadMissingTokens(store, opened.fingerprint);
       let tokensRestored = false;
@@ -163,12 +165,16 @@ export function useWorkbench() {
         if (again !== null) {
           opened = { ...opened, profiles: again.profiles, draft: again.draft };
           tokensRestored = true;
+        } else {
+          notify({
+            tone: 'warning',
+            title: 'The missing spellings saved for this file were not used',
+            detail: `It is read with the usual ones. The saved list was: ${savedTokens.map((t) => `“${t}”`).join(', ')}; choose them again in the Missing values tab.`,
+          });
         }
       }
       const draft = opened.draft;
       if (draft === null) return;
-      // Messages about the previous file no longer apply.
-      setNotices([]);
       setTable(opened);
       setShown(null);
       setLastFile(source.kind === 'file' ? source.file : null);
