@@ -501,14 +501,23 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     // With "None" missing, damage has two values, Minor and Severe: a binary column (Severe, the later seen of equal counts, coded 1) and its missing indicator.
     expect((await outputHeaders()).filter((h) => h.startsWith('damage'))).toEqual(['damage=Severe', 'damage (missing)']);
     await doubt.getByRole('button', { name: 'Read “None” as a value' }).click();
-    await expect.poll(async () => (await outputHeaders()).filter((h) => h.startsWith('damage'))).toEqual(['damage=None', 'damage=Minor', 'damage=Severe']);
+    const damageHeaders = async () => (await outputHeaders()).filter((h) => h.startsWith('damage'));
+    await expect.poll(damageHeaders).toEqual(['damage=None', 'damage=Minor', 'damage=Severe']);
     expect(await previewCell(0, 'damage=None')).toBe('1');
+    // The change can be taken back from its notice, and made again.
+    const changed = page.getByRole('status').filter({ hasText: '“None” is read as a value now' });
+    await changed.getByRole('button', { name: 'Undo' }).click();
+    await expect.poll(damageHeaders).toEqual(['damage=Severe', 'damage (missing)']);
+    await page.getByRole('status').filter({ hasText: '“None” may be a value of damage' }).getByRole('button', { name: 'Read “None” as a value' }).click();
+    await expect.poll(damageHeaders).toEqual(['damage=None', 'damage=Minor', 'damage=Severe']);
 
     await page.getByRole('tab', { name: /Missing values/ }).click();
     await page.getByLabel('Also read as missing').fill('-999');
-    await page.getByRole('button', { name: 'Read as missing' }).click();
+    await page.getByRole('button', { name: 'Read as missing', exact: true }).click();
     const met = page.getByRole('list', { name: 'Missing spellings in this file' });
     await expect.poll(() => met.textContent()).toContain('-9992 cells');
+    // Only the latest change keeps its notice and its Undo.
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'now' }).allTextContents()).toEqual([expect.stringContaining('“-999” is read as missing now')]);
     expect(await met.textContent()).not.toContain('None');
     await shot('missing-spellings');
     const { text } = await downloadText(() => page.getByRole('button', { name: 'Recipe', exact: true }).click());

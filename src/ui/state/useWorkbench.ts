@@ -67,6 +67,18 @@ export function errorNotice(error: unknown, title: string): Omit<Notice, 'id'> {
   return { tone: 'error', title, detail: error instanceof Error ? error.message : String(error) };
 }
 
+/** A change of missing spellings in a few words: “None” is read as a value now; “-999” is read as missing now. */
+export function spellingChange(before: readonly string[], after: readonly string[]): string {
+  const quoted = (list: readonly string[]) => list.map((t) => `“${t}”`).join(', ');
+  const added = after.filter((t) => !before.includes(t));
+  const dropped = before.filter((t) => !after.includes(t));
+  const parts = [
+    ...(dropped.length === 0 ? [] : [`${quoted(dropped)} ${dropped.length === 1 ? 'is' : 'are'} read as ${dropped.length === 1 ? 'a value' : 'values'}`]),
+    ...(added.length === 0 ? [] : [`${quoted(added)} ${added.length === 1 ? 'is' : 'are'} read as missing`]),
+  ];
+  return parts.length === 0 ? 'The missing spellings were read again' : `${parts.join('; ')} now`;
+}
+
 export function useWorkbench() {
   const client = pageClient();
 
@@ -126,18 +138,32 @@ export function useWorkbench() {
     [notify],
   );
 
+  const changeNoticeRef = useRef<number | null>(null);
+  const tokensRef = useRef<readonly string[]>(DEFAULT_MISSING_TOKENS);
+  tokensRef.current = history.present?.recipe.reading.missingTokens ?? DEFAULT_MISSING_TOKENS;
+
   const readMissingAs = useCallback(
     async (tokens: readonly string[], replay: readonly Decision[] = decisionsRef.current) => {
       const current = tableRef.current;
       if (current === null) return;
+      const before = tokensRef.current;
       const again = await reprofile(current, tokens, 'Reading the missing values again');
       if (again === null) return;
       setTable({ ...current, profiles: again.profiles, draft: again.draft });
       // The decisions made so far are made again on the new proposal; any that no longer fits is named.
       dispatch({ type: 'start', recipe: again.draft, profiles: again.profiles, replay });
+      // The undo history starts again with the new proposal, so the change is undone from here; only
+      // the latest change keeps such a notice (an older one's Undo would bring back a list since changed).
+      if (changeNoticeRef.current !== null) dismiss(changeNoticeRef.current);
+      changeNoticeRef.current = notify({
+        tone: 'success',
+        title: spellingChange(before, tokens),
+        detail: 'The file was profiled again and your decisions made again on the new proposal.',
+        action: { label: 'Undo', run: () => void readMissingAsRef.current(before) },
+      });
       spellingNotices(again.profiles, tokens);
     },
-    [reprofile, spellingNotices],
+    [dismiss, notify, reprofile, spellingNotices],
   );
   readMissingAsRef.current = readMissingAs;
 
