@@ -95,11 +95,7 @@ export function createSession(post: Post): Session {
       if (request.draft) {
         context.progress('profiling', 0, null);
         await breathe(context.signal);
-        const missingTokens = request.missingTokens ?? DEFAULT_MISSING_TOKENS;
-        profiles = profileTable(table, { missingTokens });
-        // The delimiter is left to detection (null) rather than pinned to this file's: a recipe made on
-        // a comma file then still reads a semicolon or tab export of the same data.
-        draft = draftRecipe(profiles, { file: read.fileName, rows: table.rowCount }, { missingTokens, delimiter: null });
+        ({ profiles, draft } = proposal(table, read.fileName, request.missingTokens ?? DEFAULT_MISSING_TOKENS));
       }
       if (context.signal.aborted) throw new Cancelled();
       slots.set(request.slot, { version, table, fileName: read.fileName, plan: null, revision: -1, shownRows: null });
@@ -176,9 +172,7 @@ export function createSession(post: Post): Session {
       context.progress('profiling', 0, null);
       await breathe(context.signal);
       const { table } = state;
-      const missingTokens = [...request.missingTokens];
-      const profiles = profileTable(table, { missingTokens });
-      const draft = draftRecipe(profiles, { file: state.fileName, rows: table.rowCount }, { missingTokens, delimiter: null });
+      const { profiles, draft } = proposal(table, state.fileName, request.missingTokens);
       if (context.signal.aborted) throw new Cancelled();
       return { result: { profiles: sendLongLevelsAhead(profiles, context), draft } };
     },
@@ -229,6 +223,15 @@ export function createSession(post: Post): Session {
  * Posts each level list longer than PACK_ABOVE_LEVELS ahead, packed (the `levels` message), and
  * returns the profiles with those lists left empty for the `done` answer.
  */
+/** The table's profiles and the recipe proposed from them, reading `missingTokens` as missing. */
+function proposal(table: Table, fileName: string, missingTokens: readonly string[]): { profiles: ColumnProfile[]; draft: Recipe } {
+  const profiles = profileTable(table, { missingTokens });
+  // The delimiter is left to detection (null) rather than pinned to this file's: a recipe made on
+  // a comma file then still reads a semicolon or tab export of the same data.
+  const draft = draftRecipe(profiles, { file: fileName, rows: table.rowCount }, { missingTokens: [...missingTokens], delimiter: null });
+  return { profiles, draft };
+}
+
 export function sendLongLevelsAhead(profiles: readonly ColumnProfile[], context: Pick<Context, 'levels'>): ColumnProfile[] {
   return profiles.map((profile, column) => {
     const count = levelCount(profile);
