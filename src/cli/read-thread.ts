@@ -26,20 +26,20 @@
  * this file). The command line itself reads on threads only from its bundle (`canReadInThread`);
  * from its sources it reads on one, the reference the tests compare the threads with. After a
  * whole-table read, the threads also profile the columns kept as numbers, sharing them with this
- * thread as each comes free (`profiling`, NumberProfiles).
+ * thread as each comes free (`profiling`, core number-profiles.ts).
  */
 import { availableParallelism } from 'node:os';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { arrivedTable, crossingTable, tableBuffers, type NumberColumn, type Table } from '../core/columns.ts';
+import { arrivedTable, crossingTable, tableBuffers, type Table } from '../core/columns.ts';
 import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
 import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { rebaseRows, type SegmentResult } from '../core/read-segment.ts';
-import { concatColumns } from '../core/concat-tables.ts';
+import { NumberProfiles, profileNumberParts, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
-import { profileColumn, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
+import { profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
 
 const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
@@ -78,15 +78,7 @@ interface Settings {
 type ToReader =
   | { readonly type: 'start'; readonly id: number; readonly settings: Settings; readonly stopAt: number }
   | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest }
-  | {
-      readonly type: 'profile-parts';
-      readonly id: number;
-      /** One column's parts in file order, joined there as the table's column is joined here. */
-      readonly parts: readonly NumberColumn[];
-      readonly rowCounts: readonly number[];
-      readonly index: number;
-      readonly options: ProfileOptions;
-    };
+  | ({ readonly type: 'profile-parts'; readonly id: number } & NumberPartsRequest);
 
 type FromReader =
   | { readonly type: 'batch'; readonly id: number; readonly table: Table; readonly firstRow: number; readonly bytesRead: number }
@@ -216,7 +208,9 @@ export async function readTableInThreads(
   // Number columns are profiled on the reading threads from their parts while this thread joins the table.
   let numberProfiles: NumberProfiles | null = null;
   const onPart = (parts: readonly Table[]): void => {
-    if (profiling !== null && workers.length > 0) numberProfiles = new NumberProfiles(parts, profiling, inbox, workers.length);
+    if (profiling === null || workers.length === 0) return;
+    const profilers = workers.map((_, w): NumberPartsProfiler => (request) => answerOf(inbox, w, { type: 'profile-parts', id: 0, ...request }));
+    numberProfiles = new NumberProfiles(parts, profiling, profilers);
   };
   // A table read to be profiled has its cells joined only if something reads them: draft and
   // profile read none but those of the rare cells that are not numbers.
@@ -246,67 +240,6 @@ export async function readTableInThreads(
   } finally {
     await Promise.all(workers.map((worker) => worker.terminate()));
   }
-}
-
-/**
- * The columns that every part holds as numbers, profiled on the reading threads from copies of
- * their parts, one column per thread at a time: the costly columns to profile (a million numbers
- * counted) so start while this thread is still joining the table. A column no thread has started
- * when this thread asks for it (`take`) is left to this thread: the threads share the columns as
- * they come free, whichever finishes its own work first.
- */
-class NumberProfiles {
-  private readonly parts: readonly Table[];
-  private readonly options: ProfileOptions;
-  private readonly inbox: Inbox;
-  /** Column indices not yet started, in column order. */
-  private readonly waiting: number[] = [];
-  private readonly started = new Map<number, Promise<ColumnProfile>>();
-  private readonly free: number[];
-
-  constructor(parts: readonly Table[], options: ProfileOptions, inbox: Inbox, threads: number) {
-    this.parts = parts;
-    this.options = options;
-    this.inbox = inbox;
-    this.free = Array.from({ length: threads }, (_, w) => w);
-    parts[0]?.columns.forEach((_, index) => {
-      if (parts.every((part) => part.columns[index]!.kind === 'number')) this.waiting.push(index);
-    });
-    this.startWhileFree();
-  }
-
-  /** The profile of column `index` from a reading thread, or null when none has it or is free to take it. */
-  take(index: number): Promise<ColumnProfile> | null {
-    const started = this.started.get(index);
-    if (started !== undefined) return started;
-    const at = this.waiting.indexOf(index);
-    if (at < 0) return null;
-    this.waiting.splice(at, 1);
-    const worker = this.free.pop();
-    return worker === undefined ? null : this.start(worker, index);
-  }
-
-  private startWhileFree(): void {
-    while (this.free.length > 0 && this.waiting.length > 0) this.start(this.free.pop()!, this.waiting.shift()!);
-  }
-
-  private start(worker: number, index: number): Promise<ColumnProfile> {
-    const rowCounts = this.parts.map((part) => part.rowCount);
-    // Copies of the rows only: the first part's arrays have room for the whole file, and this thread keeps the parts.
-    const copies = this.parts.map((part, k) => numberRowsCopy(part.columns[index] as NumberColumn, rowCounts[k]!));
-    const pending = answerOf(this.inbox, worker, { type: 'profile-parts', id: 0, parts: copies, rowCounts, index, options: this.options });
-    const profiled = pending.finally(() => {
-      this.free.push(worker);
-      this.startWhileFree();
-    });
-    profiled.catch(() => undefined); // awaited when taken, or not at all when the read fails
-    this.started.set(index, profiled);
-    return profiled;
-  }
-}
-
-function numberRowsCopy(column: NumberColumn, rows: number): NumberColumn {
-  return { ...column, values: column.values.slice(0, rows), fixedDigits: column.fixedDigits?.slice(0, rows) ?? null };
 }
 
 /** The profile a reading thread answers `request` with. */
@@ -440,7 +373,7 @@ function serve(path: string, port: NonNullable<typeof parentPort>): void {
     try {
       if (request.type === 'start') readStart(request, fd, buffer, port);
       else if (request.type === 'segment') readSegment(request, fd, buffer, port);
-      else port.postMessage({ type: 'profile', id: request.id, profile: profileColumn(concatColumns(request.parts, request.rowCounts), request.index, request.options) } satisfies FromReader);
+      else port.postMessage({ type: 'profile', id: request.id, profile: profileNumberParts(request) } satisfies FromReader);
     } catch (error) {
       port.postMessage(failed(error));
     }

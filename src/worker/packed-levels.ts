@@ -76,20 +76,26 @@ function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8
   const lengths = new Uint32Array(codes.length);
   const levelCounts = new Float64Array(codes.length);
   let units = 0;
+  // Codes one after another (an identifier's levels, every count 1, stay in dictionary order):
+  // their bytes already lie end to end in the column's storage.
+  let consecutive = true;
   for (let i = 0; i < codes.length; i++) {
     const code = codes[i]!;
     lengths[i] = starts[code + 1]! - starts[code]!;
     levelCounts[i] = counts[code]!;
     units += lengths[i]!;
-  }
-  const text = new Uint8Array(units);
-  let at = 0;
-  for (let i = 0; i < codes.length; i++) {
-    const from = starts[codes[i]!]!;
-    text.set(bytes.subarray(from, from + lengths[i]!), at);
-    at += lengths[i]!;
+    if (i > 0 && code !== codes[i - 1]! + 1) consecutive = false;
   }
   // ASCII: one decode of the run's bytes gives one UTF-16 unit per byte.
+  if (consecutive && codes.length > 0) return { text: utf8Text(bytes, starts[codes[0]!]!, starts[codes[0]!]! + units), lengths, counts: levelCounts };
+  const text = new Uint8Array(units);
+  let at = 0;
+  // A byte at a time: values are short, and a subarray per value cost more than its copy.
+  for (let i = 0; i < codes.length; i++) {
+    const from = starts[codes[i]!]!;
+    const end = from + lengths[i]!;
+    for (let b = from; b < end; b++) text[at++] = bytes[b]!;
+  }
   return { text: utf8Text(text, 0, text.length), lengths, counts: levelCounts };
 }
 

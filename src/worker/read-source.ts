@@ -11,8 +11,11 @@ import { readInParallel } from '../core/parallel-read.ts';
 import { createTableReader, readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
+import { NumberProfiles } from '../core/number-profiles.ts';
+import { profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
 import { pageLimit, tooLargeForPage } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
+import type { Table } from '../core/columns.ts';
 import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, SegmentWorkerFailure, readingThreadCount } from './segment-pool.ts';
 
 export interface ReadProgress {
@@ -21,6 +24,11 @@ export interface ReadProgress {
 
 export interface SourceRead {
   readonly read: ReadResult;
+  /**
+   * The table's profiles when `profiling` was asked for and the file was read on several threads,
+   * whose workers then profiled its number columns; null otherwise (the caller profiles the table).
+   */
+  readonly profiles: ColumnProfile[] | null;
   readonly fileName: string;
   readonly file: Blob;
   readonly sheet: { readonly name: string; readonly names: readonly string[] } | null;
@@ -32,6 +40,10 @@ export interface ReadSourceOptions {
   readonly onProgress: ReadProgress;
   /** Replaces the page's file size limit (page-limits.ts); tests lower it. */
   readonly maxBytes?: number;
+  /** Profile the table with these options where that is cheaper while reading (SourceRead.profiles). */
+  readonly profiling?: ProfileOptions | null;
+  /** Told when the read is done and the profiling (SourceRead.profiles) starts. */
+  readonly onProfiling?: () => void;
 }
 
 /** The start of every ZIP container, XLSX included ("PK\3\4"). */
@@ -40,7 +52,7 @@ const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04];
 export async function readSource(source: TableSource, options: ReadSourceOptions): Promise<SourceRead> {
   if (source.kind === 'demo') {
     const file = new Blob([generateHouseholdEnergyCsv({ rows: source.rows })], { type: 'text/csv' });
-    return { read: await readText(file, options), fileName: DEMO_FILE_NAME, file, sheet: null };
+    return { ...(await readText(file, options)), fileName: DEMO_FILE_NAME, file, sheet: null };
   }
   const { file } = source;
   const spreadsheet = await isSpreadsheet(file);
@@ -48,7 +60,7 @@ export async function readSource(source: TableSource, options: ReadSourceOptions
   const limit = pageLimit(spreadsheet ? 'workbook' : 'text', options.maxBytes);
   if (file.size > limit) throw tooLargeForPage(file.name, file.size, spreadsheet ? 'workbook' : 'text', limit);
   if (spreadsheet) return readSpreadsheet(file, source.sheet ?? null, options);
-  return { read: await readText(file, options), fileName: file.name, file, sheet: null };
+  return { ...(await readText(file, options)), fileName: file.name, file, sheet: null };
 }
 
 const WORKBOOK_NAME = /\.(xlsx|xlsm)$/i;
@@ -59,9 +71,19 @@ async function isSpreadsheet(file: File): Promise<boolean> {
   return ZIP_MAGIC.every((b, i) => head[i] === b);
 }
 
-function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptions): Promise<ReadResult> {
+/** A text file's table, and its profiles when they were made while reading (SourceRead.profiles). */
+interface TextRead {
+  readonly read: ReadResult;
+  readonly profiles: ColumnProfile[] | null;
+}
+
+async function readText(file: Blob, { delimiter, signal, onProgress, profiling = null, onProfiling }: ReadSourceOptions): Promise<TextRead> {
+  const onOneThread = async (): Promise<TextRead> => ({
+    read: await readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size }),
+    profiles: null,
+  });
   const workers = file.size >= PARALLEL_FROM_BYTES ? readingThreadCount() - 1 : 0;
-  if (workers <= 0) return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
+  if (workers <= 0) return onOneThread();
   // One count of the bytes read, here and in the segment workers, so that the bar only moves on.
   const progress = { here: 0, others: 0 };
   const report = (): void => onProgress(Math.min(progress.here + progress.others, file.size), file.size);
@@ -75,16 +97,14 @@ function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptio
       });
     },
     (chunks, encoding) =>
-      readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, (bytes) => {
+      readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, profiling === null ? null : { options: profiling, onStart: onProfiling ?? (() => undefined) }, (bytes) => {
         progress.others += bytes;
         report();
       }),
     null,
   ).catch((error: unknown) => {
     // A segment worker that could not run (no module workers here): read on this thread instead.
-    if (error instanceof SegmentWorkerFailure && !signal.aborted) {
-      return readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size });
-    }
+    if (error instanceof SegmentWorkerFailure && !signal.aborted) return onOneThread();
     throw error;
   });
 }
@@ -92,7 +112,9 @@ function readText(file: Blob, { delimiter, signal, onProgress }: ReadSourceOptio
 /**
  * A big file on several cores (segment-pool.ts): its first segment here, the others in segment
  * workers started as soon as the header is read. A file the reader cannot cut (not UTF-8, one
- * column, lone CR line breaks) is read here to its end, as before.
+ * column, lone CR line breaks) is read here to its end, as before. With `profiling`, the segment
+ * workers go on to profile the number columns from the parts while this thread joins the table
+ * and profiles the rest (core number-profiles.ts, profileTableSharing).
  */
 async function readInSegments(
   file: Blob,
@@ -100,18 +122,31 @@ async function readInSegments(
   settings: { delimiter: Delimiter | null; encoding: EncodingName | null },
   workers: number,
   signal: AbortSignal,
+  profiling: { readonly options: ProfileOptions; readonly onStart: () => void } | null,
   onSegmentBytes: (bytes: number) => void,
-): Promise<ReadResult> {
+): Promise<TextRead> {
   const pool = openSegmentPool(file, workers, signal, onSegmentBytes);
   try {
-    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, packValues: true });
+    // Set from the callback below; `as` keeps TypeScript from narrowing it to null for good.
+    let numberProfiles = null as NumberProfiles | null;
+    const onPart = (parts: readonly Table[]): void => {
+      if (profiling !== null && parts.length > 1) numberProfiles = new NumberProfiles(parts, profiling.options, pool.profilers);
+    };
+    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, packValues: true, onPart });
     const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size, packValues: true });
     for await (const chunk of chunks) {
       reader.push(chunk);
       parallel.pushed(reader.segmenting);
       if (reader.stoppedAt !== null) break;
     }
-    return await parallel.finish(reader.finish());
+    const read = await parallel.finish(reader.finish());
+    const shared = numberProfiles;
+    if (profiling === null || shared === null) return { read, profiles: null };
+    // The parts are joined and given up now: columns the workers start from here on go from the table.
+    shared.joinedInto(read.table);
+    profiling.onStart();
+    const profiles = await profileTableSharing(read.table, profiling.options, (_, index) => shared.take(index));
+    return { read, profiles };
   } finally {
     pool.close();
   }
@@ -173,7 +208,7 @@ async function readSpreadsheet(file: File, wanted: string | null, { signal, onPr
     });
   }
   const rows = chosen.data.map((row) => row.map(spreadsheetCellText));
-  return { read: tableFromRows(rows), fileName: file.name, file, sheet: { name: chosen.sheet, names } };
+  return { read: tableFromRows(rows), profiles: null, fileName: file.name, file, sheet: { name: chosen.sheet, names } };
 }
 
 

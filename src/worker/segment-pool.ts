@@ -1,22 +1,28 @@
 /**
  * Reading a big text file on several cores: the workbench's worker reads the first segment itself
  * and hands one segment to each of a few segment workers (segment.worker.ts), each reading its own
- * slice of the File, then joins their tables (core parallel-read.ts).
+ * slice of the File, then joins their tables (core parallel-read.ts). Once they have read their
+ * segments, the same workers profile the table's number columns while the workbench's worker joins
+ * it (core number-profiles.ts).
  */
 import type { SegmentRequest, SegmentRunner } from '../core/parallel-read.ts';
 import type { SegmentResult } from '../core/read-segment.ts';
+import { requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
+import { profileTable, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
+import { NumberProfiles } from '../core/number-profiles.ts';
+import type { Table } from '../core/columns.ts';
 import { arrivedTable } from '../core/columns.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { Cancelled } from './protocol.ts';
 
-export interface ToSegmentWorker {
-  readonly file: Blob;
-  readonly request: SegmentRequest;
-}
+export type ToSegmentWorker =
+  | { readonly type: 'segment'; readonly file: Blob; readonly request: SegmentRequest }
+  | { readonly type: 'profile'; readonly request: NumberPartsRequest };
 
 export type FromSegmentWorker =
   | { readonly type: 'progress'; readonly bytes: number }
   | { readonly type: 'done'; readonly result: SegmentResult }
+  | { readonly type: 'profile'; readonly profile: ColumnProfile }
   | { readonly type: 'failed'; readonly code: string | null; readonly message: string; readonly hint: string };
 
 /** Files below this size are read on one thread: starting workers would cost more than it saves. */
@@ -45,6 +51,8 @@ export class SegmentWorkerFailure extends Error {
 
 export interface SegmentPool {
   readonly runners: readonly SegmentRunner[];
+  /** The same workers, to profile number columns once their segments are read (one request at a time each). */
+  readonly profilers: readonly NumberPartsProfiler[];
   /** Stops every worker (also on cancel); answers still awaited fail with Cancelled. */
   close(): void;
 }
@@ -65,7 +73,8 @@ export function warmSegmentWorkers(count: number): void {
 }
 
 /** `onBytes`: bytes read by the segment workers since the last call, for progress. */
-export function openSegmentPool(file: Blob, count: number, signal: AbortSignal, onBytes: (bytes: number) => void): SegmentPool {
+/** `file`: the File whose segments the workers read; null for a pool that only profiles. */
+export function openSegmentPool(file: Blob | null, count: number, signal: AbortSignal, onBytes: (bytes: number) => void): SegmentPool {
   const workers: Worker[] = [];
   const failAll = new Set<(error: Error) => void>();
   /** Cancelled, or a worker failed: no worker of this pool is kept for the next read. */
@@ -87,8 +96,9 @@ export function openSegmentPool(file: Blob, count: number, signal: AbortSignal, 
     close();
   };
   signal.addEventListener('abort', cancel, { once: true });
-  const runner = (worker: Worker): SegmentRunner => (request) =>
-    new Promise<SegmentResult>((resolve, reject) => {
+  /** Posts `message` to `worker` and resolves with what `answer` makes of its final reply. */
+  const ask = <T>(worker: Worker, message: ToSegmentWorker, transfer: Transferable[], answer: (reply: Exclude<FromSegmentWorker, { type: 'progress' | 'failed' }>) => T): Promise<T> =>
+    new Promise<T>((resolve, reject) => {
       if (signal.aborted) {
         reject(new Cancelled());
         return;
@@ -102,17 +112,56 @@ export function openSegmentPool(file: Blob, count: number, signal: AbortSignal, 
       failAll.add(fail);
       worker.onerror = (event) => fail(new SegmentWorkerFailure(event.message));
       worker.onmessage = (event: MessageEvent<FromSegmentWorker>) => {
-        const message = event.data;
-        if (message.type === 'progress') onBytes(message.bytes);
-        else if (message.type === 'failed') fail(message.code === null ? new SegmentWorkerFailure(message.message) : new LevelwiseError(message.code, message.message, { hint: message.hint }));
+        const reply = event.data;
+        if (reply.type === 'progress') onBytes(reply.bytes);
+        else if (reply.type === 'failed') fail(reply.code === null ? new SegmentWorkerFailure(reply.message) : new LevelwiseError(reply.code, reply.message, { hint: reply.hint }));
         else {
           failAll.delete(fail);
           worker.onmessage = null;
-          resolve({ ...message.result, table: arrivedTable(message.result.table) });
+          try {
+            resolve(answer(reply));
+          } catch (error) {
+            reject(error instanceof Error ? error : new SegmentWorkerFailure(String(error)));
+          }
         }
       };
-      worker.postMessage({ file, request } satisfies ToSegmentWorker);
+      worker.postMessage(message, transfer);
+    });
+  const runner = (worker: Worker, file: Blob): SegmentRunner => (request) =>
+    ask(worker, { type: 'segment', file, request }, [], (reply) => {
+      if (reply.type !== 'done') throw new SegmentWorkerFailure(`a ${reply.type} answer to a segment`);
+      return { ...reply.result, table: arrivedTable(reply.result.table) };
+    });
+  // The copies of the parts are this request's own: transferred, not copied again.
+  const profiler = (worker: Worker): NumberPartsProfiler => (request) =>
+    ask(worker, { type: 'profile', request }, requestBuffers(request), (reply) => {
+      if (reply.type !== 'profile') throw new SegmentWorkerFailure(`a ${reply.type} answer to a profile`);
+      return reply.profile;
     });
   for (let i = 0; i < count; i++) workers.push(idle.pop() ?? startSegmentWorker());
-  return { runners: workers.map(runner), close };
+  return { runners: file === null ? [] : workers.map((worker) => runner(worker, file)), profilers: workers.map(profiler), close };
+}
+
+/** Below this many rows a table's number columns are profiled here: sending them would cost about what it saves. */
+export const SHARE_PROFILING_FROM_ROWS = 100_000;
+
+/**
+ * profileTable of a table already read (profiled again with other missing spellings), its number
+ * columns shared with idle segment workers as a read shares them (core number-profiles.ts). Where
+ * no worker can run, or the table is small, it is profileTable itself.
+ */
+export async function profileSharingWorkers(table: Table, options: ProfileOptions, signal: AbortSignal): Promise<ColumnProfile[]> {
+  const numberColumns = table.columns.filter((column) => column.kind === 'number').length;
+  const count = Math.min(readingThreadCount() - 1, numberColumns);
+  if (count <= 0 || table.rowCount < SHARE_PROFILING_FROM_ROWS) return profileTable(table, options);
+  const pool = openSegmentPool(null, count, signal, () => undefined);
+  try {
+    const shared = new NumberProfiles([table], options, pool.profilers);
+    return await profileTableSharing(table, options, (_, index) => shared.take(index));
+  } catch (error) {
+    if (error instanceof SegmentWorkerFailure && !signal.aborted) return profileTable(table, options);
+    throw error;
+  } finally {
+    pool.close();
+  }
 }

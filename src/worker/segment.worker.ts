@@ -1,12 +1,14 @@
 /**
  * A worker the workbench's worker starts to read one segment of a big text file at a time
  * (core read-segment.ts), from its own slice of the File, so that a file is read on several cores
- * (segment-pool.ts). It answers with the segment's table, its typed arrays transferred.
+ * (segment-pool.ts). It answers with the segment's table, its typed arrays transferred. Asked to
+ * profile a number column's parts afterwards, it answers with the column's profile.
  */
 /// <reference lib="webworker" />
 import { crossingTable, tableBuffers } from '../core/columns.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { segmentReaderFor, type SegmentRequest } from '../core/parallel-read.ts';
+import { profileNumberParts } from '../core/number-profiles.ts';
 import type { FromSegmentWorker, ToSegmentWorker } from './segment-pool.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope; // the DOM lib types `self` as Window
@@ -14,7 +16,16 @@ const scope = self as unknown as DedicatedWorkerGlobalScope; // the DOM lib type
 const PROGRESS_EVERY = 4 << 20;
 
 scope.addEventListener('message', (event: MessageEvent<ToSegmentWorker>) => {
-  readSegment(event.data.file, event.data.request).then(
+  const message = event.data;
+  if (message.type === 'profile') {
+    try {
+      scope.postMessage({ type: 'profile', profile: profileNumberParts(message.request) } satisfies FromSegmentWorker);
+    } catch (error) {
+      scope.postMessage(failure(error));
+    }
+    return;
+  }
+  readSegment(message.file, message.request).then(
     (message) => scope.postMessage(message, message.type === 'done' ? tableBuffers(message.result.table) : []),
     (error: unknown) => scope.postMessage(failure(error)),
   );

@@ -32,6 +32,7 @@ import {
   type ToWorker,
 } from './protocol.ts';
 import { readSource } from './read-source.ts';
+import { profileSharingWorkers } from './segment-pool.ts';
 import { windowTable } from './window-table.ts';
 
 /** Rows encoded between two looks at the message queue during exports and checks. */
@@ -82,11 +83,15 @@ export function createSession(post: Post): Session {
   const handlers: { [K in CallKind]: Handler<K> } = {
     async open(request, context) {
       const version = nextVersion++;
+      const missingTokens = request.missingTokens ?? DEFAULT_MISSING_TOKENS;
       const read = await readSource(request.source, {
         delimiter: request.delimiter ?? null,
         ...(request.maxBytes === undefined ? {} : { maxBytes: request.maxBytes }),
         signal: context.signal,
         onProgress: (done, total) => context.progress('reading', done, total),
+        // Read on several threads, the table is profiled there as it is joined.
+        profiling: request.draft ? { missingTokens } : null,
+        onProfiling: () => context.progress('profiling', 0, null),
       });
       const { table } = read.read;
       const fingerprint = await fingerprintFile(read.file, read.fileName);
@@ -95,7 +100,7 @@ export function createSession(post: Post): Session {
       if (request.draft) {
         context.progress('profiling', 0, null);
         await breathe(context.signal);
-        ({ profiles, draft } = proposal(table, read.fileName, request.missingTokens ?? DEFAULT_MISSING_TOKENS));
+        ({ profiles, draft } = proposal(table, read.fileName, missingTokens, read.profiles));
       }
       if (context.signal.aborted) throw new Cancelled();
       slots.set(request.slot, { version, table, fileName: read.fileName, plan: null, revision: -1, shownRows: null });
@@ -172,7 +177,8 @@ export function createSession(post: Post): Session {
       context.progress('profiling', 0, null);
       await breathe(context.signal);
       const { table } = state;
-      const { profiles, draft } = proposal(table, state.fileName, request.missingTokens);
+      const profiled = await profileSharingWorkers(table, { missingTokens: request.missingTokens }, context.signal);
+      const { profiles, draft } = proposal(table, state.fileName, request.missingTokens, profiled);
       if (context.signal.aborted) throw new Cancelled();
       return { result: { profiles: sendLongLevelsAhead(profiles, context), draft } };
     },
@@ -223,9 +229,12 @@ export function createSession(post: Post): Session {
  * Posts each level list longer than PACK_ABOVE_LEVELS ahead, packed (the `levels` message), and
  * returns the profiles with those lists left empty for the `done` answer.
  */
-/** The table's profiles and the recipe proposed from them, reading `missingTokens` as missing. */
-function proposal(table: Table, fileName: string, missingTokens: readonly string[]): { profiles: ColumnProfile[]; draft: Recipe } {
-  const profiles = profileTable(table, { missingTokens });
+/**
+ * The table's profiles and the recipe proposed from them, reading `missingTokens` as missing;
+ * `profiled`: the profiles already made with those spellings while the table was read.
+ */
+function proposal(table: Table, fileName: string, missingTokens: readonly string[], profiled: ColumnProfile[] | null = null): { profiles: ColumnProfile[]; draft: Recipe } {
+  const profiles = profiled ?? profileTable(table, { missingTokens });
   // The delimiter is left to detection (null) rather than pinned to this file's: a recipe made on
   // a comma file then still reads a semicolon or tab export of the same data.
   const draft = draftRecipe(profiles, { file: fileName, rows: table.rowCount }, { missingTokens: [...missingTokens], delimiter: null });

@@ -16,6 +16,7 @@ import { RESULTS, buildAndServe, type ServedApp } from './helpers/server.ts';
 import { buildXlsx } from './helpers/xlsx.ts';
 import { draftRecipe } from '../../src/core/fit.ts';
 import { profileTable } from '../../src/core/profile.ts';
+import { DEFAULT_MISSING_TOKENS } from '../../src/core/recipe.ts';
 import { readTable } from '../../src/core/read-table.ts';
 import { formatCount, formatValue } from '../../src/ui/columns/labels.ts';
 
@@ -414,14 +415,16 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await shot('13-segments-end');
   });
 
-  it('shows what core finds on one thread for a column of a big file kept as numbers and read in segments', async () => {
+  it('shows what core finds on one thread for a column of a big file kept as numbers, read and profiled in segment workers', async () => {
     // 450,000 invented meter readings (~19 MB, read in segments): most readings distinct (past the
-    // 4,096-value dictionary: number storage), every 97th missing ("NA"), every 13th with two fixed
-    // decimals, every 1000th not a number.
+    // 4,096-value dictionary: number storage), every 97th missing ("NA"), every 1000th not a
+    // number, every 101st the meter's code for "no reading" (-1), every 13th with two fixed decimals.
+    // The column is profiled in a segment worker (core number-profiles.ts), on opening and again
+    // when -1 is read as missing.
     const rows = 450_000;
     const lines = ['meter,reading,site,visit'];
     for (let r = 1; r <= rows; r++) {
-      const reading = r % 97 === 0 ? 'NA' : r % 1000 === 0 ? `faulty ${r}` : r % 13 === 0 ? `${r}.50` : String(r * 3 + (r % 7) / 4);
+      const reading = r % 97 === 0 ? 'NA' : r % 1000 === 0 ? `faulty ${r}` : r % 101 === 0 ? '-1' : r % 13 === 0 ? `${r}.50` : String(r * 3 + (r % 7) / 4);
       lines.push(`M-${r},${reading},${['north', 'south'][r % 2]},reading taken on visit ${r % 53}`);
     }
     const text = `${lines.join('\n')}\n`;
@@ -447,6 +450,28 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     // 450,000 rows less 4,639 "NA" (every 97th) and 446 "faulty" (every 1000th, but for the four
     // rows that are multiples of 97 000 too, which are "NA").
     expect(fitted.fitted.count).toBe(444_915);
+
+    // -1 read as missing: the table is profiled again in the worker, its number column in a segment worker.
+    await page.getByRole('tab', { name: /Missing values/ }).click();
+    await page.getByLabel('Also read as missing').fill('-1');
+    await page.getByRole('button', { name: 'Read as missing', exact: true }).click();
+    await expect.poll(() => page.getByRole('status').filter({ hasText: '“-1” is read as missing now' }).count()).toBe(1);
+    const missingTokens = [...DEFAULT_MISSING_TOKENS, '-1'];
+    const refitted = draftRecipe(profileTable(table, { missingTokens }), { file: 'meters.csv', rows }, { missingTokens }).columns[1]!;
+    if (refitted.level !== 'continuous') throw new Error(`reading drafted as ${refitted.level}`);
+    // Every 101st row, less those that are multiples of 97 (45, "NA") or of 1000 (4, "faulty"): 4,455 − 45 − 4 = 4,406 cells of -1.
+    expect(refitted.fitted.count).toBe(444_915 - 4_406);
+    await page.getByRole('tab', { name: /^Column/ }).click();
+    await chooseColumn('reading');
+    await expect.poll(() => page.locator('[aria-label="Learned from this file"]').textContent()).toContain(formatCount(refitted.fitted.count));
+    const shownAgain = await page.locator('[aria-label="Learned from this file"] dt').allTextContents();
+    const valuesAgain = await page.locator('[aria-label="Learned from this file"] dd').allTextContents();
+    expect(Object.fromEntries(shownAgain.map((term, i) => [term, valuesAgain[i]]))).toMatchObject({
+      'numbers read': formatCount(refitted.fitted.count),
+      mean: formatValue(refitted.fitted.mean),
+      'standard deviation': formatValue(refitted.fitted.sd),
+      median: formatValue(refitted.fitted.median),
+    });
   });
 
   it('a big file with a Windows-1252 byte near its end, found by a segment worker, is read again as Windows-1252', async () => {
