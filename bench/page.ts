@@ -16,7 +16,12 @@
  *   decisions  five decisions on the loaded file, each timed from the click's event time to the
  *              preview grid showing the new header or cells (a MutationObserver in the page);
  *   download   the "Encoded CSV" button, until playwright's download has finished; its size, line
- *              count and first and last lines are checked, and the main thread watched as during load.
+ *              count and first and last lines are checked, and the main thread watched as during load;
+ *   side by side  in a fresh browser context, three times in turn: papaparse alone in a worker of
+ *              this browser (Papa.parse of the File's text, the text read first and not counted),
+ *              then the workbench loading the same File, from the change event to the file summary
+ *              shown (read, profiled, drafted, told to the page): profiling in the worker against
+ *              papaparse parsing alone, the ratio the Node table gives for the command line.
  *
  * Missed targets are printed as FAIL and recorded; the exit code stays 0 (a report, not a test).
  */
@@ -24,12 +29,12 @@ import { createReadStream, existsSync, mkdtempSync, readFileSync, rmSync, statSy
 import { loadavg, tmpdir } from 'node:os';
 import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { chromium, type Browser, type CDPSession, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from 'playwright-core';
 import { CHROMIUM, CHROMIUM_ARGS } from '../test/e2e/helpers/browser.ts';
 import { buildAndServe, type ServedApp } from '../test/e2e/helpers/server.ts';
 import { describeMachine, machineLine, type Machine } from './lib/machine.ts';
 import { renderTable } from './lib/report.ts';
-import { atMost, BYTES_PER_MB, median, type Verdict } from './lib/stats.ts';
+import { atMost, BYTES_PER_MB, median, TARGETS, type Verdict } from './lib/stats.ts';
 
 const BENCH_DIR = dirname(fileURLToPath(import.meta.url));
 const PROJECT_ROOT = join(BENCH_DIR, '..');
@@ -141,6 +146,16 @@ export interface PageResults {
     readonly longTasks: LongTasks;
     readonly longestTask: Verdict;
     readonly peakPageMemory: HeapFigures;
+  };
+  /** Profiling in the page's worker against papaparse in a worker of the same browser, same File, interleaved. */
+  readonly sideBySide: {
+    readonly runs: readonly { readonly profileSeconds: number; readonly parseSeconds: number; readonly textSeconds: number }[];
+    /** Medians: change event → file summary shown; Papa.parse alone; the File's text read for it (not counted). */
+    readonly profileSeconds: number;
+    readonly parseSeconds: number;
+    readonly textSeconds: number;
+    /** profileSeconds ÷ parseSeconds against TARGETS.profileOverParse. */
+    readonly verdict: Verdict;
   };
   readonly notes: readonly string[];
 }
@@ -444,9 +459,12 @@ async function measureCancel(page: Page, file: string): Promise<PageResults['can
 // ---------------------------------------------------------------------------------------------
 // 2. Load
 
-async function measureLoad(page: Page, probe: HeapProbe, file: string, rows: number, bytes: number): Promise<PageResults['load']> {
-  progress(`load: ${relative(process.cwd(), file)} through the file input…`);
-  const name = file.split('/').at(-1)!;
+/**
+ * Watches a load about to start: marks the file input's change event, the taskbar saying the
+ * columns are being looked at, the file summary naming the file and its rows, and the preview
+ * filled; samples the progress bar every `every` ms.
+ */
+async function watchLoad(page: Page, name: string, rows: number, every: number): Promise<void> {
   await page.evaluate(
     ([n, r, every]) => {
       const state = window.__levelwiseBench!;
@@ -478,16 +496,28 @@ async function measureLoad(page: Page, probe: HeapProbe, file: string, rows: num
       });
       observer.observe(document.body, { subtree: true, childList: true, characterData: true, attributes: true });
     },
-    [name, rowsText(rows), SAMPLE_EVERY_MS] as const,
+    [name, rowsText(rows), every] as const,
   );
-  const loading = (async () => {
-    await page.getByTestId('open-file-input').setInputFiles(file);
-    await page.waitForFunction(() => window.__levelwiseBench?.marks['filledAt'] != null, undefined, { timeout: LOAD_TIMEOUT_MS, polling: 500 });
-  })();
-  const { peak } = await peakWhile(probe, loading);
+}
+
+/** Sets `file` on the page's file input and waits until the load watched by watchLoad has filled the preview. */
+async function loadFile(page: Page, file: string): Promise<void> {
+  await page.getByTestId('open-file-input').setInputFiles(file);
+  await page.waitForFunction(() => window.__levelwiseBench?.marks['filledAt'] != null, undefined, { timeout: LOAD_TIMEOUT_MS, polling: 500 });
+}
+
+/** Seconds from the change event to each mark of watchLoad. */
+async function loadMilestones(page: Page): Promise<{ start: number; since: (key: string) => number | null; samples: BenchState['samples'] }> {
   const { marks, samples } = await page.evaluate(() => ({ marks: window.__levelwiseBench!.marks, samples: window.__levelwiseBench!.samples }));
   const start = marks['changeAt'] ?? NaN;
-  const since = (key: string): number | null => (marks[key] == null ? null : ((marks[key] ?? NaN) - start) / 1000);
+  return { start, since: (key) => (marks[key] == null ? null : ((marks[key] ?? NaN) - start) / 1000), samples };
+}
+
+async function measureLoad(page: Page, probe: HeapProbe, file: string, rows: number, bytes: number): Promise<PageResults['load']> {
+  progress(`load: ${relative(process.cwd(), file)} through the file input…`);
+  await watchLoad(page, file.split('/').at(-1)!, rows, SAMPLE_EVERY_MS);
+  const { peak } = await peakWhile(probe, loadFile(page, file));
+  const { start, since, samples } = await loadMilestones(page);
   await sleep(1000); // tasks that follow the first paint of the preview belong to loading too
   const longTasks = await longTasksBetween(page, start, await now(page));
   const settledMemory = await probe.settled();
@@ -579,6 +609,85 @@ async function measureDownload(page: Page, probe: HeapProbe, rows: number): Prom
   };
 }
 
+// ---------------------------------------------------------------------------------------------
+// 5. Side by side: profiling in the worker against papaparse in a worker of the same browser
+
+const PAPAPARSE_SOURCE = join(PROJECT_ROOT, 'node_modules', 'papaparse', 'papaparse.min.js');
+const SIDE_BY_SIDE_REPS = 3;
+
+/**
+ * The script a page evaluates to run papaparse in a worker on its file input's File, as
+ * bench/lib/paths.ts runs it in Node: records counted by a step, nothing kept. A string, so that
+ * nothing of this file's compiled code has to exist in a page that is not the workbench's.
+ */
+function papaparseDriver(papaparse: string): string {
+  const inWorker = `${papaparse}
+onmessage = async (event) => {
+  const t0 = performance.now();
+  const text = await event.data.text();
+  const t1 = performance.now();
+  let records = 0;
+  Papa.parse(text, { step: () => { records++; } });
+  postMessage({ textMs: t1 - t0, parseMs: performance.now() - t1, records });
+};`;
+  return `new Promise((resolve, reject) => {
+  const worker = new Worker(URL.createObjectURL(new Blob([${JSON.stringify(inWorker)}], { type: 'text/javascript' })));
+  worker.onmessage = (event) => { worker.terminate(); resolve(event.data); };
+  worker.onerror = (event) => reject(new Error(event.message));
+  worker.postMessage(document.getElementById('file').files[0]);
+})`;
+}
+
+async function papaparseInWorker(context: BrowserContext, file: string, rows: number): Promise<{ parseSeconds: number; textSeconds: number }> {
+  const page = await context.newPage();
+  try {
+    await page.setContent('<input type="file" id="file">');
+    await page.locator('#file').setInputFiles(file);
+    const result = (await page.evaluate(papaparseDriver(readFileSync(PAPAPARSE_SOURCE, 'utf8')))) as { textMs: number; parseMs: number; records: number };
+    // The header, the rows, and the empty record papaparse reports after the final line break.
+    if (result.records !== rows + 2) throw new Error(`papaparse in the browser read ${result.records} records from a file of ${rows} rows`);
+    return { parseSeconds: result.parseMs / 1000, textSeconds: result.textMs / 1000 };
+  } finally {
+    await page.close();
+  }
+}
+
+/** The workbench in a fresh page: seconds from the file input's change to the file summary shown. */
+async function profileInPage(context: BrowserContext, url: string, file: string, rows: number): Promise<number> {
+  const page = await context.newPage();
+  try {
+    await page.goto(url);
+    await waitForTable(page, DEMO_NAME, DEMO_ROWS);
+    await watchLoad(page, file.split('/').at(-1)!, rows, SAMPLE_EVERY_MS);
+    await loadFile(page, file);
+    return (await loadMilestones(page)).since('summaryAt') ?? NaN;
+  } finally {
+    await page.close();
+  }
+}
+
+async function measureSideBySide(browser: Browser, url: string, file: string, rows: number): Promise<PageResults['sideBySide']> {
+  progress(`side by side: papaparse in a worker, then the workbench, ${SIDE_BY_SIDE_REPS} times in turn…`);
+  // A context of its own: nothing saved by the measurements before (decisions for this file) is restored.
+  const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+  await context.addInitScript({ content: 'globalThis.__name = (fn) => fn;' });
+  await context.addInitScript(installPageProbes);
+  const runs: PageResults['sideBySide']['runs'][number][] = [];
+  try {
+    for (let rep = 1; rep <= SIDE_BY_SIDE_REPS; rep++) {
+      const papa = await papaparseInWorker(context, file, rows);
+      const profileSeconds = await profileInPage(context, url, file, rows);
+      runs.push({ profileSeconds, ...papa });
+      progress(`  run ${rep}/${SIDE_BY_SIDE_REPS}: papaparse ${papa.parseSeconds.toFixed(2)} s (text ${papa.textSeconds.toFixed(2)} s), workbench to summary ${profileSeconds.toFixed(2)} s`);
+    }
+  } finally {
+    await context.close();
+  }
+  const profileSeconds = median(runs.map((r) => r.profileSeconds));
+  const parseSeconds = median(runs.map((r) => r.parseSeconds));
+  return { runs, profileSeconds, parseSeconds, textSeconds: median(runs.map((r) => r.textSeconds)), verdict: atMost(profileSeconds / parseSeconds, TARGETS.profileOverParse) };
+}
+
 /** Size, line count (CRLF lines) and first and last lines of a file, read as a stream. */
 async function csvShape(path: string): Promise<{ bytes: number; lines: number; firstLine: string; lastLine: string }> {
   let lines = 0;
@@ -628,6 +737,8 @@ export async function measurePage({ file, rows }: PageOptions): Promise<PageResu
     progress(`  loaded in ${load.seconds.toFixed(1)} s`);
     const decisions = await measureDecisions(page);
     const download = await measureDownload(page, probe, rows);
+    await page.close();
+    const sideBySide = await measureSideBySide(browser, served.url, file, rows);
     const notes = errors.map((e) => `page error: ${e}`);
     return {
       machine: describeMachine(),
@@ -641,6 +752,7 @@ export async function measurePage({ file, rows }: PageOptions): Promise<PageResu
       load,
       decisions,
       download,
+      sideBySide,
       notes,
     };
   } finally {
@@ -683,6 +795,12 @@ export function pageRows(r: PageResults): string[][] {
     ['decision → preview, median of 5', `${ms(r.decisions.medianMs)} (${r.decisions.runs.map((d) => d.ms.toFixed(0)).join(', ')})`, `≤ ${PAGE_TARGETS.decisionMs} ms`, passWord(r.decisions.verdict.pass)],
     ['encoded CSV download', `${r.download.seconds.toFixed(1)} s, ${mb(r.download.bytes)}, ${r.download.lines.toLocaleString('en-US')} lines`, 'header + every row', passWord(r.download.matches)],
     ['main thread while writing', longText(r.download.longTasks), `≤ ${PAGE_TARGETS.longestTaskMs} ms`, passWord(r.download.longestTask.pass)],
+    [
+      'profile in the worker ÷ papaparse in a worker',
+      `${r.sideBySide.verdict.value.toFixed(2)}× — change → summary ${r.sideBySide.profileSeconds.toFixed(2)} s, Papa.parse ${r.sideBySide.parseSeconds.toFixed(2)} s (its File.text() ${r.sideBySide.textSeconds.toFixed(2)} s not counted); medians of ${r.sideBySide.runs.length}, in turn`,
+      `≤ ${TARGETS.profileOverParse}×`,
+      passWord(r.sideBySide.verdict.pass),
+    ],
     ['page JS heap while writing (peak)', `${mb(r.download.peakPageMemory.heapBytes)} heap + ${mb(r.download.peakPageMemory.backingBytes)} buffers`, '—', '—'],
   ];
 }
