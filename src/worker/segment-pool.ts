@@ -15,15 +15,21 @@ import { arrivedTable } from '../core/columns.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { Cancelled } from './protocol.ts';
 
-export type ToSegmentWorker =
+/** What a segment worker is asked, without the id the pool gives each request. */
+type ToSegmentWorkerRequest =
   | { readonly type: 'segment'; readonly file: Blob; readonly request: SegmentRequest }
   | { readonly type: 'profile'; readonly request: NumberPartsRequest };
 
+export type ToSegmentWorker = ToSegmentWorkerRequest & { readonly id: number };
+
+/** Answers carry the id of their request; progress is the pool's, whichever segment it is from. */
 export type FromSegmentWorker =
   | { readonly type: 'progress'; readonly bytes: number }
-  | { readonly type: 'done'; readonly result: SegmentResult }
-  | { readonly type: 'profile'; readonly profile: ColumnProfile }
-  | { readonly type: 'failed'; readonly code: string | null; readonly message: string; readonly hint: string };
+  | { readonly type: 'done'; readonly id: number; readonly result: SegmentResult }
+  | { readonly type: 'profile'; readonly id: number; readonly profile: ColumnProfile }
+  | { readonly type: 'failed'; readonly id: number; readonly code: string | null; readonly message: string; readonly hint: string };
+
+type Answer = Extract<FromSegmentWorker, { type: 'done' | 'profile' }>;
 
 /** Files below this size are read on one thread: starting workers would cost more than it saves. */
 export const PARALLEL_FROM_BYTES = 16 << 20;
@@ -51,7 +57,7 @@ export class SegmentWorkerFailure extends Error {
 
 export interface SegmentPool {
   readonly runners: readonly SegmentRunner[];
-  /** The same workers, to profile number columns once their segments are read (one request at a time each). */
+  /** The same workers, to profile number columns once their segments are read (core number-profiles.ts). */
   readonly profilers: readonly NumberPartsProfiler[];
   /** Stops every worker (also on cancel); answers still awaited fail with Cancelled. */
   close(): void;
@@ -72,52 +78,74 @@ export function warmSegmentWorkers(count: number): void {
   while (idle.length < count) idle.push(startSegmentWorker());
 }
 
-/** `onBytes`: bytes read by the segment workers since the last call, for progress. */
-/** `file`: the File whose segments the workers read; null for a pool that only profiles. */
+/**
+ * A pool of `count` segment workers. `file`: the File whose segments they read (null for a pool
+ * that only profiles); `onBytes`: bytes read by them since the last call, for progress. A worker
+ * may have several requests in hand: it answers each by its id, in the order it takes them.
+ */
 export function openSegmentPool(file: Blob | null, count: number, signal: AbortSignal, onBytes: (bytes: number) => void): SegmentPool {
   const workers: Worker[] = [];
-  const failAll = new Set<(error: Error) => void>();
+  /** Requests not yet answered, by id. */
+  const pending = new Map<number, { readonly worker: Worker; readonly settle: (reply: FromSegmentWorker | Error) => void }>();
+  let nextId = 1;
   /** Cancelled, or a worker failed: no worker of this pool is kept for the next read. */
   let spoiled = false;
+  const failWhere = (worker: Worker | null, error: Error): void => {
+    for (const [id, request] of pending) {
+      if (worker !== null && request.worker !== worker) continue;
+      pending.delete(id);
+      request.settle(error);
+    }
+  };
   const close = (): void => {
     signal.removeEventListener('abort', cancel);
     // A worker still reading would answer the next read with this one's segment: only idle ones are kept.
-    const busy = failAll.size > 0 || spoiled;
+    const busy = pending.size > 0 || spoiled;
     for (const worker of workers) {
+      worker.onmessage = null;
+      worker.onerror = null;
       if (busy) worker.terminate();
       else idle.push(worker);
     }
     workers.length = 0;
-    for (const fail of failAll) fail(new Cancelled());
-    failAll.clear();
+    failWhere(null, new Cancelled());
   };
   const cancel = (): void => {
     spoiled = true;
     close();
   };
   signal.addEventListener('abort', cancel, { once: true });
-  /** Posts `message` to `worker` and resolves with what `answer` makes of its final reply. */
-  const ask = <T>(worker: Worker, message: ToSegmentWorker, transfer: Transferable[], answer: (reply: Exclude<FromSegmentWorker, { type: 'progress' | 'failed' }>) => T): Promise<T> =>
+  const listen = (worker: Worker): void => {
+    worker.onerror = (event) => {
+      spoiled = true;
+      failWhere(worker, new SegmentWorkerFailure(event.message));
+    };
+    worker.onmessage = (event: MessageEvent<FromSegmentWorker>) => {
+      const reply = event.data;
+      if (reply.type === 'progress') {
+        onBytes(reply.bytes);
+        return;
+      }
+      const request = pending.get(reply.id);
+      if (request === undefined) return;
+      pending.delete(reply.id);
+      if (reply.type === 'failed') spoiled = true;
+      request.settle(reply);
+    };
+  };
+  /** Posts a request to `worker`; resolves with what `answer` makes of its final reply. */
+  const ask = <T>(worker: Worker, message: ToSegmentWorkerRequest, transfer: Transferable[], answer: (reply: Answer) => T): Promise<T> =>
     new Promise<T>((resolve, reject) => {
       if (signal.aborted) {
         reject(new Cancelled());
         return;
       }
-      const fail = (error: Error): void => {
-        spoiled = true;
-        failAll.delete(fail);
-        worker.onmessage = null;
-        reject(error);
-      };
-      failAll.add(fail);
-      worker.onerror = (event) => fail(new SegmentWorkerFailure(event.message));
-      worker.onmessage = (event: MessageEvent<FromSegmentWorker>) => {
-        const reply = event.data;
-        if (reply.type === 'progress') onBytes(reply.bytes);
-        else if (reply.type === 'failed') fail(reply.code === null ? new SegmentWorkerFailure(reply.message) : new LevelwiseError(reply.code, reply.message, { hint: reply.hint }));
+      const id = nextId++;
+      const settle = (reply: FromSegmentWorker | Error): void => {
+        if (reply instanceof Error) reject(reply);
+        else if (reply.type === 'failed') reject(reply.code === null ? new SegmentWorkerFailure(reply.message) : new LevelwiseError(reply.code, reply.message, { hint: reply.hint }));
+        else if (reply.type === 'progress') reject(new SegmentWorkerFailure('a progress message as an answer'));
         else {
-          failAll.delete(fail);
-          worker.onmessage = null;
           try {
             resolve(answer(reply));
           } catch (error) {
@@ -125,7 +153,8 @@ export function openSegmentPool(file: Blob | null, count: number, signal: AbortS
           }
         }
       };
-      worker.postMessage(message, transfer);
+      pending.set(id, { worker, settle });
+      worker.postMessage({ ...message, id } as ToSegmentWorker, transfer);
     });
   const runner = (worker: Worker, file: Blob): SegmentRunner => (request) =>
     ask(worker, { type: 'segment', file, request }, [], (reply) => {
@@ -138,7 +167,11 @@ export function openSegmentPool(file: Blob | null, count: number, signal: AbortS
       if (reply.type !== 'profile') throw new SegmentWorkerFailure(`a ${reply.type} answer to a profile`);
       return reply.profile;
     });
-  for (let i = 0; i < count; i++) workers.push(idle.pop() ?? startSegmentWorker());
+  for (let i = 0; i < count; i++) {
+    const worker = idle.pop() ?? startSegmentWorker();
+    listen(worker);
+    workers.push(worker);
+  }
   return { runners: file === null ? [] : workers.map((worker) => runner(worker, file)), profilers: workers.map(profiler), close };
 }
 

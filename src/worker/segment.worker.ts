@@ -18,17 +18,18 @@ const PROGRESS_EVERY = 4 << 20;
 
 scope.addEventListener('message', (event: MessageEvent<ToSegmentWorker>) => {
   const message = event.data;
+  const { id } = message;
   if (message.type === 'profile') {
     try {
-      scope.postMessage({ type: 'profile', profile: profileNumberParts(message.request) } satisfies FromSegmentWorker);
+      scope.postMessage({ type: 'profile', id, profile: profileNumberParts(message.request) } satisfies FromSegmentWorker);
     } catch (error) {
-      scope.postMessage(failure(error));
+      scope.postMessage(failure(id, error));
     }
     return;
   }
-  readSegment(message.file, message.request).then(
+  readSegment(id, message.file, message.request).then(
     (message) => scope.postMessage(message, message.type === 'done' ? tableBuffers(message.result.table) : []),
-    (error: unknown) => scope.postMessage(failure(error)),
+    (error: unknown) => scope.postMessage(failure(id, error)),
   );
 });
 
@@ -39,7 +40,7 @@ let requested = false;
 scope.addEventListener('message', () => void (requested = true));
 void warmUp({ stop: () => requested, pause: () => new Promise((resolve) => setTimeout(resolve, 0)) }).catch(() => undefined);
 
-async function readSegment(file: Blob, request: SegmentRequest): Promise<FromSegmentWorker> {
+async function readSegment(id: number, file: Blob, request: SegmentRequest): Promise<FromSegmentWorker> {
   const { job } = request;
   const reader = segmentReaderFor(request, file.size);
   const stream = file.slice(job.firstByte).stream().getReader();
@@ -66,10 +67,10 @@ async function readSegment(file: Blob, request: SegmentRequest): Promise<FromSeg
   scope.postMessage({ type: 'progress', bytes: read - told } satisfies FromSegmentWorker);
   const result = reader.finish(atEnd);
   // Identifier-like columns cross as their bytes (the request's packValues), not a string per value.
-  return { type: 'done', result: { ...result, table: crossingTable(result.table) } };
+  return { type: 'done', id, result: { ...result, table: crossingTable(result.table) } };
 }
 
-function failure(error: unknown): FromSegmentWorker {
-  if (isLevelwiseError(error)) return { type: 'failed', code: error.code, message: error.message, hint: error.hint };
-  return { type: 'failed', code: null, message: error instanceof Error ? error.message : String(error), hint: '' };
+function failure(id: number, error: unknown): FromSegmentWorker {
+  if (isLevelwiseError(error)) return { type: 'failed', id, code: error.code, message: error.message, hint: error.hint };
+  return { type: 'failed', id, code: null, message: error instanceof Error ? error.message : String(error), hint: '' };
 }

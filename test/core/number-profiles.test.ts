@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { tableBuffers, type Table } from '../../src/core/columns.ts';
 import { concatTables } from '../../src/core/concat-tables.ts';
-import { NumberProfiles, profileNumberParts, requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../../src/core/number-profiles.ts';
+import { COLUMNS_IN_HAND, NumberProfiles, profileNumberParts, requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../../src/core/number-profiles.ts';
 import { DEFAULT_PROFILE_OPTIONS, profileTable, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../../src/core/profile.ts';
 import { rebaseRows } from '../../src/core/read-segment.ts';
 import { readTable } from '../../src/core/read-table.ts';
@@ -59,7 +59,7 @@ function heldProfiler(): { profiler: NumberPartsProfiler; requests: NumberPartsR
 const settle = (): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0));
 
 describe('number columns profiled on other threads', () => {
-  it('are what profileTable finds: the first from the parts, a later one from the joined table after the parts are given up', async () => {
+  it('are what profileTable finds: the first from the parts, a later one from the joined table after the parts are given up (one column in hand)', async () => {
     const { whole, parts } = wholeAndParts();
     expect(parts.map((part) => part.columns.map((column) => column.kind))).toEqual([
       ['number', 'number', 'number', 'text'],
@@ -68,7 +68,7 @@ describe('number columns profiled on other threads', () => {
     const expected = profileTable(whole, OPTIONS);
     const one = heldProfiler();
     const two = heldProfiler();
-    const shared = new NumberProfiles(parts, OPTIONS, [one.profiler, two.profiler]);
+    const shared = new NumberProfiles(parts, OPTIONS, [one.profiler, two.profiler], 1);
     // Both threads start at once, each on a column, with copies of both parts.
     expect([...one.requests, ...two.requests].map((r) => [r.index, r.rowCounts])).toEqual([
       [0, [FIRST_ROWS, ROWS - FIRST_ROWS]],
@@ -97,22 +97,28 @@ describe('number columns profiled on other threads', () => {
     expect(profiles[2]!.missingSpellings).toEqual([{ value: '-999', count: 138 }]);
   });
 
-  it('leave a column to this thread when no other thread is free to take it', async () => {
+  it('are handed out two to a thread at once, and a column no thread can take is left to this thread', async () => {
+    expect(COLUMNS_IN_HAND).toBe(2);
     const { whole, parts } = wholeAndParts();
     const one = heldProfiler();
     const shared = new NumberProfiles(parts, OPTIONS, [one.profiler]);
+    // The second is there for the thread when it finishes the first, whatever this thread is doing then.
+    expect(one.requests.map((r) => r.index)).toEqual([0, 1]);
     const table = joinAndGiveUp(parts);
     shared.joinedInto(table);
     const leftHere: number[] = [];
     const profiles = await profileTableSharing(table, OPTIONS, (_, index) => {
       const taken = shared.take(index);
       if (taken === null) leftHere.push(index);
-      // Still busy with column a while this thread asks for b and c; it answers after.
-      if (index === 2) one.answerNext();
+      // Still busy with columns a and b while this thread asks for c; it answers after.
+      if (index === 2) {
+        one.answerNext();
+        one.answerNext();
+      }
       return taken;
     });
-    expect(one.requests.map((r) => r.index)).toEqual([0]);
-    expect(leftHere).toEqual([1, 2]);
+    expect(one.requests.map((r) => r.index)).toEqual([0, 1]);
+    expect(leftHere).toEqual([2]);
     expect(profiles).toEqual(profileTable(whole, OPTIONS));
   });
 
