@@ -10,7 +10,7 @@ import { DEFAULT_MISSING_TOKENS, type Recipe } from '../../src/core/recipe.ts';
 import { WorkbenchClient } from '../../src/worker/client.ts';
 import { createInPagePort } from '../../src/worker/in-page-port.ts';
 import { Cancelled, WorkerProblem, type FromWorker, type OpenedTable } from '../../src/worker/protocol.ts';
-import { createSession, throttledProgress } from '../../src/worker/session.ts';
+import { createSession, PROGRESS_EVERY_MS, throttledProgress } from '../../src/worker/session.ts';
 import { buildXlsx } from '../e2e/helpers/xlsx.ts';
 
 const SMALL_CSV = 'id,colour,size,score\na1,red,S,1\na2,blue,M,2\na3,red,L,\na4,green,M,4\n';
@@ -255,12 +255,26 @@ async function until(condition: () => boolean): Promise<void> {
 describe('progress reports', () => {
   it('pass on only steps of half a percent, phase changes and the end', () => {
     const sent: [string, number][] = [];
-    const progress = throttledProgress((phase, done) => sent.push([phase, done]));
+    // A clock that moves on by a whole interval between reports: only the steps hold reports back.
+    let clock = 0;
+    const progress = throttledProgress((phase, done) => sent.push([phase, done]), () => (clock += PROGRESS_EVERY_MS));
     for (let done = 0; done <= 1000; done += 1) progress('reading', done, 1000);
     progress('profiling', 0, null);
     progress('profiling', 0, null);
     // 0, 5, 10, … 995 (every 0.5 %), then 1000 (the end), then the new phase once per report without a total.
     expect(sent.filter(([p]) => p === 'reading').map(([, d]) => d)).toEqual([...Array.from({ length: 200 }, (_, i) => i * 5), 1000]);
     expect(sent.filter(([p]) => p === 'profiling')).toHaveLength(2);
+  });
+
+  it('pass on at most one report of a phase per interval, but a phase change and the end at once', () => {
+    const sent: [string, number][] = [];
+    let clock = 0;
+    const progress = throttledProgress((phase, done) => sent.push([phase, done]), () => clock);
+    // 1,000 reports 1 ms apart, each a step of 0.1 %: one report per 100 ms gets through.
+    for (let done = 0; done < 1000; done += 1, clock += 1) progress('reading', done, 1000);
+    progress('reading', 1000, 1000);
+    progress('writing', 0, 1000);
+    expect(sent.map(([, d]) => d)).toEqual([0, 100, 200, 300, 400, 500, 600, 700, 800, 900, 1000, 0]);
+    expect(PROGRESS_EVERY_MS).toBe(100);
   });
 });
