@@ -7,11 +7,9 @@
  */
 import type { SegmentRequest, SegmentRunner } from '../core/parallel-read.ts';
 import type { SegmentResult } from '../core/read-segment.ts';
-import { requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
+import { NumberProfiles, requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
 import { profileTable, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
-import { NumberProfiles } from '../core/number-profiles.ts';
-import type { Table } from '../core/columns.ts';
-import { arrivedTable } from '../core/columns.ts';
+import { arrivedTable, type Table } from '../core/columns.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { Cancelled } from './protocol.ts';
 
