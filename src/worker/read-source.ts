@@ -150,7 +150,9 @@ async function readInSegments(
     const read = await parallel.finish(reader.finish());
     const shared = numberProfiles;
     if (profiling === null || shared === null) return { read, profiles: null };
-    // The parts are joined and given up now: columns the workers start from here on go from the table.
+    // The parts are joined and given up now: columns the workers start from here on go from the
+    // table. No worker's answer (which starts the next column) comes between the join and this line:
+    // the join ends finish(), and the await resumes here in the same task, before any message.
     shared.joinedInto(read.table);
     profiling.onStart();
     const profiles = await profileTableSharing(read.table, profiling.options, (_, index) => shared.take(index));
