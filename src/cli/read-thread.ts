@@ -39,7 +39,7 @@ import { rebaseRows, type SegmentResult } from '../core/read-segment.ts';
 import { NumberProfiles, profileNumberParts, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
-import { profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
+import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
 
 const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
@@ -206,7 +206,8 @@ export async function readTableInThreads(
     return { ...answer, table: arrivedTable(answer.table) };
   });
   // Number columns are profiled on the reading threads from their parts while this thread joins the table.
-  let numberProfiles: NumberProfiles | null = null;
+  // Set from the callback below; `as` keeps TypeScript from narrowing it to null for good.
+  let numberProfiles = null as NumberProfiles | null;
   const onPart = (parts: readonly Table[]): void => {
     if (profiling === null || workers.length === 0) return;
     const profilers = workers.map((_, w): NumberPartsProfiler => (request) => answerOf(inbox, w, { type: 'profile-parts', id: 0, ...request }));
@@ -235,7 +236,8 @@ export async function readTableInThreads(
       closeSync(fd);
     }
     const result = await parallel.finish(reader.finish());
-    const profiles = profiling === null ? null : await profileTableSharing(result.table, profiling, (_, index) => numberProfiles?.take(index) ?? null);
+    const shared = numberProfiles;
+    const profiles = profiling === null ? null : shared === null ? profileTable(result.table, profiling) : await shared.profile(result.table);
     return { ...result, profiles };
   } finally {
     await Promise.all(workers.map((worker) => worker.terminate()));

@@ -16,7 +16,7 @@
  */
 import type { NumberColumn, Table } from './columns.ts';
 import { concatColumns } from './concat-tables.ts';
-import { profileColumn, type ColumnProfile, type ProfileOptions } from './profile.ts';
+import { profileColumn, profileTableSharing, type ColumnProfile, type ProfileOptions } from './profile.ts';
 
 /** One number column's parts, in file order, with the rows each holds. */
 export interface NumberPartsRequest {
@@ -81,6 +81,11 @@ export class NumberProfiles {
    */
   joinedInto(table: Table): void {
     this.parts = [table];
+  }
+
+  /** profileTable's profiles of `table`: its number columns from the other threads where they have them. */
+  profile(table: Table): Promise<ColumnProfile[]> {
+    return profileTableSharing(table, this.options, (_, index) => this.take(index));
   }
 
   /** The profile of column `index` from another thread, or null when none has it or can take it. */

@@ -12,7 +12,7 @@ import { createTableReader, readTableFromSource, tableFromRows, type Delimiter, 
 import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
 import { NumberProfiles } from '../core/number-profiles.ts';
-import { profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
+import type { ColumnProfile, ProfileOptions } from '../core/profile.ts';
 import { pageLimit, tooLargeForPage } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
 import type { Table } from '../core/columns.ts';
@@ -155,7 +155,7 @@ async function readInSegments(
     // the join ends finish(), and the await resumes here in the same task, before any message.
     shared.joinedInto(read.table);
     profiling.onStart();
-    const profiles = await profileTableSharing(read.table, profiling.options, (_, index) => shared.take(index));
+    const profiles = await shared.profile(read.table);
     return { read, profiles };
   } finally {
     pool.close();

@@ -8,7 +8,7 @@
 import type { SegmentRequest, SegmentRunner } from '../core/parallel-read.ts';
 import type { SegmentResult } from '../core/read-segment.ts';
 import { NumberProfiles, requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
-import { profileTable, profileTableSharing, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
+import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
 import { arrivedTable, type Table } from '../core/columns.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { Cancelled } from './protocol.ts';
@@ -187,8 +187,7 @@ export async function profileSharingWorkers(table: Table, options: ProfileOption
   if (count <= 0 || table.rowCount < SHARE_PROFILING_FROM_ROWS) return profileTable(table, options);
   const pool = openSegmentPool(null, count, signal, () => undefined);
   try {
-    const shared = new NumberProfiles([table], options, pool.profilers);
-    return await profileTableSharing(table, options, (_, index) => shared.take(index));
+    return await new NumberProfiles([table], options, pool.profilers).profile(table);
   } catch (error) {
     if (error instanceof SegmentWorkerFailure && !signal.aborted) return profileTable(table, options);
     throw error;

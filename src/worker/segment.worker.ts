@@ -10,7 +10,7 @@ import { isLevelwiseError } from '../core/errors.ts';
 import { segmentReaderFor, type SegmentRequest } from '../core/parallel-read.ts';
 import { profileNumberParts } from '../core/number-profiles.ts';
 import type { FromSegmentWorker, ToSegmentWorker } from './segment-pool.ts';
-import { warmUp } from './warm-up.ts';
+import { warmUpUntilMessage } from './warm-up.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope; // the DOM lib types `self` as Window
 /** Progress is told every this many bytes. */
@@ -34,11 +34,8 @@ scope.addEventListener('message', (event: MessageEvent<ToSegmentWorker>) => {
 });
 
 // Segment workers are started ahead of need (segment-pool.ts warmSegmentWorkers): the reader and
-// the number profile run once now, so that a big file's segment does not run them cold. The first
-// request stops the warm-up wherever it is.
-let requested = false;
-scope.addEventListener('message', () => void (requested = true));
-void warmUp({ stop: () => requested, pause: () => new Promise((resolve) => setTimeout(resolve, 0)) }).catch(() => undefined);
+// the number profile run once now, so that a big file's segment does not run them cold.
+warmUpUntilMessage(scope);
 
 async function readSegment(id: number, file: Blob, request: SegmentRequest): Promise<FromSegmentWorker> {
   const { job } = request;

@@ -42,3 +42,22 @@ export async function warmUp({ rows = WARM_UP_ROWS, stop = () => false, pause = 
   }
   return profiled;
 }
+
+/** What warmUpUntilMessage needs of a worker's global scope. */
+interface MessageScope {
+  addEventListener(type: 'message', listener: () => void): void;
+  removeEventListener(type: 'message', listener: () => void): void;
+}
+
+/**
+ * Runs the warm-up now, in slices that let messages in, until the first message `scope` receives:
+ * a real request is never kept waiting for more than a slice.
+ */
+export function warmUpUntilMessage(scope: MessageScope): void {
+  let spoken = false;
+  const listener = (): void => void (spoken = true);
+  scope.addEventListener('message', listener);
+  void warmUp({ stop: () => spoken, pause: () => new Promise((resolve) => setTimeout(resolve, 0)) })
+    .catch(() => undefined) // only a head start: a failure here would come again, with its message, on a real request
+    .finally(() => scope.removeEventListener('message', listener));
+}

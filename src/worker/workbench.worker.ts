@@ -6,7 +6,7 @@
 import type { ToWorker } from './protocol.ts';
 import { readingThreadCount, warmSegmentWorkers } from './segment-pool.ts';
 import { createSession } from './session.ts';
-import { warmUp } from './warm-up.ts';
+import { warmUpUntilMessage } from './warm-up.ts';
 
 /** How long after start the segment workers are started: after the demo's first preview. */
 const WARM_AFTER_MS = 2000;
@@ -17,10 +17,7 @@ scope.addEventListener('message', (event: MessageEvent<ToWorker>) => session.rec
 // Segment workers for big files, started once the page has settled, so that a big file's read
 // does not wait for them (segment-pool.ts); and the reader run once here too (warm-up.ts), until
 // the first message after that: a big file's first segment, read here, is then not read cold.
-let spoken = false;
-scope.addEventListener('message', () => void (spoken = true));
 setTimeout(() => {
   warmSegmentWorkers(readingThreadCount() - 1);
-  spoken = false;
-  void warmUp({ stop: () => spoken, pause: () => new Promise((resolve) => setTimeout(resolve, 0)) }).catch(() => undefined);
+  warmUpUntilMessage(scope);
 }, WARM_AFTER_MS);
