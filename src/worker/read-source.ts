@@ -16,7 +16,7 @@ import type { ColumnProfile, ProfileOptions } from '../core/profile.ts';
 import { pageLimit, tooLargeForPage } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
 import type { Table } from '../core/columns.ts';
-import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, SegmentWorkerFailure, readingThreadCount } from './segment-pool.ts';
+import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, profileOrHere, SegmentWorkerFailure, readingThreadCount } from './segment-pool.ts';
 
 export interface ReadProgress {
   (done: number, total: number | null): void;
@@ -155,7 +155,7 @@ async function readInSegments(
     // the join ends finish(), and the await resumes here in the same task, before any message.
     shared.joinedInto(read.table);
     profiling.onStart();
-    const profiles = await shared.profile(read.table);
+    const profiles = await profileOrHere(shared, read.table, profiling.options, signal);
     return { read, profiles };
   } finally {
     pool.close();

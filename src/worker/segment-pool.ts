@@ -27,7 +27,9 @@ export type FromSegmentWorker =
   | { readonly type: 'profile'; readonly id: number; readonly profile: ColumnProfile }
   | { readonly type: 'failed'; readonly id: number; readonly code: string | null; readonly message: string; readonly hint: string };
 
-type Answer = Extract<FromSegmentWorker, { type: 'done' | 'profile' }>;
+/** The reply that ends a request: its answer, or its failure. */
+type FinalReply = Exclude<FromSegmentWorker, { type: 'progress' }>;
+type Answer = Exclude<FinalReply, { type: 'failed' }>;
 
 /** Files below this size are read on one thread: starting workers would cost more than it saves. */
 export const PARALLEL_FROM_BYTES = 16 << 20;
@@ -84,7 +86,7 @@ export function warmSegmentWorkers(count: number): void {
 export function openSegmentPool(file: Blob | null, count: number, signal: AbortSignal, onBytes: (bytes: number) => void): SegmentPool {
   const workers: Worker[] = [];
   /** Requests not yet answered, by id. */
-  const pending = new Map<number, { readonly worker: Worker; readonly settle: (reply: FromSegmentWorker | Error) => void }>();
+  const pending = new Map<number, { readonly worker: Worker; readonly settle: (reply: FinalReply | Error) => void }>();
   let nextId = 1;
   /** Cancelled, or a worker failed: no worker of this pool is kept for the next read. */
   let spoiled = false;
@@ -139,10 +141,9 @@ export function openSegmentPool(file: Blob | null, count: number, signal: AbortS
         return;
       }
       const id = nextId++;
-      const settle = (reply: FromSegmentWorker | Error): void => {
+      const settle = (reply: FinalReply | Error): void => {
         if (reply instanceof Error) reject(reply);
         else if (reply.type === 'failed') reject(reply.code === null ? new SegmentWorkerFailure(reply.message) : new LevelwiseError(reply.code, reply.message, { hint: reply.hint }));
-        else if (reply.type === 'progress') reject(new SegmentWorkerFailure('a progress message as an answer'));
         else {
           try {
             resolve(answer(reply));
@@ -187,11 +188,21 @@ export async function profileSharingWorkers(table: Table, options: ProfileOption
   if (count <= 0 || table.rowCount < SHARE_PROFILING_FROM_ROWS) return profileTable(table, options);
   const pool = openSegmentPool(null, count, signal, () => undefined);
   try {
-    return await new NumberProfiles([table], options, pool.profilers).profile(table);
+    return await profileOrHere(new NumberProfiles([table], options, pool.profilers), table, options, signal);
+  } finally {
+    pool.close();
+  }
+}
+
+/**
+ * `shared.profile(table)`; when a segment worker breaks down meanwhile, profileTable on this thread:
+ * the table is read, so nothing is read again.
+ */
+export async function profileOrHere(shared: NumberProfiles, table: Table, options: ProfileOptions, signal: AbortSignal): Promise<ColumnProfile[]> {
+  try {
+    return await shared.profile(table);
   } catch (error) {
     if (error instanceof SegmentWorkerFailure && !signal.aborted) return profileTable(table, options);
     throw error;
-  } finally {
-    pool.close();
   }
 }

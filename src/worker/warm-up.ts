@@ -1,6 +1,7 @@
 /**
- * A segment worker's first run of the reader and of the number profile, on invented data, while the
- * page waits for a file. Run cold on a big file's segment, V8 has not optimised them yet: reading
+ * A worker's first run of the reader and of the number profile, on invented data, while the page
+ * waits for a file: the segment workers and the workbench's worker, which reads a big file's first
+ * segment. Run cold on a big file's segment, V8 has not optimised them yet: reading
  * 60 MB of the benchmark file took ~810 ms cold against ~720 ms after this, and profiling its two
  * number columns ~160 against ~115 ms (Node 20). The warm-up costs ~0.3 s of a thread that has
  * nothing else to do, in slices of a few milliseconds: a request that comes meanwhile stops it.

@@ -6,10 +6,19 @@
  */
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import type { NumberColumn } from '../../src/core/columns.ts';
-import type { NumberPartsRequest } from '../../src/core/number-profiles.ts';
-import { DEFAULT_PROFILE_OPTIONS, type ColumnProfile } from '../../src/core/profile.ts';
+import { profileNumberParts, type NumberPartsRequest } from '../../src/core/number-profiles.ts';
+import { DEFAULT_PROFILE_OPTIONS, profileTable, type ColumnProfile } from '../../src/core/profile.ts';
+import { readTable } from '../../src/core/read-table.ts';
 import { Cancelled } from '../../src/worker/protocol.ts';
-import { openSegmentPool, SegmentWorkerFailure, warmSegmentWorkers, type FromSegmentWorker, type ToSegmentWorker } from '../../src/worker/segment-pool.ts';
+import {
+  openSegmentPool,
+  profileSharingWorkers,
+  SegmentWorkerFailure,
+  SHARE_PROFILING_FROM_ROWS,
+  warmSegmentWorkers,
+  type FromSegmentWorker,
+  type ToSegmentWorker,
+} from '../../src/worker/segment-pool.ts';
 
 /** A Worker that keeps what it is sent and answers when the test says. */
 class StandInWorker {
@@ -33,8 +42,11 @@ class StandInWorker {
 }
 
 const realWorker = (globalThis as { Worker?: unknown }).Worker;
+const realNavigator = Object.getOwnPropertyDescriptor(globalThis, 'navigator');
 beforeEach(() => {
   (globalThis as { Worker?: unknown }).Worker = StandInWorker;
+  // Two cores: the workbench's worker and one segment worker (segment-pool.ts readingThreadCount).
+  Object.defineProperty(globalThis, 'navigator', { value: { hardwareConcurrency: 2 }, configurable: true });
   // Workers a test left idle would be taken by the next: a cancelled pool takes them and stops them.
   const drain = new AbortController();
   openSegmentPool(null, 8, drain.signal, () => undefined);
@@ -43,6 +55,8 @@ beforeEach(() => {
 });
 afterEach(() => {
   (globalThis as { Worker?: unknown }).Worker = realWorker;
+  if (realNavigator === undefined) delete (globalThis as { navigator?: unknown }).navigator;
+  else Object.defineProperty(globalThis, 'navigator', realNavigator);
 });
 
 function request(index: number): NumberPartsRequest {
@@ -105,5 +119,46 @@ describe('the segment pool', () => {
     expect(workers.map((w) => w.terminated)).toEqual([true, true]);
     // A request after the cancel is refused at once.
     await expect(pool.profilers[0]!(request(1))).rejects.toBeInstanceOf(Cancelled);
+  });
+});
+
+describe('a table profiled again on the segment workers', () => {
+  // 120,000 invented readings, past the size from which the number columns are sent: two columns
+  // kept as numbers (more distinct values than a dictionary keeps), one text column.
+  const rows = Array.from({ length: SHARE_PROFILING_FROM_ROWS + 20_000 }, (_, i) => `${i * 3},${i % 97 === 0 ? 'NA' : (i / 8).toFixed(3)},${['a', 'b'][i % 2]}`);
+  const table = readTable(new TextEncoder().encode(`x,y,z\n${rows.join('\n')}\n`)).table;
+  const options = { missingTokens: ['NA'] };
+
+  /** Lets the pool post its requests and the stand-in's answers come back. */
+  const answerEachRequest = async (answer: (worker: StandInWorker, message: Extract<ToSegmentWorker, { type: 'profile' }>) => void, done: Promise<unknown>): Promise<void> => {
+    const answered = new Set<number>();
+    while (!(await Promise.race([done.then(() => true, () => true), new Promise<false>((r) => setTimeout(() => r(false), 1))]))) {
+      for (const worker of StandInWorker.made) {
+        for (const { message } of worker.sent) {
+          if (message.type !== 'profile' || answered.has(message.id)) continue;
+          answered.add(message.id);
+          answer(worker, message);
+        }
+      }
+    }
+  };
+
+  it('gives profileTable\'s profiles, its number columns answered by a segment worker', async () => {
+    expect(table.columns.map((c) => c.kind)).toEqual(['number', 'number', 'text']);
+    const profiling = profileSharingWorkers(table, options, new AbortController().signal);
+    await answerEachRequest((worker, message) => worker.reply({ type: 'profile', id: message.id, profile: profileNumberParts(message.request) }), profiling);
+    expect(await profiling).toEqual(profileTable(table, options));
+    // Both number columns went to the one segment worker (two in hand), as one part each: the table's.
+    const sent = StandInWorker.made.flatMap((w) => w.sent.map((s) => s.message)).filter((m) => m.type === 'profile');
+    expect(sent.map((m) => [m.request.index, m.request.rowCounts])).toEqual([
+      [0, [table.rowCount]],
+      [1, [table.rowCount]],
+    ]);
+  });
+
+  it('profiles here when the segment worker breaks down, without failing', async () => {
+    const profiling = profileSharingWorkers(table, options, new AbortController().signal);
+    await answerEachRequest((worker) => worker.onerror?.({ message: 'the worker crashed' } as ErrorEvent), profiling);
+    expect(await profiling).toEqual(profileTable(table, options));
   });
 });
