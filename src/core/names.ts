@@ -70,9 +70,14 @@ export function nameOutputs(recipe: Recipe): Recipe {
     used.add(name);
     return name;
   };
-  const columns = recipe.columns.map((column) => ({
-    ...column,
-    outputs: labelsOf(column).map((label) => unique(spell(column.name, label, recipe.naming))),
-  }));
+  const columns = recipe.columns.map((column) => {
+    const outputs = labelsOf(column).map((label) => unique(spell(column.name, label, recipe.naming)));
+    // A column whose names did not change stays the same object: the page redraws only what changed.
+    return sameNames(outputs, column.outputs) ? column : { ...column, outputs };
+  });
   return { ...recipe, columns };
+}
+
+function sameNames(a: readonly string[], b: readonly string[] | undefined): boolean {
+  return b !== undefined && a.length === b.length && a.every((name, i) => name === b[i]);
 }

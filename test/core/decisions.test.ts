@@ -148,3 +148,17 @@ describe('numericSummaryIn', () => {
     );
   });
 });
+
+describe('decide', () => {
+  it('keeps every column it did not change as the same object, so that a page redraws only the changed one', () => {
+    const table = columnTable('amount', ['1', '2', '3', '2', '1']);
+    const profiles = profileTable(table, { missingTokens: DEFAULT_MISSING_TOKENS });
+    const recipe = draftRecipe(profiles, { file: null, rows: table.rowCount });
+    const decided = decide(recipe, { type: 'set-level', column: 'amount', level: 'nominal' }, profiles);
+    decided.columns.forEach((column, i) => {
+      if (column.name === 'amount') expect(column).not.toBe(recipe.columns[i]);
+      else expect(column).toBe(recipe.columns[i]);
+    });
+    expect(decided.columns.filter((c) => c !== recipe.columns[decided.columns.indexOf(c)]).map((c) => c.name)).toEqual(['amount']);
+  });
+});

@@ -4,7 +4,7 @@
  * the arrow keys, Home and End move through the columns and selection follows focus.
  */
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { useEffect, useId, useRef, type KeyboardEvent } from 'react';
+import { memo, useCallback, useEffect, useId, useRef, type KeyboardEvent } from 'react';
 import type { ColumnProfile } from '../../core/profile.ts';
 import type { ColumnRecipe, Recipe } from '../../core/recipe.ts';
 import { chartFor } from './chart-data.ts';
@@ -42,6 +42,11 @@ export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Colu
   const selectedIndex = profiles.findIndex((p) => p.name === selected);
   const tabbableIndex = selectedIndex >= 0 ? selectedIndex : 0;
   const windowed = profiles.length > WINDOWED_ABOVE;
+  // Rows are redrawn only when their own column changes (a decision redraws one row, not all):
+  // what they are handed must keep its identity from one drawing of the list to the next.
+  const latestOnSelect = useRef(onSelect);
+  latestOnSelect.current = onSelect;
+  const select = useCallback((name: string) => latestOnSelect.current(name), []);
   const virtualizer = useVirtualizer({
     count: windowed ? profiles.length : 0,
     // The list scrolls inside the pane around it.
@@ -71,7 +76,7 @@ export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Colu
       pendingFocus.current = target.name;
       virtualizer.scrollToIndex(at, { align: 'auto' });
     }
-    if (target.name !== selected) onSelect(target.name);
+    if (target.name !== selected) select(target.name);
   };
 
   const onKeyDown = (event: KeyboardEvent<HTMLUListElement>) => {
@@ -86,6 +91,16 @@ export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Colu
     event.preventDefault();
   };
 
+  const register = useCallback(
+    (name: string, node: HTMLLIElement | null, measure: boolean) => {
+      if (node) {
+        optionRefs.current.set(name, node);
+        if (measure) virtualizer.measureElement(node);
+      } else optionRefs.current.delete(name);
+    },
+    [virtualizer],
+  );
+
   const row = (index: number, placed?: { readonly start: number }) => {
     const profile = profiles[index];
     if (profile === undefined) return null;
@@ -98,14 +113,9 @@ export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Colu
         selected={profile.name === selected}
         // In a windowed list the row drawn first holds the tab stop when the selected one is not drawn.
         tabbable={index === tabbableIndex}
-        onSelect={onSelect}
+        onSelect={select}
         {...(placed === undefined ? {} : { index, setSize: profiles.length, top: placed.start })}
-        register={(node) => {
-          if (node) {
-            optionRefs.current.set(profile.name, node);
-            if (placed !== undefined) virtualizer.measureElement(node);
-          } else optionRefs.current.delete(profile.name);
-        }}
+        register={register}
       />
     );
   };
@@ -142,15 +152,16 @@ interface ColumnRowProps {
   readonly selected: boolean;
   readonly tabbable: boolean;
   readonly onSelect: (name: string) => void;
-  readonly register: (node: HTMLLIElement | null) => void;
+  /** Told of the row's element (null when it goes); `measure` in a windowed list, whose rows are measured. */
+  readonly register: (name: string, node: HTMLLIElement | null, measure: boolean) => void;
 }
 
-function ColumnRow({ id, profile, column, selected, tabbable, onSelect, register, index, setSize, top }: ColumnRowProps) {
+const ColumnRow = memo(function ColumnRow({ id, profile, column, selected, tabbable, onSelect, register, index, setSize, top }: ColumnRowProps) {
   const chart = column ? chartFor(profile, column) : null;
   const outputs = column?.outputs.length ?? 0;
   return (
     <li
-      ref={register}
+      ref={(node) => register(profile.name, node, index !== undefined)}
       id={id}
       role="option"
       aria-selected={selected}
@@ -186,4 +197,4 @@ function ColumnRow({ id, profile, column, selected, tabbable, onSelect, register
       </p>
     </li>
   );
-}
+});

@@ -2,8 +2,16 @@
 import { cleanup, render, screen, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { afterEach, describe, expect, it, vi } from 'vitest';
+import { decide } from '../../../src/core/decisions.ts';
+import { chartFor } from '../../../src/ui/columns/chart-data.ts';
 import { ColumnList } from '../../../src/ui/columns/ColumnList.tsx';
 import { KWH_HISTOGRAM, surveyProfiles, surveyRecipe } from '../fixtures.ts';
+
+// The real chartFor, counted: a row that is drawn again makes its chart again.
+vi.mock('../../../src/ui/columns/chart-data.ts', async (importOriginal) => {
+  const actual = await importOriginal<typeof import('../../../src/ui/columns/chart-data.ts')>();
+  return { ...actual, chartFor: vi.fn(actual.chartFor) };
+});
 
 afterEach(cleanup);
 
@@ -120,5 +128,15 @@ describe('ColumnList', () => {
     renderList(null);
     expect(row('household_id').tabIndex).toBe(0);
     expect(screen.getAllByRole('option').filter((o) => o.tabIndex === 0)).toHaveLength(1);
+  });
+
+  it('draws again only the row of the column a decision changed, whatever callback the page passes', () => {
+    const { view } = renderList('heating');
+    vi.mocked(chartFor).mockClear();
+    const decided = decide(surveyRecipe, { type: 'set-nominal-coding', column: 'heating', coding: 'dummy' }, surveyProfiles);
+    // A new callback on every drawing, as a page that writes it inline passes.
+    view.rerender(<ColumnList profiles={surveyProfiles} recipe={decided} selected="heating" onSelect={() => undefined} />);
+    expect(vi.mocked(chartFor).mock.calls.map(([, column]) => column.name)).toEqual(['heating']);
+    expect(row('heating').textContent).toContain('6 output columns'); // dummy coding: one level fewer than one-hot's 7
   });
 });
