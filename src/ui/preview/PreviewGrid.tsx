@@ -5,7 +5,7 @@
  * (@tanstack/react-table) gives the grouped headers and column offsets; the virtualisers
  * (@tanstack/react-virtual) give what is on screen.
  */
-import { useEffect, useMemo, useRef } from 'react';
+import { memo, useEffect, useMemo, useRef } from 'react';
 import {
   columnSizingFeature,
   createColumnHelper,
@@ -72,7 +72,11 @@ function useColumns(groups: readonly PreviewGroup[], columnCount: number, window
   );
 }
 
-export function PreviewGrid({ groups, columnCount, rowCount, window, selected, onSelect, onVisibleRows }: PreviewGridProps) {
+/**
+ * Drawn again only when what it shows changes: a decision redraws the page around it at once, and
+ * the grid only when the worker has encoded the rows for the new recipe.
+ */
+export const PreviewGrid = memo(function PreviewGrid({ groups, columnCount, rowCount, window, selected, onSelect, onVisibleRows }: PreviewGridProps) {
   const scrollRef = useRef<HTMLDivElement>(null);
   const windowRef = useRef<PreviewWindow | null>(window);
   windowRef.current = window;
@@ -218,7 +222,7 @@ export function PreviewGrid({ groups, columnCount, rowCount, window, selected, o
       </div>
     </div>
   );
-}
+});
 
 type AnyHeader = Header<Features, RowRef, unknown>;
 
