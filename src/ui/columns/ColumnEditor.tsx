@@ -4,7 +4,7 @@
  * names follow. The editor holds no recipe state: every change is a Decision handed to the parent,
  * which re-renders it with the new recipe column.
  */
-import { useId } from 'react';
+import { memo, useId } from 'react';
 import type { Decision } from '../../core/decisions.ts';
 import { sensitiveAttributeCaution } from '../../core/infer.ts';
 import type { ColumnProfile } from '../../core/profile.ts';
@@ -28,7 +28,8 @@ export interface ColumnEditorProps {
   onDecide(d: Decision): void;
 }
 
-export function ColumnEditor({ profile, column, onDecide }: ColumnEditorProps) {
+/** Drawn again only when its column, profile or callback changes: not when the worker's preview comes back. */
+export const ColumnEditor = memo(function ColumnEditor({ profile, column, onDecide }: ColumnEditorProps) {
   const headingId = useId();
   return (
     <section className="lw-editor" aria-labelledby={headingId} data-column={column.name}>
@@ -67,7 +68,7 @@ export function ColumnEditor({ profile, column, onDecide }: ColumnEditorProps) {
       </Panel>
     </section>
   );
-}
+});
 
 /** The usual caution, shown where the decision is made, when the column's name suggests data about people. */
 function SensitiveCaution({ name }: { readonly name: string }) {
