@@ -26,6 +26,7 @@ import { applyFromFile, readTableFromFile } from './lib/paths.ts';
 import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
 import {
   cpuNote,
+  spreadNote,
   renderTable,
   rssVerdict,
   sizeVerdicts,
@@ -328,6 +329,8 @@ async function main(): Promise<void> {
     const reference = sizes.find((size) => size.rows === REFERENCE_ROWS);
     const cpu = reference === undefined ? null : cpuNote(reference);
     if (cpu !== null) notes.push(cpu);
+    const spread = reference === undefined ? null : spreadNote(reference);
+    if (spread !== null) notes.push(spread);
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
     const loadAtEnd = loadavg()[0] ?? NaN;
     // The page side (bench/page.ts) after the Node measurements, when /usr/bin/chromium exists.

@@ -112,6 +112,24 @@ export function cpuNote(size: SizeResult): string | null {
   return `CPU time at ${size.rows.toLocaleString('en-US')} rows (every thread, start-up included; medians): ${parts.join(', ')}${parse}`;
 }
 
+/**
+ * Each repetition's own ratios at one size: every repetition runs papaparse and the command line on
+ * the same file one after the other, so its ratios are side by side; their spread shows how much a
+ * verdict on the medians owes to the hour. Null without papaparse or with repetitions missing.
+ */
+export function spreadNote(size: SizeResult): string | null {
+  const parse = size.parse?.runsSeconds;
+  if (parse === undefined) return null;
+  const ratios = (name: string, path: Timing | null): string[] => {
+    const runs = path?.runsSeconds;
+    if (runs === undefined || runs.length !== parse.length || runs.length < 2) return [];
+    return [`${name} ${runs.map((seconds, i) => `${(seconds / parse[i]!).toFixed(2)}×`).join(', ')}`];
+  };
+  const parts = [...ratios('levelwise draft', size.profileThreads), ...ratios('apply', size.apply)];
+  if (parts.length === 0) return null;
+  return `at ${size.rows.toLocaleString('en-US')} rows, each repetition's time ÷ papaparse's in the same repetition: ${parts.join('; ')}`;
+}
+
 export function rssVerdict(sizes: readonly SizeResult[], referenceRows: number): BenchResults['rssLargeOverReference'] {
   const reference = sizes.find((s) => s.rows === referenceRows)?.apply?.peakRssBytes ?? NaN;
   const large = [...sizes].reverse().find((s) => s.rows > referenceRows && s.apply !== null);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cpuNote, renderTable, rssVerdict, sizeVerdicts, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
+import { cpuNote, renderTable, rssVerdict, sizeVerdicts, spreadNote, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
 
 const MB = 1e6;
 
@@ -38,6 +38,22 @@ describe('benchmark report', () => {
       "CPU time at 1,000,000 rows (every thread, start-up included; medians): levelwise draft 3.10 s over 2.00 s of wall clock, levelwise apply 3.55 s over 2.40 s of wall clock; papaparse's parse alone 1.00 s on one thread",
     );
     expect(cpuNote(sizes[0]!)).toBeNull();
+  });
+
+  it('gives each repetition\'s own ratios, papaparse taken from the same repetition', () => {
+    // Three repetitions: papaparse 1.0, 2.0, 1.6 s; draft 2.0, 2.2, 2.4 s; apply 2.5, 3.0, 4.0 s.
+    const measured: SizeResult = {
+      ...sizes[0]!,
+      parse: timing([1, 2, 1.6], 120 * MB),
+      profileThreads: timing([2, 2.2, 2.4], 120 * MB),
+      apply: { ...sizes[0]!.apply!, ...timing([2.5, 3, 4], 120 * MB) },
+    };
+    expect(spreadNote(measured)).toBe(
+      "at 1,000,000 rows, each repetition's time ÷ papaparse's in the same repetition: levelwise draft 2.00×, 1.10×, 1.50×; apply 2.50×, 1.50×, 2.50×",
+    );
+    // One repetition says nothing about spread; without papaparse there is nothing to divide by.
+    expect(spreadNote(sizes[0]!)).toBeNull();
+    expect(spreadNote({ ...measured, parse: null })).toBeNull();
   });
 
   it('has no memory verdict without a size above 1M rows', () => {
