@@ -26,10 +26,10 @@ import { applyFromFile, readTableFromFile } from './lib/paths.ts';
 import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
 import {
   cpuNote,
-  spreadNote,
   renderTable,
   rssVerdict,
   sizeVerdicts,
+  spreadNote,
   TABLE_HEADER,
   tableRows,
   timing,

@@ -4,7 +4,7 @@
  * the arrow keys, Home and End move through the columns and selection follows focus.
  */
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { memo, useCallback, useEffect, useId, useRef, type KeyboardEvent } from 'react';
+import { memo, useCallback, useEffect, useId, useLayoutEffect, useRef, type KeyboardEvent } from 'react';
 import type { ColumnProfile } from '../../core/profile.ts';
 import type { ColumnRecipe, Recipe } from '../../core/recipe.ts';
 import { chartFor } from './chart-data.ts';
@@ -45,7 +45,9 @@ export function ColumnList({ profiles, recipe, selected, onSelect, label = 'Colu
   // Rows are redrawn only when their own column changes (a decision redraws one row, not all):
   // what they are handed must keep its identity from one drawing of the list to the next.
   const latestOnSelect = useRef(onSelect);
-  latestOnSelect.current = onSelect;
+  useLayoutEffect(() => {
+    latestOnSelect.current = onSelect;
+  });
   const select = useCallback((name: string) => latestOnSelect.current(name), []);
   const virtualizer = useVirtualizer({
     count: windowed ? profiles.length : 0,
