@@ -16,10 +16,13 @@
  *     bytes when the column kept them so (columns.ts `withPackedValues`), no string made.
  * All pieces live in one byte array. A batch is first turned into a piece number per row and
  * column, column by column; the row loop then only copies bytes, the same way for every column.
+ * Adjacent categorical columns share their pieces: a piece for each combination of their levels
+ * (while there are at most JOINT_PIECES_LIMIT), so the row loop copies one piece where it would
+ * copy several small ones (the dozen categorical columns of a survey export become four pieces).
  */
 import { cellText, type Column, type PackedTexts } from './columns.ts';
 import { numberCell, textCell } from './csv-cell.ts';
-import type { EncodedBatch, EncodedColumn } from './apply.ts';
+import type { EncodedBatch } from './apply.ts';
 import { ALL_ZEROS, type CategoricalPlan, type Plan } from './plan.ts';
 
 export const LINE_END = '\r\n';
@@ -32,6 +35,13 @@ const QUOTE = 34;
 const NUMBER_CACHE_LIMIT = 1 << 18;
 /** The row loop copies four bytes at a time, so it may run up to three bytes past a piece's end. */
 const COPY_SLACK = 3;
+/**
+ * Adjacent categorical columns are written as one piece per combination of their levels while the
+ * combinations number at most this, and their bytes at most JOINT_BYTES_LIMIT: the pieces then
+ * stay few enough to be made at once and at hand in the processor's cache.
+ */
+export const JOINT_PIECES_LIMIT = 4096;
+const JOINT_BYTES_LIMIT = 1 << 20;
 
 export interface CsvWriter {
   writeHeader(): void;
@@ -45,8 +55,8 @@ export interface CsvWriter {
  * `sink` receives filled parts; it must copy or consume them before returning, because the buffer
  * is reused (the CLI writes them, the page copies them into Blob parts).
  */
-export function createCsvWriter(plan: Plan, sink: (bytes: Uint8Array) => void, bufferBytes = DEFAULT_BUFFER_BYTES): CsvWriter {
-  return new BufferedCsvWriter(plan, sink, bufferBytes);
+export function createCsvWriter(plan: Plan, sink: (bytes: Uint8Array) => void, bufferBytes = DEFAULT_BUFFER_BYTES, jointLimit = JOINT_PIECES_LIMIT): CsvWriter {
+  return new BufferedCsvWriter(plan, sink, bufferBytes, jointLimit);
 }
 
 /** What comes before and after a column's cells: a comma unless it is the first, a line end after the last. */
@@ -259,11 +269,32 @@ function slotOf(low: number, high: number, missing: number): number {
   return h ^ (h >>> 16);
 }
 
-/** How one written column turns its part of a batch into pieces. */
-type ColumnWriter =
-  | { readonly kind: 'levels'; readonly first: number; readonly longest: number; readonly indicator: boolean }
-  | { readonly kind: 'numbers'; readonly numbers: NumberPieces }
-  | { readonly kind: 'text'; readonly separators: Separators };
+/**
+ * How one part of a written row (a piece per row) is made from a batch: a run of adjacent
+ * categorical columns, or one continuous or identifier column. `column` is the plan's column.
+ */
+type RowPart =
+  | { readonly kind: 'levels'; readonly members: readonly LevelMember[]; readonly first: number; readonly longest: number }
+  | { readonly kind: 'numbers'; readonly column: number; readonly numbers: NumberPieces }
+  | { readonly kind: 'text'; readonly column: number; readonly separators: Separators };
+
+/**
+ * A categorical column within its run: its key is level + 1 (0 for the all-zero row), times two
+ * plus the missing flag when it writes a missing indicator; the run's piece is `first` plus the
+ * sum of its members' keys times their strides.
+ */
+interface LevelMember {
+  readonly column: number;
+  readonly indicator: boolean;
+  readonly stride: number;
+}
+
+/** A categorical column of a run being formed, with its cells for each key (levelPatterns). */
+interface RunMember {
+  readonly column: number;
+  readonly indicator: boolean;
+  readonly patterns: readonly string[];
+}
 
 class BufferedCsvWriter implements CsvWriter {
   private readonly plan: Plan;
@@ -274,9 +305,8 @@ class BufferedCsvWriter implements CsvWriter {
   /** Bytes of `buffer` in use. */
   private used = 0;
   private total = 0;
-  /** The plan's columns that write cells (not excluded, not zero-width), in order, and how. */
-  private readonly written: readonly number[];
-  private readonly writers: readonly ColumnWriter[];
+  /** The parts of a written row, in order. */
+  private readonly parts: readonly RowPart[];
   /**
    * Every piece: first the levels' (for good), then the numbers' (across batches, until there are
    * too many), then the current batch's text cells.
@@ -287,20 +317,12 @@ class BufferedCsvWriter implements CsvWriter {
   /** The piece of each row and written column of a batch, row by row; reused by the next batch. */
   private pieceOf = new Int32Array(0);
 
-  constructor(plan: Plan, sink: (bytes: Uint8Array) => void, bufferBytes: number) {
+  constructor(plan: Plan, sink: (bytes: Uint8Array) => void, bufferBytes: number, jointLimit: number) {
     this.plan = plan;
     this.sink = sink;
     this.buffer = new Uint8Array(Math.max(bufferBytes, 64));
     this.view = new DataView(this.buffer.buffer, this.buffer.byteOffset, this.buffer.byteLength);
-    this.written = plan.columns.flatMap((c, i) => (c.width > 0 && c.kind !== 'excluded' ? [i] : []));
-    const last = this.written.length - 1;
-    this.writers = this.written.map((c, w): ColumnWriter => {
-      const column = plan.columns[c]!;
-      const separators = { before: w === 0 ? '' : ',', after: w === last ? LINE_END : '' };
-      if (column.kind === 'categorical') return levelPieces(column, separators, this.pieces);
-      if (column.kind === 'continuous') return { kind: 'numbers', numbers: new NumberPieces(this.pieces, column.indicator, separators) };
-      return { kind: 'text', separators };
-    });
+    this.parts = rowParts(plan, this.pieces, jointLimit);
     this.levelsEnd = this.pieces.mark();
     this.numbersEnd = this.levelsEnd;
   }
@@ -315,7 +337,7 @@ class BufferedCsvWriter implements CsvWriter {
 
   writeBatch(batch: EncodedBatch): void {
     const rows = batch.end - batch.start;
-    const n = this.written.length;
+    const n = this.parts.length;
     if (n === 0) return this.writeEmptyRows(batch.rejected, rows);
     this.dropBatchPieces();
     if (this.pieceOf.length < rows * n) this.pieceOf = new Int32Array(rows * n);
@@ -323,8 +345,8 @@ class BufferedCsvWriter implements CsvWriter {
     let longestRow = COPY_SLACK;
     // Numbers before texts: numbers' pieces are kept for later batches, texts' only for this one.
     const prepare = (texts: boolean): void => {
-      this.writers.forEach((writer, w) => {
-        if ((writer.kind === 'text') === texts) longestRow += this.prepare(w, batch.columns[this.written[w]!], batch.start, rows, pieceOf);
+      this.parts.forEach((part, w) => {
+        if ((part.kind === 'text') === texts) longestRow += this.prepare(w, batch, rows, pieceOf);
       });
     };
     prepare(false);
@@ -340,7 +362,7 @@ class BufferedCsvWriter implements CsvWriter {
 
   /** Forgets the last batch's text pieces, and every number when the columns have met too many. */
   private dropBatchPieces(): void {
-    const numbers = this.writers.flatMap((w) => (w.kind === 'numbers' ? [w.numbers] : []));
+    const numbers = this.parts.flatMap((part) => (part.kind === 'numbers' ? [part.numbers] : []));
     if (numbers.reduce((sum, n) => sum + n.distinct, 0) > NUMBER_CACHE_LIMIT) {
       for (const n of numbers) n.forget();
       this.numbersEnd = this.levelsEnd;
@@ -415,35 +437,49 @@ class BufferedCsvWriter implements CsvWriter {
   }
 
   /**
-   * Fills column `w` of `pieceOf` (row-major, one piece per row and written column) for this batch;
-   * returns the length of the column's longest piece.
+   * Fills column `w` of `pieceOf` (row-major, one piece per row and row part) for this batch;
+   * returns the length of the part's longest piece.
    */
-  private prepare(w: number, encoded: EncodedColumn | undefined, start: number, rows: number, pieceOf: Int32Array): number {
-    const writer = this.writers[w]!;
-    const n = this.written.length;
-    if (writer.kind === 'levels' && encoded?.kind === 'levels') {
-      levelPieceOfRow(encoded.level, writer.indicator ? encoded.missing : null, writer.first, rows, pieceOf, w, n);
-      return writer.longest;
+  private prepare(w: number, batch: EncodedBatch, rows: number, pieceOf: Int32Array): number {
+    const part = this.parts[w]!;
+    const n = this.parts.length;
+    const mismatch = (column: number): Error => {
+      const encoded = batch.columns[column];
+      const planned = this.plan.columns[column];
+      return new Error(`column ${planned?.recipe.name ?? column} of the batch (${encoded?.kind ?? 'absent'}) does not match the plan (${planned?.kind ?? 'absent'})`);
+    };
+    if (part.kind === 'levels') {
+      part.members.forEach((member, m) => {
+        const encoded = batch.columns[member.column];
+        if (encoded?.kind !== 'levels') throw mismatch(member.column);
+        levelKeyOfRow(encoded.level, member.indicator ? encoded.missing : null, member.stride, m === 0 ? part.first : -1, rows, pieceOf, w, n);
+      });
+      return part.longest;
     }
-    if (writer.kind === 'numbers' && encoded?.kind === 'numbers') {
+    const encoded = batch.columns[part.column];
+    if (part.kind === 'numbers' && encoded?.kind === 'numbers') {
       const { values, missing, codes } = encoded;
-      if (codes === undefined) numberPieceOfRow(values, missing, writer.numbers, rows, pieceOf, w, n);
-      else codedNumberPieceOfRow(codes, values, missing, writer.numbers, rows, pieceOf, w, n);
-      return writer.numbers.longest;
+      if (codes === undefined) numberPieceOfRow(values, missing, part.numbers, rows, pieceOf, w, n);
+      else codedNumberPieceOfRow(codes, values, missing, part.numbers, rows, pieceOf, w, n);
+      return part.numbers.longest;
     }
-    if (writer.kind === 'text' && encoded?.kind === 'text') {
-      return textPieceOfRow(encoded.source, start, rows, pieceOf, w, n, this.pieces, writer.separators, this.encoder);
+    if (part.kind === 'text' && encoded?.kind === 'text') {
+      return textPieceOfRow(encoded.source, batch.start, rows, pieceOf, w, n, this.pieces, part.separators, this.encoder);
     }
-    const column = this.plan.columns[this.written[w]!];
-    throw new Error(`column ${column?.recipe.name ?? w} of the batch (${encoded?.kind ?? 'absent'}) does not match the plan (${column?.kind ?? 'absent'})`);
+    throw mismatch(part.column);
   }
 }
 
-/** Level pieces are laid out from `first` by 2 × (level + 1) + missing, the all-zero row (ALL_ZEROS = −1) first. */
-function levelPieceOfRow(level: Int32Array, missing: Uint8Array | null, first: number, rows: number, pieceOf: Int32Array, w: number, n: number): void {
-  const base = first + 2;
-  if (missing === null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = base + 2 * level[r]!;
-  else for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = base + 2 * level[r]! + missing[r]!;
+/**
+ * Column `w` of `pieceOf` for one member of a run of categorical columns: the run's first member
+ * (`first` ≥ 0) sets it to the run's first piece plus its key times its stride, the others add
+ * theirs. The key counts the all-zero row (ALL_ZEROS = −1) as 0.
+ */
+function levelKeyOfRow(level: Int32Array, missing: Uint8Array | null, stride: number, first: number, rows: number, pieceOf: Int32Array, w: number, n: number): void {
+  if (first >= 0 && missing === null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = first + stride * (level[r]! + 1);
+  else if (first >= 0 && missing !== null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = first + stride * (2 * level[r]! + 2 + missing[r]!);
+  else if (missing === null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = pieceOf[i]! + stride * (level[r]! + 1);
+  else for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = pieceOf[i]! + stride * (2 * level[r]! + 2 + missing[r]!);
 }
 
 function numberPieceOfRow(values: Float64Array, missing: Uint8Array, numbers: NumberPieces, rows: number, pieceOf: Int32Array, w: number, n: number): void {
@@ -569,19 +605,80 @@ function addTextPieces(texts: readonly string[], pieces: Pieces, separators: Sep
   return first;
 }
 
-/** The pieces of each level's codes ("0,1,0"), by 2 × (level + 1) + missing; the all-zero row first. */
-function levelPieces(plan: CategoricalPlan, separators: Separators, pieces: Pieces): ColumnWriter {
+/**
+ * The row's parts: runs of adjacent categorical columns (as long as their combinations stay within
+ * `jointLimit`), and the continuous and identifier columns one by one. Excluded and zero-width
+ * columns write nothing. Each run's pieces are added to `pieces` here, for good.
+ */
+function rowParts(plan: Plan, pieces: Pieces, jointLimit: number): RowPart[] {
+  const written = plan.columns.flatMap((c, i) => (c.width > 0 && c.kind !== 'excluded' ? [i] : []));
+  const last = written.length - 1;
+  const separatorsOf = (w: number): Separators => ({ before: w === 0 ? '' : ',', after: w === last ? LINE_END : '' });
+  const parts: RowPart[] = [];
+  let run: RunMember[] = [];
+  let combinations = 1;
+  /** The longest piece the run would make. */
+  let runLongest = 0;
+  const closeRun = (): void => {
+    if (run.length > 0) parts.push(levelRunPieces(run, pieces));
+    run = [];
+    combinations = 1;
+    runLongest = 0;
+  };
+  written.forEach((c, w) => {
+    const column = plan.columns[c]!;
+    if (column.kind !== 'categorical') {
+      closeRun();
+      const separators = separatorsOf(w);
+      parts.push(column.kind === 'continuous' ? { kind: 'numbers', column: c, numbers: new NumberPieces(pieces, column.indicator, separators) } : { kind: 'text', column: c, separators });
+      return;
+    }
+    const patterns = levelPatterns(column, separatorsOf(w));
+    const longest = patterns.reduce((most, p) => Math.max(most, p.length), 0);
+    const joined = combinations * patterns.length;
+    if (run.length > 0 && (joined > jointLimit || joined * (runLongest + longest) > JOINT_BYTES_LIMIT)) closeRun();
+    run.push({ column: c, indicator: column.indicator, patterns });
+    combinations *= patterns.length;
+    runLongest += longest;
+  });
+  closeRun();
+  return parts;
+}
+
+/** A categorical column's cells for each key (see LevelMember), with its separators. */
+function levelPatterns(plan: CategoricalPlan, separators: Separators): string[] {
   const { width, matrix, levels } = plan.codes;
-  const pattern = (level: number, missing: number): string => {
+  const patterns: string[] = [];
+  for (let level = ALL_ZEROS; level < levels.length; level++) {
     const cells: string[] = [];
     for (let j = 0; j < width; j++) cells.push(level === ALL_ZEROS ? '0' : numberCell(matrix[level * width + j] ?? 0));
-    if (plan.indicator) cells.push(String(missing));
-    return separators.before + cells.join(',') + separators.after;
-  };
+    const flags = plan.indicator ? ['0', '1'] : [null];
+    for (const flag of flags) patterns.push(separators.before + (flag === null ? cells : [...cells, flag]).join(',') + separators.after);
+  }
+  return patterns;
+}
+
+/**
+ * A piece for every combination of a run's keys, the last member's key varying fastest: piece
+ * `first + Σ key × stride`.
+ */
+function levelRunPieces(run: readonly RunMember[], pieces: Pieces): RowPart {
+  const strides: number[] = [];
+  let stride = 1;
+  for (let m = run.length - 1; m >= 0; m--) {
+    strides[m] = stride;
+    stride *= run[m]!.patterns.length;
+  }
   const first = pieces.count;
   let longest = 0;
-  for (let level = ALL_ZEROS; level < levels.length; level++) {
-    for (const missing of [0, 1]) longest = Math.max(longest, pieces.length(pieces.addAscii(pattern(level, missing))));
-  }
-  return { kind: 'levels', first, longest, indicator: plan.indicator };
+  const add = (m: number, prefix: string): void => {
+    if (m === run.length) {
+      longest = Math.max(longest, pieces.length(pieces.addAscii(prefix)));
+      return;
+    }
+    for (const pattern of run[m]!.patterns) add(m + 1, prefix + pattern);
+  };
+  add(0, '');
+  const members = run.map(({ column, indicator }, m): LevelMember => ({ column, indicator, stride: strides[m]! }));
+  return { kind: 'levels', members, first, longest };
 }

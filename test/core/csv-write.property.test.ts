@@ -2,8 +2,9 @@
  * The CSV writer against the plainest possible writer, on random tables, recipes, batch sizes and
  * buffer sizes (fast-check): every written row is its cells made one by one with textCell and
  * numberCell, joined by commas and ended by CRLF (RFC 4180 §2.1, §2.4), rejected rows left out.
- * The writer's shortcuts — bytes made once per level, per distinct number and per text of a batch,
- * copied four bytes at a time, across buffer flushes — must never change a byte.
+ * The writer's shortcuts — bytes made once per level (or per combination of adjacent columns'
+ * levels), per distinct number and per text of a batch, copied four bytes at a time, across buffer
+ * flushes — must never change a byte.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -44,6 +45,9 @@ const scenario = fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 1, 
     batchRows: fc.integer({ min: 1, max: 45 }),
     bufferBytes: fc.integer({ min: 64, max: 400 }),
     dictionaryCap: fc.constantFrom(2, 4096),
+    // Runs of adjacent categorical columns share pieces up to this many combinations: 1 writes
+    // each column alone, 4096 (the default) joins every run these small tables make.
+    jointLimit: fc.constantFrom(1, 3, 12, 4096),
   }),
 );
 
@@ -108,9 +112,9 @@ function referenceRows(plan: Plan, source: Table, batch: EncodedBatch): string {
   return text;
 }
 
-function written(plan: Plan, source: Table, batchRows: number, bufferBytes: number): { bytes: Uint8Array; expected: string; reported: number } {
+function written(plan: Plan, source: Table, batchRows: number, bufferBytes: number, jointLimit?: number): { bytes: Uint8Array; expected: string; reported: number } {
   const parts: Uint8Array[] = [];
-  const writer = createCsvWriter(plan, (part) => parts.push(part.slice()), bufferBytes);
+  const writer = createCsvWriter(plan, (part) => parts.push(part.slice()), bufferBytes, jointLimit);
   writer.writeHeader();
   let expected = `${plan.outputs.map(textCell).join(',')}\r\n`;
   for (let start = 0; start < source.rowCount; start += batchRows) {
@@ -125,14 +129,14 @@ function written(plan: Plan, source: Table, batchRows: number, bufferBytes: numb
 }
 
 describe('the CSV writer writes what the plainest writer writes', () => {
-  it('byte for byte, whatever the levels, policies, batch and buffer sizes (the fitting file and a new one)', () => {
+  it('byte for byte, whatever the levels, policies, batch and buffer sizes and runs of categorical columns (the fitting file and a new one)', () => {
     fc.assert(
       fc.property(scenario, (s) => {
         const fit = table(s.fitRows, 4096);
         const recipe = recipeFor(fit, s.levels, s.indicator, s.strict);
         for (const source of [table(s.fitRows, s.dictionaryCap), table(s.applyRows, s.dictionaryCap)]) {
           const plan = compilePlan(recipe, source.names);
-          const { bytes, expected, reported } = written(plan, source, s.batchRows, s.bufferBytes);
+          const { bytes, expected, reported } = written(plan, source, s.batchRows, s.bufferBytes, s.jointLimit);
           const want = new TextEncoder().encode(expected);
           expect(new TextDecoder().decode(bytes)).toBe(new TextDecoder().decode(want));
           expect(bytes).toEqual(want);
@@ -153,7 +157,7 @@ describe('the CSV writer writes what the plainest writer writes', () => {
         const source = packed(table(ascii(s.applyRows), s.dictionaryCap));
         const plan = compilePlan(recipe, source.names);
         // Whole tables as batches, as the command line writes each segment read on another thread.
-        const { bytes, expected } = written(plan, source, source.rowCount, s.bufferBytes);
+        const { bytes, expected } = written(plan, source, source.rowCount, s.bufferBytes, s.jointLimit);
         expect(bytes).toEqual(new TextEncoder().encode(expected));
       }),
       { numRuns: 150 },
