@@ -5,7 +5,8 @@
  * read the file in segments (core read-segment.ts), and takes their rows in file order (core
  * segment-order.ts):
  * 1. One thread reads the file's start (header, encoding, delimiter, the first rows) with the table
- *    reader's `stopAt`, and says where it stopped. A file that cannot be cut (not UTF-8, lone CR
+ *    reader's `stopAt`, and says where it stopped before it sends the batch of those rows, so that
+ *    the segments go out before this thread encodes that batch. A file that cannot be cut (not UTF-8, lone CR
  *    line breaks, one column) or is small is read to the end right there, by that thread alone.
  * 2. The rest is cut into segments of SEGMENT_BYTES, handed round the threads. A segment that
  *    began inside a quoted field (it does not start where the one before stopped) is read again
@@ -47,7 +48,12 @@ const CHUNK_BYTES = 1 << 20;
 const FIRST_CHUNK_BYTES = 64 << 10;
 /** The size of a segment: several batches' worth, so a segment's start-up is paid rarely. */
 const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 8 << 20;
-/** Where the first thread stops reading the file's start alone (the others wait for it). */
+/**
+ * Where the first thread stops reading the file's start alone (the others wait for it). The
+ * segments are sized and stored like these rows (ColumnHints): from 64 kB (~500 rows) the number
+ * columns had not yet reached number storage, and every segment found that out again (`apply`'s
+ * peak RSS at 4M rows went from ~340 to ~360 MB).
+ */
 const FIRST_STOP = Math.min(1 << 20, SEGMENT_BYTES);
 /**
  * How much more of a whole table this thread reads than each reading thread: they start ~60–70 ms
@@ -81,7 +87,15 @@ type ToReader =
   | ({ readonly type: 'profile-parts'; readonly id: number } & NumberPartsRequest);
 
 type FromReader =
-  | { readonly type: 'batch'; readonly id: number; readonly table: Table; readonly firstRow: number; readonly bytesRead: number }
+  | {
+      readonly type: 'batch';
+      readonly id: number;
+      readonly table: Table;
+      readonly firstRow: number;
+      readonly bytesRead: number;
+      /** The last answer to its request (a batch held back until after 'started'). */
+      readonly last?: boolean;
+    }
   | {
       readonly type: 'started';
       readonly id: number;
@@ -93,6 +107,8 @@ type FromReader =
       readonly stoppedAt: number | null;
       readonly lineBreaks: number;
       readonly columnHints: ColumnHints | null;
+      /** Batches of the start's last rows, sent after this answer (see readStart). */
+      readonly heldBatches: number;
     }
   | ({ readonly type: 'segment'; readonly id: number; readonly bytesRead: number } & SegmentResult)
   | { readonly type: 'profile'; readonly id: number; readonly profile: ColumnProfile }
@@ -134,8 +150,19 @@ export async function readBatchesInThread(
         break;
       }
     }
+    const { heldBatches } = started;
+    const takeHeldBatches = async (): Promise<void> => {
+      for (let b = 0; b < heldBatches; b++) {
+        const message = await inbox.next(firstId);
+        if (message.type !== 'batch') throw new Error(`reading thread: unexpected ${message.type} message`);
+        await onBatch(message.table, message.firstRow, message.bytesRead);
+      }
+    };
     const result = { names: started.names, encoding: started.encoding, delimiter: started.delimiter };
-    if (started.stoppedAt === null) return { ...result, totalRows: started.rows };
+    if (started.stoppedAt === null) {
+      await takeHeldBatches();
+      return { ...result, totalRows: started.rows };
+    }
 
     // 2. The rest in segments, taken in file order.
     const order = new SegmentOrder({ end: started.stoppedAt, rows: started.rows, lineBreaks: started.lineBreaks });
@@ -154,6 +181,8 @@ export async function readBatchesInThread(
       }
     };
     handOut();
+    // The start's last batch only now: encoding it first (~0.15 s, cold) kept the segments waiting.
+    await takeHeldBatches();
     while (handedOut.length > 0) {
       const [job, id] = handedOut.shift()!;
       const segment = await inbox.next(id);
@@ -355,7 +384,9 @@ class Inbox {
 }
 
 function isLast(message: FromReader): boolean {
-  return message.type !== 'batch';
+  if (message.type === 'batch') return message.last === true;
+  if (message.type === 'started') return message.heldBatches === 0;
+  return true;
 }
 
 function readerFailure(message: Extract<FromReader, { type: 'failed' }>): Error {
@@ -385,12 +416,20 @@ function serve(path: string, port: NonNullable<typeof parentPort>): void {
 function readStart(request: Extract<ToReader, { type: 'start' }>, fd: number, buffer: Uint8Array, port: NonNullable<typeof parentPort>): void {
   let bytesRead = 0;
   const { settings } = request;
+  // The batches finish() makes (the start's last rows) go after 'started': the encoding thread
+  // takes batches as they come, and would encode them before handing out the segments.
+  let finishing = false;
+  const held: Extract<FromReader, { type: 'batch' }>[] = [];
   const reader = createTableReader({
     delimiter: settings.delimiter,
     encoding: settings.encoding,
     batchRows: settings.batchRows,
     stopAt: request.stopAt,
-    onBatch: (table, firstRow) => post(port, { type: 'batch', id: request.id, table, firstRow, bytesRead }),
+    onBatch: (table, firstRow) => {
+      const batch = { type: 'batch', id: request.id, table, firstRow, bytesRead } as const;
+      if (finishing) held.push(batch);
+      else post(port, batch);
+    },
   });
   // Chunks no larger than the stop, so that the reader can stop near it.
   const chunk = Math.min(buffer.length, request.stopAt);
@@ -399,6 +438,7 @@ function readStart(request: Extract<ToReader, { type: 'start' }>, fd: number, bu
     reader.push(buffer.subarray(0, read));
     if (reader.stoppedAt !== null) break;
   }
+  finishing = true;
   const result = reader.finish();
   port.postMessage({
     type: 'started',
@@ -411,7 +451,9 @@ function readStart(request: Extract<ToReader, { type: 'start' }>, fd: number, bu
     stoppedAt: result.stoppedAt,
     lineBreaks: result.lineBreaks,
     columnHints: result.columnHints,
+    heldBatches: held.length,
   } satisfies FromReader);
+  held.forEach((batch, b) => post(port, { ...batch, last: b === held.length - 1 }));
 }
 
 function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd: number, buffer: Uint8Array, port: NonNullable<typeof parentPort>): void {
