@@ -293,6 +293,19 @@ describe('published datasets (npm package vega-datasets 3.2.1)', () => {
     expect(rowsOf(table)[row]?.slice(0, 3)).toEqual(['DBN', 'W. H. "Bud" Barron', 'Dublin']);
   });
 
+  it('airports.csv with every field quoted and CRLF line ends (as some exporters write): the same table', () => {
+    const published = readTable(new Uint8Array(readFileSync(join(VEGA, 'airports.csv')))).table;
+    // RFC 4180 §2.5–2.7: any field may be quoted, a quote inside doubled; §2.1: CRLF line ends.
+    const quoteAll = [published.names, ...rowsOf(published)].map((row) => row.map((cell) => `"${cell.replace(/"/g, '""')}"`).join(',')).join('\r\n');
+    for (const result of [readTable(utf8(quoteAll)), readInPieces(utf8(quoteAll), 4096)]) {
+      expect(result.table.names).toEqual(published.names);
+      expect(result.table.rowCount).toBe(3376);
+      expect(rowsOf(result.table)).toEqual(rowsOf(published));
+      expect(Array.from(result.table.lineOfRow)).toEqual(Array.from({ length: 3376 }, (_, row) => row + 2));
+      expect(result.table.rowIssues).toEqual([]);
+    }
+  });
+
   it('zipcodes.csv: 42049 zip codes move to number storage and keep their leading zeros', () => {
     const { table } = readTable(new Uint8Array(readFileSync(join(VEGA, 'zipcodes.csv'))));
     const zip = table.columns[0]!;
