@@ -62,6 +62,12 @@ const FIRST_STOP = Math.min(1 << 20, SEGMENT_BYTES);
  * halves, and later again with 5 % (three rounds of traces).
  */
 const HEAD_START_BYTES = 6 << 20;
+/**
+ * A reading thread done with its share takes over the second half of what this thread has left,
+ * when that half is at least this (core readInParallel's handOverFromBytes): the head start is a
+ * guess, and in traces the thread done first waited 0.1–0.6 s for the other.
+ */
+const HAND_OVER_FROM_BYTES = 4 << 20;
 /** A whole table is read on one thread below this size: starting threads would cost more than it saves. */
 const PARALLEL_FROM_BYTES = Number(process.env.LEVELWISE_PARALLEL_FROM_BYTES) || 16 << 20;
 /** Segments handed to a thread and not yet taken by this one. */
@@ -244,7 +250,7 @@ export async function readTableInThreads(
   };
   // A table read to be profiled has its cells joined only if something reads them: draft and
   // profile read none but those of the rare cells that are not numbers.
-  const parallel = readInParallel(fileBytes, runners, { packValues: true, onPart, headStartBytes: HEAD_START_BYTES, cellsWhenRead: profiling !== null });
+  const parallel = readInParallel(fileBytes, runners, { packValues: true, onPart, headStartBytes: HEAD_START_BYTES, handOverFromBytes: HAND_OVER_FROM_BYTES, cellsWhenRead: profiling !== null });
   try {
     const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop, packValues: true });
     // Chunks no larger than the first segment, so that the reader can stop near its end; the first
@@ -257,9 +263,11 @@ export async function readTableInThreads(
         position += read;
         done += read;
         reader.push(buffer.subarray(0, read));
-        parallel.pushed(reader.segmenting);
+        parallel.pushed(reader);
         onBytes(Math.min(done, fileBytes));
         if (reader.stoppedAt !== null) break;
+        // Lets the reading threads' messages in, so that one done with its share is seen (handOverFromBytes).
+        await new Promise<void>((resolve) => setImmediate(resolve));
       }
     } finally {
       closeSync(fd);

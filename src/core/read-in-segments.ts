@@ -19,6 +19,11 @@ export interface SegmentedReadOptions {
   readonly onPart?: (part: Table) => void;
   /** Columns' cells joined only when read (ParallelReadOptions.cellsWhenRead), as the command line reads a table to profile. */
   readonly cellsWhenRead?: boolean;
+  /**
+   * The first reader hands the rest of its segment over to idle runners (ParallelReadOptions.handOverFromBytes),
+   * pushing `pushBytes` at a time and letting the runners finish between pushes, as threads would.
+   */
+  readonly handOver?: { readonly fromBytes: number; readonly pushBytes: number };
 }
 
 export interface SegmentedReadResult extends ReadResult {
@@ -57,12 +62,15 @@ async function readSegments(bytes: Uint8Array, segmentBytes: number, options: Se
   const runner: SegmentRunner = async (request) => readSegment(bytes, request);
   const parts: Table[] = [];
   const later = options.cellsWhenRead === true ? { cellsWhenRead: true } : {};
-  const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, ...later, segmentBytes, onPart: (joined) => parts.push(...joined) });
+  const handOver = options.handOver === undefined ? {} : { handOverFromBytes: options.handOver.fromBytes };
+  const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, ...later, ...handOver, segmentBytes, onPart: (joined) => parts.push(...joined) });
   // Sized for the whole file, as the page and the command line do: the other parts join it in place.
   const reader = createTableReader({ ...cap, stopAt: parallel.firstStop, totalBytes: bytes.length });
-  for (let at = 0; at < bytes.length && reader.stoppedAt === null; at += PUSH_BYTES) {
-    reader.push(bytes.subarray(at, at + PUSH_BYTES));
-    parallel.pushed(reader.segmenting);
+  const pushBytes = options.handOver?.pushBytes ?? PUSH_BYTES;
+  for (let at = 0; at < bytes.length && reader.stoppedAt === null; at += pushBytes) {
+    reader.push(bytes.subarray(at, at + pushBytes));
+    parallel.pushed(reader);
+    if (options.handOver !== undefined) await new Promise((resolve) => setTimeout(resolve, 0));
   }
   const first = reader.finish();
   const result = await parallel.finish(first);

@@ -100,6 +100,12 @@ export interface TableReader {
   readonly stoppedAt: number | null;
   /** See StreamingTableReader.segmenting. */
   readonly segmenting: SegmentingInfo | null;
+  /**
+   * Stops at the first record that starts at or after `at` instead of `stopAt`: for a thread that
+   * hands the rest of its segment to an idle one (parallel-read.ts). Only once `segmenting` is
+   * known, and only for a byte not pushed yet; false, changing nothing, otherwise.
+   */
+  stopEarlier(at: number): boolean;
 }
 
 /** What a reader of a later segment of the same file needs to know (read-segment.ts). */
@@ -159,7 +165,7 @@ class StreamingTableReader implements TableReader {
   private readonly totalBytes: number | null;
   private reserved = false;
   private bytes = 0;
-  private readonly stopAt: number | null;
+  private stopAt: number | null;
   private stopArmed = false;
   /** The parser was told where to stop (see `segmenting`). */
   private stopping = false;
@@ -202,6 +208,13 @@ class StreamingTableReader implements TableReader {
     const names = this.rows.columnNames;
     if (!this.stopping || names === null) return null;
     return { names, delimiter: this.parser.delimiter ?? ',', encodingGuessed: this.source.encodingGuessed };
+  }
+
+  stopEarlier(at: number): boolean {
+    if (!this.stopping || this.stopAt === null || at >= this.stopAt || at <= this.bytes) return false;
+    this.stopAt = at;
+    this.parser.stopAt(at - this.source.skippedBytes);
+    return true;
   }
 
   /** Passes `stopAt` on to the parser once the source is known to be one that segments can split. */

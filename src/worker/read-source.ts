@@ -72,6 +72,12 @@ const WORKBOOK_NAME = /\.(xlsx|xlsm)$/i;
  * the other half; with 6 or 10 MB more, 3–80 ms, and the file summary came ~100 ms sooner.
  */
 const HEAD_START_BYTES = 8 << 20;
+/**
+ * A segment worker done with its share takes over the second half of what this worker has left,
+ * when that half is at least this (core readInParallel's handOverFromBytes): the head start is a
+ * guess, and on a shared host the segment worker was sometimes done 0.6 s before this one.
+ */
+const HAND_OVER_FROM_BYTES = 4 << 20;
 
 async function isSpreadsheet(file: File): Promise<boolean> {
   if (WORKBOOK_NAME.test(file.name)) return true;
@@ -140,11 +146,11 @@ async function readInSegments(
     const onPart = (parts: readonly Table[]): void => {
       if (profiling !== null && parts.length > 1) numberProfiles = new NumberProfiles(parts, profiling.options, pool.profilers);
     };
-    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, headStartBytes: HEAD_START_BYTES, packValues: true, onPart });
+    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, headStartBytes: HEAD_START_BYTES, handOverFromBytes: HAND_OVER_FROM_BYTES, packValues: true, onPart });
     const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size, packValues: true });
     for await (const chunk of chunks) {
       reader.push(chunk);
-      parallel.pushed(reader.segmenting);
+      parallel.pushed(reader);
       if (reader.stoppedAt !== null) break;
     }
     const read = await parallel.finish(reader.finish());

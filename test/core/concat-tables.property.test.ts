@@ -184,6 +184,34 @@ describe('reading in segments and joining them gives the whole read', () => {
     }
   });
 
+  it('when the first reader hands the rest of its segment over to idle runners, cut anywhere, quoted line breaks included', async () => {
+    // 12,000 invented rows, ~450 kB (the first reader reads 64 kB before it may stop), a quoted note
+    // with a line break in every 7th: a cut inside one makes a segment that must be read again.
+    let handedOver = 0;
+    await fc.assert(
+      fc.asyncProperty(fc.integer({ min: 0, max: 2 ** 31 }), fc.constantFrom(2_000, 5_000, 20_000), fc.constantFrom(1_000, 3_000, 9_000), async (seed, fromBytes, pushBytes) => {
+        const rows = Array.from({ length: 12_000 }, (_, i) => {
+          const note = i % 7 === 0 ? `"line one\nline ""two"", ${(seed + i) % 13}"` : `note ${(seed * i) % 41}`;
+          return `R-${i},${['red', 'blue', 'NA', ' Red'][(seed + i) % 4]},${note},${((seed + i) % 1000) / 8}`;
+        });
+        const bytes = new TextEncoder().encode(`id,colour,note,amount\n${rows.join('\n')}\n`);
+        const whole = readTable(bytes);
+        // Half the file each at first; the runner is done long before this thread, which hands over.
+        const joined = await readInSegments(bytes, Math.ceil(bytes.length / 2), { handOver: { fromBytes, pushBytes } });
+        expect(cellsOf(joined.table)).toEqual(cellsOf(whole.table));
+        expect(Array.from(joined.table.lineOfRow)).toEqual(Array.from(whole.table.lineOfRow));
+        expect(joined.table.columns.map(storageOf)).toEqual(whole.table.columns.map(storageOf));
+        expect(profileTable(joined.table)).toEqual(profileTable(whole.table));
+        expect({ rows: joined.totalRows, lineBreaks: joined.lineBreaks }).toEqual({ rows: whole.totalRows, lineBreaks: whole.lineBreaks });
+        handedOver += joined.segments.taken - 2;
+        met.redone += joined.segments.redone;
+      }),
+      { numRuns: 30 },
+    );
+    // The check proves little unless segments were handed over, several times in a run.
+    expect(handedOver).toBeGreaterThan(60);
+  });
+
   it('for an identifier kept as bytes in every segment (packValues), sorted or not, with values repeated across segments', async () => {
     // 6,000 invented rows, ~90 kB: identifiers in order, shuffled, in two sorted runs, or one repeated far apart.
     const orders = ['sorted', 'shuffled', 'two runs', 'repeated'] as const;

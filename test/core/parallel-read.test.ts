@@ -17,12 +17,16 @@ function noting(count: number): { runners: SegmentRunner[]; asked: SegmentReques
 }
 
 const segmenting = { names: ['a'], delimiter: ',' as const, encodingGuessed: false };
+/** The calling thread's reader as readInParallel sees it, `bytesRead` into the file; it notes where it is told to stop. */
+function firstReader(bytesRead = 0): { segmenting: typeof segmenting; bytesRead: number; stopEarlier(at: number): boolean; stops: number[] } {
+  return { segmenting, bytesRead, stops: [], stopEarlier(at) { this.stops.push(at); return true; } };
+}
 
 describe('the segments of a whole-table read', () => {
   it('are equal shares without a head start', () => {
     const { runners, asked } = noting(1);
     const read = readInParallel(1000, runners);
-    read.pushed(segmenting);
+    read.pushed(firstReader());
     expect(read.firstStop).toBe(500);
     // A segment starts a byte early, to see whether a line break ends the one before; the last one reads to the end.
     expect(asked.map((r) => [r.job.firstByte, r.job.stopAt])).toEqual([[499, Infinity]]);
@@ -32,7 +36,7 @@ describe('the segments of a whole-table read', () => {
     const { runners, asked } = noting(3);
     // 1,000 bytes, 100 of head start: the other three read 225 each, this thread 325.
     const read = readInParallel(1000, runners, { headStartBytes: 100 });
-    read.pushed(segmenting);
+    read.pushed(firstReader());
     expect(read.firstStop).toBe(325);
     expect(asked.map((r) => [r.job.firstByte, r.job.stopAt])).toEqual([[324, 550], [549, 775], [774, Infinity]]);
   });
@@ -46,5 +50,37 @@ describe('the segments of a whole-table read', () => {
   it('leave sizes given for tests as they are', () => {
     const { runners } = noting(1);
     expect(readInParallel(1000, runners, { headStartBytes: 100, segmentBytes: 300 }).firstStop).toBe(300);
+  });
+
+  it('hand the second half of what the calling thread has left to a runner done with its segment', async () => {
+    let finish: (result: SegmentResult) => void = () => undefined;
+    const asked: SegmentRequest[] = [];
+    const runner: SegmentRunner = (request) => {
+      asked.push(request);
+      return new Promise<SegmentResult>((resolve) => (finish = resolve));
+    };
+    // 1,000 bytes on two threads: this thread to 500, the runner from 499.
+    const read = readInParallel(1000, [runner], { handOverFromBytes: 100 });
+    const reader = firstReader();
+    read.pushed(reader);
+    reader.bytesRead = 100;
+    read.pushed(reader);
+    expect(reader.stops).toEqual([]); // the runner is still busy
+    finish({} as SegmentResult);
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    // 400 bytes left: the last 200 go to the runner, this thread stops at the first record from 300 on.
+    read.pushed(reader);
+    expect(reader.stops).toEqual([300]);
+    expect(asked.map((r) => [r.job.firstByte, r.job.stopAt])).toEqual([[499, Infinity], [299, 500]]);
+  });
+
+  it('keep what is left when half of it is less than handOverFromBytes', async () => {
+    const read = readInParallel(1000, [async () => ({}) as SegmentResult], { handOverFromBytes: 100 });
+    const reader = firstReader();
+    read.pushed(reader);
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    reader.bytesRead = 320; // 180 left: 90 would be handed over
+    read.pushed(reader);
+    expect(reader.stops).toEqual([]);
   });
 });
