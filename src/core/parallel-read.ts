@@ -3,7 +3,9 @@
  * thread reads the first segment with the ordinary table reader and `stopAt` (it finds the header,
  * encoding and delimiter); as soon as its reader knows them (`TableReader.segmenting`), the other
  * segments start on the other threads (read-segment.ts), and their tables are joined to the first
- * in file order (concat-tables.ts) once all are read.
+ * in file order (concat-tables.ts) once all are read. A thread done with its segment while the
+ * calling thread still has far to go takes over the end of the calling thread's share, as one more
+ * segment (`handOverFromBytes`): the shares are guesses made before any thread has run.
  *
  * The threads themselves are the caller's: Web Workers in the page, worker threads in Node. Each
  * is a `SegmentRunner` that reads one segment of the same source and hands back its table.
