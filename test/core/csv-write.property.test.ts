@@ -3,7 +3,7 @@
  * buffer sizes (fast-check): every written row is its cells made one by one with textCell and
  * numberCell, joined by commas and ended by CRLF (RFC 4180 §2.1, §2.4), rejected rows left out.
  * The writer's shortcuts — bytes made once per level (or per combination of adjacent columns'
- * levels), per distinct number and per text of a batch, copied four bytes at a time, across buffer
+ * levels), per distinct number and per text of a batch, copied eight bytes at a time, across buffer
  * flushes — must never change a byte.
  */
 import fc from 'fast-check';
@@ -22,12 +22,13 @@ import { DEFAULT_MISSING_TOKENS, type MeasurementLevel, type Recipe } from '../.
 /**
  * Cells that test every rule of a text cell: formula starts (OWASP "CSV Injection"), quotes, commas
  * and line breaks (RFC 4180 §2.6–2.7), text that is not ASCII (a surrogate pair, and a lone
- * surrogate that UTF-8 writes as U+FFFD), numbers, missing-value tokens, and a long text.
+ * surrogate that UTF-8 writes as U+FFFD), numbers, missing-value tokens, a long text, and the bytes
+ * nearest to a NaN's that UTF-8 holds (F0 9F 98 80 7F C3 BF: the row loop copies eight bytes as a double).
  */
 const CELLS = [
   'a', 'b', 'c', 'NA', '?', '', ' ', '7', '-3', '2.5', '1e3', '0.1', '-0', '1,5', '12.50',
   '=SUM(A1)', '+1 x', '@home', '-x', '\tTab', 'say "hi"', 'x,y', 'line\nbreak', 'cr\rhere',
-  'Zoë', '日本', '😀', '\uD800', ' pad ', 'x'.repeat(150),
+  'Zoë', '日本', '😀', '\uD800', ' pad ', 'x'.repeat(150), '😀\x7F\xFF',
 ];
 const cell = fc.oneof({ weight: 6, arbitrary: fc.constantFrom(...CELLS) }, { weight: 1, arbitrary: fc.string({ maxLength: 6 }) });
 const level = fc.constantFrom<MeasurementLevel>('continuous', 'nominal', 'ordinal', 'binary', 'identifier', 'excluded');
