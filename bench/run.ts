@@ -24,9 +24,12 @@ import { CLI, launcherFlags, measureInChild, PROJECT_ROOT, runCli, runNode } fro
 import { cpuShares, describeMachine, machineLine, readCpuTicks } from './lib/machine.ts';
 import { applyFromFile, readTableFromFile } from './lib/paths.ts';
 import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
+import { benchDataFile, QUOTED_ROWS } from './lib/data-files.ts';
 import {
   cpuNote,
   renderTable,
+  quotedNote,
+  quotedResult,
   rssVerdict,
   sizeVerdicts,
   spreadNote,
@@ -38,6 +41,7 @@ import {
   type ApplyTiming,
   type BenchResults,
   type ProfileTiming,
+  type QuotedResult,
   type SizeResult,
   type TableMemory,
 } from './lib/report.ts';
@@ -46,13 +50,12 @@ import { pageMeasurementsForBench } from './page.ts';
 import type { ProfileSummary } from './lib/summarise-cpu-profile.ts';
 
 const BENCH_DIR = dirname(fileURLToPath(import.meta.url));
-const DATA_DIR = join(BENCH_DIR, 'data');
 const RESULTS_FILE = join(BENCH_DIR, 'results.json');
 /** The recipe is fitted on this size when it is on disk (a sample, as a person would fit one), else on 1M. */
 const FIT_ROWS = 100_000;
 const TOP_FUNCTIONS = 20;
 
-const dataFile = (rows: number): string => join(DATA_DIR, `household-${rows}.csv`);
+const dataFile = (rows: number): string => benchDataFile(rows);
 const shown = (path: string): string => relative(process.cwd(), path);
 const progress = (text: string): void => void process.stderr.write(`${text}\n`);
 
@@ -144,9 +147,12 @@ interface Runs {
   bytesWritten: number | null;
 }
 
-async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile: string): Promise<SizeResult[]> {
+async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile: string): Promise<{ sizes: SizeResult[]; quoted: QuotedResult | null }> {
   const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], profileThreads: [], profileThreadsCpu: [], phases: [], apply: [], applyCpu: [], applyRss: [], bytesWritten: null }]));
+  const quotedFile = benchDataFile(QUOTED_ROWS, true);
+  const quoted = existsSync(quotedFile) ? { parse: [] as number[], draft: [] as number[], apply: [] as number[] } : null;
   for (let rep = 1; rep <= args.reps; rep++) {
+    if (quoted !== null) await measureQuoted(quotedFile, quoted, applyPath, recipeFile, `run ${rep}/${args.reps} · every field quoted`);
     for (const rows of args.sizes) {
       const file = dataFile(rows);
       const r = runs.get(rows)!;
@@ -195,7 +201,17 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
     const cpuSeconds = { draft: medianOrNull(r.profileThreadsCpu), apply: medianOrNull(r.applyCpu) };
     results.push({ rows, file: shown(file), bytes, parse, profile, profileThreads, apply, cpuSeconds, tableMemory, ...sizeVerdicts(parse, profile, profileThreads, apply) });
   }
-  return results;
+  return { sizes: results, quoted: quoted === null ? null : quotedResult(QUOTED_ROWS, shown(quotedFile), statSync(quotedFile).size, quoted) };
+}
+
+/** One repetition on the 1M-row file with every field quoted: papaparse, `levelwise draft`, apply. */
+async function measureQuoted(file: string, runs: { parse: number[]; draft: number[]; apply: number[] }, applyPath: ApplyPath, recipeFile: string, label: string): Promise<void> {
+  const parse = await measureInChild<TimedResult>('parse', [file]);
+  checkRows(QUOTED_ROWS, 'parse (every field quoted)', parse.result.rows);
+  runs.parse.push(parse.result.seconds);
+  if (applyPath.kind === 'cli') runs.draft.push((await measureDraftCli(file)).seconds);
+  runs.apply.push((await measureApply(applyPath, file, recipeFile)).seconds);
+  progress(`${label}: parse ${last(runs.parse)} s, draft ${last(runs.draft)} s, apply ${last(runs.apply)} s`);
 }
 
 /** The median of the values measured (NaN ones left out), or null when there are none. */
@@ -323,7 +339,7 @@ async function main(): Promise<void> {
 
     const loadAtStart = loadavg()[0] ?? NaN;
     const ticksAtStart = readCpuTicks();
-    const sizes = await measureAll(args, applyPath, recipeFile);
+    const { sizes, quoted } = await measureAll(args, applyPath, recipeFile);
     const cpuTime = cpuShares(ticksAtStart, readCpuTicks());
     const notes: string[] = [];
     const reference = sizes.find((size) => size.rows === REFERENCE_ROWS);
@@ -332,6 +348,7 @@ async function main(): Promise<void> {
     const spread = reference === undefined ? null : spreadNote(reference);
     if (spread !== null) notes.push(spread);
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
+    notes.push(quoted === null ? `no copy of the 1M-row file with every field quoted (${shown(benchDataFile(QUOTED_ROWS, true))}): npm run bench:generate writes it` : quotedNote(quoted));
     const loadAtEnd = loadavg()[0] ?? NaN;
     // The page side (bench/page.ts) after the Node measurements, when /usr/bin/chromium exists.
     const { page, notes: pageLines } = args.page ? await pageMeasurementsForBench() : { page: null, notes: ['the page side was left out (--no-page)'] };
@@ -346,6 +363,7 @@ async function main(): Promise<void> {
       targets: TARGETS,
       sizes,
       rssLargeOverReference: rssVerdict(sizes, REFERENCE_ROWS),
+      quoted,
       notes,
     };
     printResults(results);

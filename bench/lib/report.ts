@@ -79,7 +79,45 @@ export interface BenchResults {
   readonly sizes: readonly SizeResult[];
   /** Peak RSS of apply at the largest size above 1M rows ÷ at 1M rows. */
   readonly rssLargeOverReference: Verdict & { readonly largeRows: number | null };
+  /** The 1M-row file with every field quoted, for information (no target); null when not measured. */
+  readonly quoted?: QuotedResult | null;
   readonly notes: readonly string[];
+}
+
+/**
+ * The 1M-row file with every field quoted (bench/lib/data-files.ts), measured in the same
+ * repetitions as the others: the reader's path for quoted fields, which the plain file takes for
+ * one record in fifty.
+ */
+export interface QuotedResult {
+  readonly rows: number;
+  readonly file: string;
+  readonly bytes: number;
+  readonly parse: Timing;
+  /** `levelwise draft`; null when the command line does not run. */
+  readonly profileThreads: Timing | null;
+  readonly apply: Timing;
+  /** Time ÷ papaparse time, each path. */
+  readonly draftOverParse: number;
+  readonly applyOverParse: number;
+}
+
+export function quotedResult(rows: number, file: string, bytes: number, runs: { parse: number[]; draft: number[]; apply: number[] }): QuotedResult {
+  const parse = timing(runs.parse, bytes);
+  const profileThreads = runs.draft.length > 0 ? timing(runs.draft, bytes) : null;
+  const apply = timing(runs.apply, bytes);
+  const over = (path: Timing | null): number => (path === null ? NaN : path.medianSeconds / parse.medianSeconds);
+  return { rows, file, bytes, parse, profileThreads, apply, draftOverParse: over(profileThreads), applyOverParse: over(apply) };
+}
+
+/** The quoted file's line under the table. */
+export function quotedNote(quoted: QuotedResult): string {
+  const seconds = (t: Timing): string => `${t.medianSeconds.toFixed(2)} s`;
+  const draft = quoted.profileThreads === null ? '' : `, levelwise draft ${seconds(quoted.profileThreads)} (${quoted.draftOverParse.toFixed(2)}×)`;
+  return (
+    `every field quoted (${quoted.file}, ${(quoted.bytes / BYTES_PER_MB).toFixed(1)} MB, ${quoted.rows.toLocaleString('en-US')} rows; for information, no target): ` +
+    `papaparse ${seconds(quoted.parse)}${draft}, apply ${seconds(quoted.apply)} (${quoted.applyOverParse.toFixed(2)}×); medians`
+  );
 }
 
 export function timing(runsSeconds: readonly number[], bytes: number): Timing {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cpuNote, renderTable, rssVerdict, sizeVerdicts, spreadNote, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
+import { cpuNote, quotedNote, quotedResult, renderTable, rssVerdict, sizeVerdicts, spreadNote, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
 
 const MB = 1e6;
 
@@ -54,6 +54,20 @@ describe('benchmark report', () => {
     // One repetition says nothing about spread; without papaparse there is nothing to divide by.
     expect(spreadNote(sizes[0]!)).toBeNull();
     expect(spreadNote({ ...measured, parse: null })).toBeNull();
+  });
+
+  it('reports the file with every field quoted as medians and ratios to papaparse on it, without a verdict', () => {
+    // Three repetitions: papaparse 3, 2, 4 s (median 3), draft 3.3, 3.9, 3.6 (3.6), apply 6, 5.4, 6.6 (6).
+    const quoted = quotedResult(1_000_000, 'bench/data/household-1000000-quoted.csv', 162.6 * MB, { parse: [3, 2, 4], draft: [3.3, 3.9, 3.6], apply: [6, 5.4, 6.6] });
+    expect(quoted.parse.medianSeconds).toBe(3);
+    expect(quoted.draftOverParse).toBeCloseTo(1.2, 10);
+    expect(quoted.applyOverParse).toBe(2);
+    expect(quotedNote(quoted)).toBe(
+      'every field quoted (bench/data/household-1000000-quoted.csv, 162.6 MB, 1,000,000 rows; for information, no target): papaparse 3.00 s, levelwise draft 3.60 s (1.20×), apply 6.00 s (2.00×); medians',
+    );
+    const withoutCli = quotedResult(1_000_000, 'q.csv', 162.6 * MB, { parse: [3], draft: [], apply: [6] });
+    expect(withoutCli.profileThreads).toBeNull();
+    expect(quotedNote(withoutCli)).toContain('papaparse 3.00 s, apply 6.00 s (2.00×)');
   });
 
   it('has no memory verdict without a size above 1M rows', () => {
