@@ -139,6 +139,7 @@ export class ColumnBuilder {
     let r = from;
     while (r < to) {
       if (this.numbers === null && !this.ascending) r = this.pushKnownValues(records, field, r, to);
+      else if (this.numbers === null && this.pastCap) r = this.pushAscendingValues(records, field, r, to);
       if (r === to) break;
       // A new value (or number storage, or an ascending run): the general path, one cell.
       const at = r * stride + field;
@@ -155,9 +156,7 @@ export class ColumnBuilder {
   private pushKnownValues(records: PlainRecords, field: number, from: number, to: number): number {
     const { bytes, words: cellWords, bounds, hashes, width } = records;
     const stride = width + 1;
-    let room = Math.max(INITIAL_CAPACITY, this.codes.length);
-    while (room < this.length + (to - from)) room *= 2;
-    if (room > this.codes.length) this.codes = resized(this.codes, room);
+    if (this.codes.length < this.length + (to - from)) this.codes = resized(this.codes, roomFor(this.codes.length, this.length + (to - from)));
     const { table, valueStart, valueBytes, valueWords, counts, codes } = this;
     const mask = (table.length >> 1) - 1;
     let length = this.length;
@@ -181,6 +180,57 @@ export class ColumnBuilder {
       }
     }
     this.length = length;
+    return r;
+  }
+
+  /**
+   * The common case of an identifier column, with the builder's arrays held in locals: cells each
+   * new and greater than the one before, past the cap (no cell counted as a number any more). From
+   * record `from` on, up to the first cell that is not greater: the run ends there, and the hash
+   * table is made (continuesAscending). Returns the record it stopped at.
+   */
+  private pushAscendingValues(records: PlainRecords, field: number, from: number, to: number): number {
+    const { bytes, words, bounds, width } = records;
+    const stride = width + 1;
+    const rows = to - from;
+    const values = this.values;
+    let count = values.length;
+    if (this.codes.length < this.length + rows) this.codes = resized(this.codes, roomFor(this.codes.length, this.length + rows));
+    if (this.counts.length <= count + rows) {
+      const room = roomFor(this.counts.length, count + rows + 1);
+      this.counts = resized(this.counts, room);
+      this.valueStart = resized(this.valueStart, room);
+    }
+    const { codes, counts, valueStart } = this;
+    let valueBytes = this.valueBytes;
+    let length = this.length;
+    let stored = valueStart[count]!;
+    let previous = count > 0 ? valueStart[count - 1]! : stored;
+    let high = 0;
+    let r = from;
+    for (; r < to; r++) {
+      const at = r * stride + field;
+      const start = bounds[at]!;
+      const size = bounds[at + 1]! - 1 - start;
+      if (count > 0 && compareWords(words, start, start + size, this.valueWords, previous, stored) <= 0) break;
+      if (stored + size > valueBytes.length) {
+        valueBytes = resized(valueBytes, Math.max(2 * valueBytes.length, stored + size));
+        this.setValueBytes(valueBytes);
+      }
+      for (let k = 0; k < size; k++) high |= valueBytes[stored + k] = bytes[start + k]!;
+      values.push(undefined);
+      previous = stored;
+      stored += size;
+      valueStart[count + 1] = stored;
+      counts[count]! += 1;
+      codes[length++] = count++;
+    }
+    if (high >= 0x80) this.asciiBytes = false;
+    this.length = length;
+    if (r < to) {
+      this.ascending = false;
+      this.hashStoredValues();
+    }
     return r;
   }
 
@@ -432,6 +482,22 @@ export function compareBytes(a: Uint8Array, aStart: number, aEnd: number, b: Uin
   return aEnd - aStart - (bEnd - bStart);
 }
 
+/** compareBytes over DataViews, four bytes at a time: read big-endian, a word orders as its bytes do. */
+function compareWords(a: DataView, aStart: number, aEnd: number, b: DataView, bStart: number, bEnd: number): number {
+  const length = Math.min(aEnd - aStart, bEnd - bStart);
+  let k = 0;
+  for (; k + 4 <= length; k += 4) {
+    const x = a.getUint32(aStart + k);
+    const y = b.getUint32(bStart + k);
+    if (x !== y) return x < y ? -1 : 1;
+  }
+  for (; k < length; k++) {
+    const difference = a.getUint8(aStart + k) - b.getUint8(bStart + k);
+    if (difference !== 0) return difference;
+  }
+  return aEnd - aStart - (bEnd - bStart);
+}
+
 /** The bytes as a DataView over exactly them (a view of part of a buffer stays within it). */
 function wordsOf(bytes: Uint8Array): DataView {
   return new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -587,6 +653,13 @@ function resized<A extends Uint8Array | Uint32Array | Float64Array | Int32Array>
   const bigger = new (array.constructor as new (length: number) => A)(length);
   bigger.set(array);
   return bigger;
+}
+
+/** `length` doubled (from INITIAL_CAPACITY at least) until it holds `needed`. */
+function roomFor(length: number, needed: number): number {
+  let room = Math.max(INITIAL_CAPACITY, length);
+  while (room < needed) room *= 2;
+  return room;
 }
 
 /** A typed array twice as long (at least 16), holding `array`'s values first. */

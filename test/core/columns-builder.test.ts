@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { ColumnBuilder, TableBuilder, numberValue, printsBack } from '../../src/core/columns-builder.ts';
 import { cellText, tableBuffers, type Column, type NumberColumn, type TextColumn } from '../../src/core/columns.ts';
 import { hashBytes } from '../../src/core/parse.ts';
-import { readTable } from '../../src/core/read-table.ts';
+import { createTableReader, readTable } from '../../src/core/read-table.ts';
 import { encodeUtf8 } from '../../src/core/utf8-text.ts';
 
 function build(cells: readonly string[], cap?: number): Column {
@@ -24,6 +24,31 @@ describe('dictionary storage', () => {
     expect(column.values).toEqual(['red', 'blue', '']);
     expect(column.counts).toEqual([3, 2, 1]);
     expect(Array.from(column.codes.subarray(0, 6))).toEqual([0, 1, 0, 2, 0, 1]);
+  });
+
+  it('reads a run of ascending identifiers past the cap from a file, up to the first that is not greater, then as a dictionary', () => {
+    // Cap 4: from the 5th value on the block path takes the run (pushAscendingValues); values that
+    // share long prefixes, differ in the last byte or in a whole word, are not ASCII ("ID-ü…"
+    // sorts after "ID-z" in UTF-8), and one long enough to make the value bytes grow. The run ends
+    // at a smaller value ("ID-0003"), or at a repeat of the one before; then come known values, a
+    // new one, and the empty cell.
+    const ids = ['ID-0001', 'ID-0002', 'ID-0003', 'ID-0010', 'ID-0011', 'ID-00110', 'ID-0012', 'ID-z', 'ID-ü1', 'ID-ü2', `ID-ü3${'x'.repeat(600)}`];
+    const cases = [
+      { cells: [...ids, 'ID-0003', 'ID-ü1', 'ID-new', '', 'ID-0001'], values: [...ids, 'ID-new', ''], counts: [2, 1, 2, 1, 1, 1, 1, 1, 2, 1, 1, 1, 1] },
+      { cells: [...ids.slice(0, 8), 'ID-z', 'ID-0001', 'ID-zz'], values: [...ids.slice(0, 8), 'ID-zz'], counts: [2, 1, 1, 1, 1, 1, 1, 2, 1] },
+    ];
+    for (const { cells, values, counts } of cases) {
+      const bytes = encodeUtf8(`id,n\n${cells.map((id, i) => `${id},${i}`).join('\n')}\n`);
+      for (const [sliceBytes, packValues] of [[7, false], [64, true], [1 << 20, false], [1 << 20, true]] as const) {
+        const reader = createTableReader({ dictionaryCap: 4, packValues });
+        for (let at = 0; at < bytes.length; at += sliceBytes) reader.push(bytes.subarray(at, at + sliceBytes));
+        const column = reader.finish().table.columns[0] as TextColumn;
+        expect(column.kind).toBe('text');
+        expect(textsOf(column)).toEqual(cells);
+        expect(column.values).toEqual(values);
+        expect(column.counts).toEqual(counts);
+      }
+    }
   });
 
   it('keeps text untrimmed: " a", "a" and "a " are three values', () => {
