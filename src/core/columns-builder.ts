@@ -138,8 +138,9 @@ export class ColumnBuilder {
     const stride = width + 1;
     let r = from;
     while (r < to) {
-      if (this.numbers === null && !this.ascending) r = this.pushKnownValues(records, field, r, to);
-      else if (this.numbers === null && this.pastCap) r = this.pushAscendingValues(records, field, r, to);
+      if (this.numbers !== null) r = this.pushNumberCells(records, field, r, to);
+      else if (!this.ascending) r = this.pushKnownValues(records, field, r, to);
+      else if (this.pastCap) r = this.pushAscendingValues(records, field, r, to);
       if (r === to) break;
       // A new value (or number storage, or an ascending run): the general path, one cell.
       const at = r * stride + field;
@@ -232,6 +233,31 @@ export class ColumnBuilder {
       this.hashStoredValues();
     }
     return r;
+  }
+
+  /** pushNumber for records [from, to) of a block, with the number storage held in locals; returns `to`. */
+  private pushNumberCells(records: PlainRecords, field: number, from: number, to: number): number {
+    const { bytes, bounds, width } = records;
+    const stride = width + 1;
+    if (this.numbers!.length < this.length + (to - from)) {
+      const room = roomFor(this.numbers!.length, this.length + (to - from));
+      this.numbers = resized(this.numbers!, room);
+      if (this.fixedDigits !== null) this.fixedDigits = resized(this.fixedDigits, room);
+    }
+    const numbers = this.numbers!;
+    let length = this.length;
+    for (let r = from; r < to; r++, length++) {
+      const at = r * stride + field;
+      const start = bounds[at]!;
+      const end = bounds[at + 1]! - 1;
+      scanner.read(bytes, start, end);
+      numbers[length] = scanner.value;
+      if (scanner.printsBack) continue;
+      if (scanner.fixed > 0) (this.fixedDigits ??= new Uint8Array(numbers.length))[length] = scanner.fixed;
+      else this.exceptions!.set(length, utf8Text(bytes, start, end));
+    }
+    this.length = length;
+    return to;
   }
 
   /** Makes room for `rows` rows in all, so that storage need not grow by doubling (and copying) up to there. */

@@ -133,6 +133,25 @@ describe('switching to number storage', () => {
   });
 });
 
+describe('number storage, read from a file (block by block)', () => {
+  it('keeps fixed decimals as a byte per row and other texts as exceptions, whatever the slices', () => {
+    // 5000 distinct prices: past the cap (4096) the column moves to numbers, and the rest of each
+    // block is read by pushNumberCells. "1.50"-like cells keep their decimals, "n/a" and "007" their text.
+    const cells = Array.from({ length: 6000 }, (_, i) => (i === 5500 ? 'n/a' : i === 5600 ? '007' : (i / 4).toFixed(2)));
+    const bytes = encodeUtf8(`price\n${cells.join('\n')}\n`);
+    for (const sliceBytes of [333, 1 << 20]) {
+      const reader = createTableReader({});
+      for (let at = 0; at < bytes.length; at += sliceBytes) reader.push(bytes.subarray(at, at + sliceBytes));
+      const prices = reader.finish().table.columns[0] as NumberColumn;
+      expect(prices.kind).toBe('number');
+      expect(textsOf(prices)).toEqual(cells);
+      expect([...prices.exceptions.entries()].sort((a, b) => a[0] - b[0])).toEqual([[5500, 'n/a'], [5600, '007']]);
+      // i/4 with i even ends in .00 or .50: 3000 of the 6000 rows, less the two exceptions (5500 and 5600 are even).
+      expect(Array.from(prices.fixedDigits?.subarray(0, 6000) ?? []).filter((d) => d === 2)).toHaveLength(2998);
+    }
+  });
+});
+
 describe('fixed decimals', () => {
   it('gives back every plain decimal of up to 15 digits from its number and its count of decimals (toFixed)', () => {
     fc.assert(
