@@ -2,7 +2,8 @@
 import { DEFAULT_MISSING_TOKENS } from '../core/missing.ts';
 
 const READING = `Reading files:
-  FILE is a CSV or other delimited text file, an .xlsx workbook, or - for standard input.
+  FILE is a CSV or other delimited text file (also gzip-compressed, .gz), an .xlsx workbook,
+  or - for standard input.
   --delimiter comma|semicolon|tab|pipe   instead of detecting it
   --encoding utf-8|utf-16le|utf-16be|windows-1252   instead of detecting it
   --sheet NAME   the sheet of a workbook to read (default: the first)`;

@@ -2,11 +2,14 @@
  * Where tables and recipes come from: a file path, or "-" for standard input. Text files are read
  * in chunks into core's table reader — whole (profile, draft) or batch by batch (apply, check), so
  * memory does not grow with the file. XLSX workbooks are read whole by read-excel-file, then go
- * through core's tableFromRows like the page's spreadsheets.
+ * through core's tableFromRows like the page's spreadsheets. A gzip-compressed file or input
+ * (big exports often travel so) is decompressed as it is read, on this thread.
  */
 import { createReadStream } from 'node:fs';
-import { stat } from 'node:fs/promises';
+import { open, stat } from 'node:fs/promises';
 import { basename } from 'node:path';
+import { pipeline, Readable } from 'node:stream';
+import { createGunzip } from 'node:zlib';
 import type { Table } from '../core/columns.ts';
 import { decodeBytes, type EncodingName } from '../core/decode.ts';
 import { isNotUtf8Error, placeBadUtf8 } from '../core/bad-utf8.ts';
@@ -67,7 +70,7 @@ export async function inputSource(path: string): Promise<InputSource> {
   } catch (error) {
     throw readFailure(path, error);
   }
-  return {
+  const file: InputSource = {
     label: path,
     fileName: basename(path),
     reopenable: true,
@@ -75,6 +78,65 @@ export async function inputSource(path: string): Promise<InputSource> {
     path,
     chunks: () => readChunks(path),
   };
+  return (await startsLikeGzip(path)) ? gunzipped(file) : file;
+}
+
+/** The first two bytes of every gzip member (RFC 1952 §2.3.1, ID1 and ID2). */
+const GZIP_MAGIC = [0x1f, 0x8b];
+
+function isGzip(bytes: Uint8Array): boolean {
+  return bytes.length >= 2 && GZIP_MAGIC.every((b, i) => bytes[i] === b);
+}
+
+async function startsLikeGzip(path: string): Promise<boolean> {
+  try {
+    const handle = await open(path, 'r');
+    try {
+      const { buffer, bytesRead } = await handle.read(Buffer.alloc(2), 0, 2, 0);
+      return isGzip(buffer.subarray(0, bytesRead));
+    } finally {
+      await handle.close();
+    }
+  } catch (error) {
+    throw readFailure(path, error);
+  }
+}
+
+/**
+ * `source` decompressed as it is read: every gzip member, one after the other (as `cat a.gz b.gz`
+ * makes them). Its size is then unknown and it is read on this thread, from the start (no path for
+ * the reading threads). `started`: the source's chunks, already begun, for the first read.
+ */
+function gunzipped(source: InputSource, started?: AsyncIterable<Uint8Array>): InputSource {
+  let first = started;
+  return {
+    ...source,
+    size: null,
+    path: null,
+    chunks() {
+      const chunks = first ?? source.chunks();
+      first = undefined;
+      return gunzipChunks(chunks, source.label);
+    },
+  };
+}
+
+async function* gunzipChunks(chunks: AsyncIterable<Uint8Array>, label: string): AsyncGenerator<Uint8Array> {
+  const gunzip = createGunzip();
+  // pipeline ends both streams on an error in either (and when this generator is left early).
+  pipeline(Readable.from(chunks), gunzip, () => undefined);
+  try {
+    for await (const chunk of gunzip) yield chunk as Buffer;
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException | null)?.code;
+    if (typeof code !== 'string' || !code.startsWith('Z_')) throw error;
+    throw new CliFailure(
+      `"${label}" is gzip-compressed, but its compressed data is damaged or cut short (${(error as Error).message}).`,
+      'Copy or download it again; "gzip -t FILE" tests a compressed file.',
+    );
+  } finally {
+    gunzip.destroy();
+  }
 }
 
 async function* readChunks(path: string): AsyncGenerator<Uint8Array> {
@@ -200,6 +262,8 @@ async function readBatchesOnce(
 ): Promise<ReadSummary> {
   const chunks = withFirstChunk(source.chunks());
   const first = await chunks.first();
+  // Standard input (a file is found out sooner, by inputSource).
+  if (first !== null && isGzip(first)) return readBatchesOnce(gunzipped(source, chunks), settings, batchRows, handlers);
   if (first !== null && ZIP_MAGIC.every((b, i) => first[i] === b)) return readWorkbook(source, chunks, settings, batchRows, handlers);
   // A file is read on other threads, which read it from its path (read-thread.ts).
   const threadPath = source.path !== null && canReadInThread() ? source.path : null;

@@ -9,6 +9,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, lstatSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { neutraliseFormula } from '../../src/core/csv-cell.ts';
@@ -500,6 +501,56 @@ function demoLikeRows(c: ReturnType<typeof goldenCases>[number]): string {
   const [header, ...rows] = text(c.input).split(/\r?\n/).filter((l) => l !== '');
   return [header, ...Array.from({ length: 20000 }, (_, i) => rows[i % rows.length])].join('\n') + '\n';
 }
+
+describe('gzip-compressed input (RFC 1952)', () => {
+  // The invented demo survey, compressed as a whole and as two members one after the other (as
+  // `cat a.gz b.gz` makes them; a gzip reader reads every member, RFC 1952 §2.2).
+  const plainPath = file('survey-gz.csv', demoNewCsv);
+  const split = demoNewCsv.indexOf('\n', demoNewCsv.length >> 1) + 1;
+  const whole = gzipSync(demoNewCsv);
+  const members = Buffer.concat([gzipSync(demoNewCsv.slice(0, split)), gzipSync(demoNewCsv.slice(split))]);
+  let recipePath = '';
+  let plain: Run;
+  beforeAll(() => {
+    recipePath = join(work, 'survey-gz.recipe.json');
+    expect(levelwise(['draft', plainPath, '-o', recipePath]).status).toBe(0);
+    plain = levelwise(['apply', recipePath, plainPath]);
+  });
+
+  it('apply reads a .gz file, one of several members, or standard input, to the bytes of the plain file', () => {
+    expect(plain.status).toBe(0);
+    expect(plain.stdout.length).toBeGreaterThan(100_000);
+    for (const run of [
+      levelwise(['apply', recipePath, file('survey-gz.csv.gz', whole)], { batchRows: 97 }),
+      levelwise(['apply', recipePath, file('survey-members.csv.gz', members)]),
+      levelwise(['apply', recipePath, '-'], { input: whole, batchRows: 97 }),
+    ]) {
+      expect(run.status).toBe(0);
+      expect(Buffer.compare(run.stdout, plain.stdout)).toBe(0);
+      expect(run.stderr).toBe(plain.stderr);
+    }
+  });
+
+  it('draft and profile read it as the plain file (the recipe names the file given)', () => {
+    const drafted = levelwise(['draft', file('survey-draft.csv.gz', whole)]);
+    expect(drafted.status).toBe(0);
+    const expected = readFileSync(recipePath, 'utf8').replace('"survey-gz.csv"', '"survey-draft.csv.gz"');
+    expect(text(drafted.stdout)).toBe(expected);
+    const profiled = levelwise(['profile', file('survey-profile.csv.gz', members)]);
+    expect(profiled.status).toBe(0);
+    expect(text(profiled.stdout).split('\n')[0]).toBe(`${join(work, 'survey-profile.csv.gz')}: 1,200 rows, 20 columns (utf-8, comma-separated)`);
+  });
+
+  it('a damaged or cut short file: one line, exit 2, no output file', () => {
+    const out = join(work, 'cut.out.csv');
+    const cut = levelwise(['apply', recipePath, file('cut.csv.gz', whole.subarray(0, whole.length >> 1)), '-o', out]);
+    expectOneLineError(cut, /"\S*cut\.csv\.gz" is gzip-compressed, but its compressed data is damaged or cut short \(unexpected end of file\)\. Copy or download it again/);
+    expect(existsSync(out)).toBe(false);
+    const damaged = Buffer.from(whole);
+    damaged.fill(0x55, 40, 80);
+    expectOneLineError(levelwise(['apply', recipePath, '-'], { input: damaged }), /"standard input" is gzip-compressed, but its compressed data is damaged/);
+  });
+});
 
 describe('encodings', () => {
   // Plain ASCII well past the first chunk the reader chooses the encoding from, then one
