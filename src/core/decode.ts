@@ -257,7 +257,7 @@ const SIGNATURES: readonly Signature[] = [
   { bytes: [0x89, 0x50, 0x4e, 0x47], what: 'a PNG image', hint: 'Choose the CSV or text file that holds the table.' },
   { bytes: [0xff, 0xd8, 0xff], what: 'a JPEG image', hint: 'Choose the CSV or text file that holds the table.' },
   { bytes: [0x25, 0x50, 0x44, 0x46], what: 'a PDF document', hint: SAVE_AS_CSV },
-  { bytes: [0x1f, 0x8b], what: 'a gzip-compressed file', hint: 'Unpack it first, then load the CSV inside (the command line reads .gz files as they are).' },
+  { bytes: [0x1f, 0x8b], what: 'a gzip-compressed file', hint: 'Unpack it first, then load the CSV inside.' },
 ];
 
 function rejectBinary(bytes: Uint8Array, forced: EncodingName | null): void {

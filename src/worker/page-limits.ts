@@ -37,6 +37,17 @@ export function tooLargeForPage(name: string, size: number, kind: FileKind, limi
   );
 }
 
+/** A compressed file whose unpacked text passes the limit: found out while reading, so part of it was read. */
+export function tooLargeUnpacked(name: string, size: number, limit: number): LevelwiseError {
+  return new LevelwiseError(
+    'too-large-for-page',
+    `“${name}” (${sizeText(size)} compressed) unpacks to more than ${sizeText(limit)}; the page opens files up to ${sizeText(limit)}, because it holds the whole table in this tab's memory. Reading stopped there.`,
+    {
+      hint: `Use the command line, which streams compressed files of any size: levelwise draft "${name}" -o recipe.json proposes a recipe, and levelwise apply recipe.json "${name}" -o encoded.csv encodes the file.`,
+    },
+  );
+}
+
 /** Sizes in the units the limits are stated in (powers of 1024). */
 export function sizeText(bytes: number): string {
   const units = ['bytes', 'KB', 'MB', 'GB'];

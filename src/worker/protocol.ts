@@ -69,7 +69,15 @@ export interface OpenedTable {
   readonly rowCount: number;
   readonly names: readonly string[];
   /** How the file was read, to show the person ("comma-separated, UTF-8", "sheet Survey"). */
-  readonly format: { readonly kind: 'text'; readonly delimiter: string; readonly encoding: string } | { readonly kind: 'sheet'; readonly sheet: string; readonly sheets: readonly string[] };
+  readonly format:
+    | {
+        readonly kind: 'text';
+        readonly delimiter: string;
+        readonly encoding: string;
+        /** Present when the file was gzip-compressed (and unpacked while read). */
+        readonly compressed?: 'gzip';
+      }
+    | { readonly kind: 'sheet'; readonly sheet: string; readonly sheets: readonly string[] };
   /** The first structural problems (rows with too few or too many fields …); see rowIssueCount for all. */
   readonly rowIssues: readonly RowIssue[];
   readonly rowIssueCount: number;

@@ -2,7 +2,7 @@
  * A file (or the built-in demo) → a Table, inside the worker. Text files are streamed from
  * `File.stream()` chunk by chunk into core's table reader, never held as one string; spreadsheets
  * go through read-excel-file (its worker-free build, since this already is a worker) and then core
- * `tableFromRows`.
+ * `tableFromRows`. A gzip-compressed text file is unpacked as it streams (DecompressionStream).
  */
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import readXlsxFile from 'read-excel-file/web-worker';
@@ -13,7 +13,7 @@ import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
 import { NumberProfiles } from '../core/number-profiles.ts';
 import type { ColumnProfile, ProfileOptions } from '../core/profile.ts';
-import { pageLimit, tooLargeForPage } from './page-limits.ts';
+import { pageLimit, tooLargeForPage, tooLargeUnpacked } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
 import type { Table } from '../core/columns.ts';
 import { MIN_SEGMENT_BYTES, openSegmentPool, PARALLEL_FROM_BYTES, profileOrHere, SegmentWorkerFailure, readingThreadCount } from './segment-pool.ts';
@@ -32,6 +32,8 @@ export interface SourceRead {
   readonly fileName: string;
   readonly file: Blob;
   readonly sheet: { readonly name: string; readonly names: readonly string[] } | null;
+  /** The file was gzip-compressed, and unpacked while read. */
+  readonly compressed?: boolean;
 }
 
 export interface ReadSourceOptions {
@@ -60,7 +62,51 @@ export async function readSource(source: TableSource, options: ReadSourceOptions
   const limit = pageLimit(spreadsheet ? 'workbook' : 'text', options.maxBytes);
   if (file.size > limit) throw tooLargeForPage(file.name, file.size, spreadsheet ? 'workbook' : 'text', limit);
   if (spreadsheet) return readSpreadsheet(file, source.sheet ?? null, options);
+  if (await isGzip(file)) return { read: await readGzipText(file, limit, options), profiles: null, fileName: file.name, file, sheet: null, compressed: true };
   return { ...(await readText(file, options)), fileName: file.name, file, sheet: null };
+}
+
+/** The first two bytes of a gzip file (RFC 1952 §2.3.1, ID1 and ID2). */
+const GZIP_MAGIC = [0x1f, 0x8b];
+
+async function isGzip(file: Blob): Promise<boolean> {
+  const head = new Uint8Array(await file.slice(0, 2).arrayBuffer());
+  return head.length === 2 && GZIP_MAGIC.every((b, i) => head[i] === b);
+}
+
+/**
+ * A gzip-compressed text file, unpacked as it streams and read on this thread (a compressed file
+ * cannot be cut into segments for other workers). The bar follows the compressed bytes read. Its
+ * unpacked size shows only while reading: past the page's limit the read stops, with the same way
+ * out as for a big file.
+ */
+function readGzipText(file: File, limit: number, { delimiter, signal, onProgress }: ReadSourceOptions): Promise<ReadResult> {
+  const unpacked = (): AsyncGenerator<Uint8Array> => {
+    let packed = 0;
+    const counted = file.stream().pipeThrough(
+      new TransformStream<Uint8Array, Uint8Array>({
+        transform(chunk, controller) {
+          packed += chunk.length;
+          controller.enqueue(chunk);
+        },
+      }),
+    );
+    // The DOM's typings want a BufferSource stream in; File.stream() gives Uint8Arrays, which are one.
+    const stream = counted.pipeThrough(new DecompressionStream('gzip') as unknown as TransformStream<Uint8Array, Uint8Array>);
+    let total = 0;
+    return streamChunks(stream, signal, (chunk) => {
+      total += chunk.length;
+      if (total > limit) throw tooLargeUnpacked(file.name, file.size, limit);
+      onProgress(Math.min(packed, file.size), file.size);
+    }, (error) => damagedGzip(file.name, error));
+  };
+  return readTableFromSource(unpacked, { delimiter: delimiter ?? null });
+}
+
+function damagedGzip(name: string, error: unknown): LevelwiseError {
+  return new LevelwiseError('bad-gzip', `“${name}” is gzip-compressed, but it could not be unpacked (${messageOf(error)}): its data is damaged or cut short, or it holds several compressed parts one after the other.`, {
+    hint: 'Unpack it with your file manager or gzip and open the CSV inside; the command line (levelwise) reads such files as they are.',
+  });
 }
 
 const WORKBOOK_NAME = /\.(xlsx|xlsm)$/i;
@@ -176,10 +222,27 @@ async function readInSegments(
 export const READ_PAUSE_EVERY_MS = 50;
 
 /** The file's bytes as they stream in; reports progress and stops when the request is cancelled. */
-async function* chunksOf(file: Blob, signal: AbortSignal, onProgress: ReadProgress): AsyncGenerator<Uint8Array> {
-  const reader = file.stream().getReader();
+function chunksOf(file: Blob, signal: AbortSignal, onProgress: ReadProgress): AsyncGenerator<Uint8Array> {
   let done = 0;
+  return streamChunks(file.stream(), signal, (chunk) => {
+    done += chunk.length;
+    onProgress(done, file.size);
+  });
+}
+
+/**
+ * A stream's chunks, each first shown to `onChunk`; pauses for the worker's messages and stops when
+ * the request is cancelled. `failure` names an error of the stream itself (not of its consumer).
+ */
+async function* streamChunks(
+  stream: ReadableStream<Uint8Array>,
+  signal: AbortSignal,
+  onChunk: (chunk: Uint8Array) => void,
+  failure: (error: unknown) => unknown = (error) => error,
+): AsyncGenerator<Uint8Array> {
+  const reader = stream.getReader();
   let pausedAt = performance.now();
+  let finished = false;
   try {
     for (;;) {
       if (performance.now() - pausedAt >= READ_PAUSE_EVERY_MS) {
@@ -187,13 +250,23 @@ async function* chunksOf(file: Blob, signal: AbortSignal, onProgress: ReadProgre
         pausedAt = performance.now();
       }
       if (signal.aborted) throw new Cancelled();
-      const next = await reader.read();
-      if (next.done) return;
-      done += next.value.length;
-      onProgress(done, file.size);
+      let next: ReadableStreamReadResult<Uint8Array>;
+      try {
+        next = await reader.read();
+      } catch (error) {
+        finished = true;
+        throw failure(error);
+      }
+      if (next.done) {
+        finished = true;
+        return;
+      }
+      onChunk(next.value);
       yield next.value;
     }
   } finally {
+    // Left early (cancelled, refused, or the reader stopped): the stream, and any it is piped from, stops too.
+    if (!finished) void reader.cancel().catch(() => undefined);
     reader.releaseLock();
   }
 }

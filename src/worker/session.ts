@@ -114,7 +114,7 @@ export function createSession(post: Post): Session {
         names: table.names,
         format:
           read.sheet === null
-            ? { kind: 'text', delimiter: read.read.delimiter, encoding: read.read.encoding }
+            ? { kind: 'text', delimiter: read.read.delimiter, encoding: read.read.encoding, ...(read.compressed ? { compressed: 'gzip' as const } : {}) }
             : { kind: 'sheet', sheet: read.sheet.name, sheets: read.sheet.names },
         rowIssues: table.rowIssues.slice(0, ROW_ISSUES_LISTED),
         rowIssueCount: table.rowIssues.length,

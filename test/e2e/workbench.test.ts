@@ -18,6 +18,7 @@ import { draftRecipe } from '../../src/core/fit.ts';
 import { profileTable } from '../../src/core/profile.ts';
 import { DEFAULT_MISSING_TOKENS } from '../../src/core/recipe.ts';
 import { readTable } from '../../src/core/read-table.ts';
+import { gzipSync } from 'node:zlib';
 import { formatCount, formatValue } from '../../src/ui/columns/labels.ts';
 
 /** An invented ticket list: identifiers, a nominal colour, an unordered-looking priority, amounts with one gap. */
@@ -320,6 +321,17 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await page.getByLabel('Sheet').selectOption('Visits');
     await expect.poll(() => page.getByTestId('file-summary').textContent(), { timeout: 30_000 }).toContain('sheet “Visits”');
     await waitForFile('plots.xlsx', 2);
+  });
+
+  it('unpacks a gzip-compressed CSV as it reads it (RFC 1952; DecompressionStream in the worker)', async () => {
+    await page.getByTestId('open-file-input').setInputFiles({ name: 'tickets-export.csv.gz', mimeType: 'application/gzip', buffer: gzipSync(TICKETS_CSV) });
+    await waitForFile('tickets-export.csv.gz', 6);
+    await expect.poll(() => page.getByTestId('file-summary').textContent()).toContain('comma-separated, UTF-8, gzip-compressed');
+    expect((await outputHeaders()).filter((h) => h.startsWith('colour'))).toEqual(['colour=red', 'colour=blue', 'colour=green']);
+    // T-01 red, T-02 blue, T-04 green: the rows of the file unpacked.
+    expect(await previewCell(0, 'colour=red')).toBe('1');
+    expect(await previewCell(1, 'colour=blue')).toBe('1');
+    expect(await previewCell(3, 'colour=green')).toBe('1');
   });
 
   it('restores the decisions made on a file when it is opened again after a reload', async () => {

@@ -2,6 +2,7 @@
  * The worker's session, driven through the same client the page uses (over the in-page port, so it
  * runs in Node). Expected numbers are computed by hand from the small table below.
  */
+import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { decide, type Decision } from '../../src/core/decisions.ts';
 import { encodeToCsv } from '../../src/core/encode-csv.ts';
@@ -89,6 +90,46 @@ describe('opening a file', () => {
     expect(error).toBeInstanceOf(WorkerProblem);
     expect((error as WorkerProblem).problem.code).toBe('empty-file');
     expect((error as WorkerProblem).problem.hint).not.toBe('');
+  });
+
+  it('unpacks a gzip-compressed file as it reads it (RFC 1952), to the table of the file unpacked', async () => {
+    const client = newClient();
+    const plain = await openSmall(client);
+    const packed = gzipSync(SMALL_CSV);
+    const progress: number[] = [];
+    const opened = await client.call(
+      'open',
+      { slot: 'work', source: { kind: 'file', file: new File([packed], 'small.csv.gz') }, draft: true },
+      { onProgress: (p) => p.phase === 'reading' && progress.push(p.done) },
+    );
+    expect(opened.rowCount).toBe(4);
+    expect(opened.names).toEqual(plain.names);
+    expect(opened.profiles).toEqual(plain.profiles);
+    expect(opened.draft?.columns).toEqual(plain.draft?.columns);
+    expect(opened.draft?.source.file).toBe('small.csv.gz');
+    expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8', compressed: 'gzip' });
+    // The bar follows the compressed bytes.
+    expect(opened.byteSize).toBe(packed.length);
+    expect(progress.at(-1)).toBe(packed.length);
+  });
+
+  it('refuses a compressed file that unpacks past the page limit, and one it cannot unpack, saying what to do', async () => {
+    const client = newClient();
+    const rows = `id,n\n${Array.from({ length: 5000 }, (_, i) => `r${i},${i % 7}`).join('\n')}\n`;
+    const packed = gzipSync(rows);
+    // A limit above the compressed size (so the file is not refused before reading) and below the unpacked one.
+    const maxBytes = packed.length + 1000;
+    expect(rows.length).toBeGreaterThan(maxBytes);
+    const big = await client.call('open', { slot: 'work', source: { kind: 'file', file: new File([packed], 'rows.csv.gz') }, draft: true, maxBytes }).catch((e: unknown) => e);
+    expect(big).toBeInstanceOf(WorkerProblem);
+    expect((big as WorkerProblem).problem.code).toBe('too-large-for-page');
+    expect((big as WorkerProblem).problem.message).toMatch(/^“rows\.csv\.gz” \([\d.]+ KB compressed\) unpacks to more than [\d.]+ KB; the page opens files up to/);
+    expect((big as WorkerProblem).problem.hint).toContain('levelwise apply recipe.json "rows.csv.gz"');
+    const cut = await client.call('open', { slot: 'work', source: { kind: 'file', file: new File([packed.subarray(0, packed.length >> 1)], 'cut.csv.gz') }, draft: true }).catch((e: unknown) => e);
+    expect(cut).toBeInstanceOf(WorkerProblem);
+    expect((cut as WorkerProblem).problem.code).toBe('bad-gzip');
+    expect((cut as WorkerProblem).problem.message).toMatch(/^“cut\.csv\.gz” is gzip-compressed, but it could not be unpacked \(.+\): its data is damaged or cut short/);
+    expect((cut as WorkerProblem).problem.hint).toContain('Unpack it');
   });
 
   it('generates the invented demo survey inside the worker', async () => {

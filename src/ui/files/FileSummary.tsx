@@ -19,7 +19,10 @@ export function FileSummary({ table, isDemo, demoNote, onSheet }: FileSummaryPro
     );
   }
   const { format } = table;
-  const how = format.kind === 'text' ? `${delimiterWords(format.delimiter)}, ${format.encoding.toUpperCase()}` : `sheet “${format.sheet}”`;
+  const how =
+    format.kind === 'text'
+      ? `${delimiterWords(format.delimiter)}, ${format.encoding.toUpperCase()}${format.compressed === 'gzip' ? ', gzip-compressed' : ''}`
+      : `sheet “${format.sheet}”`;
   return (
     <div className="file-summary" data-testid="file-summary">
       <span className="file-name" title={table.fileName}>

@@ -5,7 +5,7 @@
 import { useId, type ChangeEvent } from 'react';
 
 export const DATA_FILE_ACCEPT =
-  '.csv,.tsv,.tab,.txt,.psv,.xlsx,text/csv,text/tab-separated-values,text/plain,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
+  '.csv,.tsv,.tab,.txt,.psv,.gz,.xlsx,text/csv,text/tab-separated-values,text/plain,application/gzip,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
 
 export interface OpenFileButtonProps {
   readonly label: string;
