@@ -78,7 +78,8 @@ Encodes FILE with RECIPE into a CSV of numbers (RFC 4180), streaming: memory doe
 the file. The output is the same, byte for byte, as the workbench's download (but for rows with
 more fields than the header or a quote never closed, which are rejected here).
 
-  -o, --output OUT   write to OUT (default: standard output); OUT appears only when complete
+  -o, --output OUT   write to OUT (default: standard output); OUT appears only when complete;
+                     a name ending in .gz is written gzip-compressed (so is --rejects FILE.gz)
   --rejects FILE     write rejected rows to FILE: their line, column, reason and every cell.
                      Rejected rows are never in the output: rows a policy "error" rejects, and
                      rows whose fields do not line up with the header (too many fields, a quote

@@ -9,7 +9,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, lstatSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { gzipSync } from 'node:zlib';
+import { gunzipSync, gzipSync } from 'node:zlib';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { neutraliseFormula } from '../../src/core/csv-cell.ts';
@@ -541,6 +541,24 @@ describe('gzip-compressed input (RFC 1952)', () => {
     expect(text(profiled.stdout).split('\n')[0]).toBe(`${join(work, 'survey-profile.csv.gz')}: 1,200 rows, 20 columns (utf-8, comma-separated)`);
   });
 
+  it('apply -o OUT.gz and --rejects FILE.gz write gzip-compressed, only when complete', () => {
+    const out = join(work, 'survey.encoded.csv.gz');
+    const rejects = join(work, 'survey.rejects.csv.gz');
+    const plainRejects = join(work, 'survey.rejects.csv');
+    // Rows whose annual_kwh is not a number ("unknown") are rejected, so that the rejects file has rows.
+    const profiles = profileTable(readTable(new TextEncoder().encode(demoNewCsv)).table, { missingTokens: DEFAULT_MISSING_TOKENS });
+    const rejecting = decide(parsed(readFileSync(recipePath, 'utf8')), { type: 'set-invalid', column: 'annual_kwh', invalid: 'error' }, profiles);
+    const rejectingPath = file('survey-gz.rejecting.recipe.json', stringifyRecipe(rejecting));
+    const packed = levelwise(['apply', rejectingPath, file('survey-out.csv.gz', whole), '-o', out, '--rejects', rejects], { batchRows: 97 });
+    const unpacked = levelwise(['apply', rejectingPath, plainPath, '-o', join(work, 'survey.encoded.csv'), '--rejects', plainRejects], { batchRows: 97 });
+    expect(unpacked.status).toBe(1);
+    expect(packed.status).toBe(1);
+    expect(gunzipSync(readFileSync(out)).equals(readFileSync(join(work, 'survey.encoded.csv')))).toBe(true);
+    expect(gunzipSync(readFileSync(rejects)).equals(readFileSync(plainRejects))).toBe(true);
+    expect(readFileSync(plainRejects).length).toBeGreaterThan(100);
+    expect(readdirSync(work).filter((name) => name.includes('.partial'))).toEqual([]);
+  });
+
   it('a damaged or cut short file: one line, exit 2, no output file', () => {
     const out = join(work, 'cut.out.csv');
     const cut = levelwise(['apply', recipePath, file('cut.csv.gz', whole.subarray(0, whole.length >> 1)), '-o', out]);
@@ -571,6 +589,10 @@ describe('encodings', () => {
     const page = encodeToCsv(recipe(), table());
     expect(text(readFileSync(out))).toBe(text(page.bytes));
     expect(text(page.bytes)).toContain('town=Orléans');
+    // Written compressed, the output is started over the same way.
+    const packed = join(work, 'towns.out.csv.gz');
+    expect(levelwise(['apply', recipePath, join(work, 'towns.csv'), '-o', packed], { batchRows: 50 }).status).toBe(0);
+    expect(text(gunzipSync(readFileSync(packed)))).toBe(text(page.bytes));
   });
   it('from standard input it cannot be read again: one line says to name the encoding, and no output file appears', () => {
     const recipePath = file('towns2.recipe.json', stringifyRecipe(recipe()));
