@@ -11,7 +11,7 @@ import { basename } from 'node:path';
 import { pipeline, Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
 import type { Table } from '../core/columns.ts';
-import { decodeBytes, type EncodingName } from '../core/decode.ts';
+import { decodeBytes, startsLikeGzip, type EncodingName } from '../core/decode.ts';
 import { isNotUtf8Error, placeBadUtf8 } from '../core/bad-utf8.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { createTableReader, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
@@ -78,22 +78,15 @@ export async function inputSource(path: string): Promise<InputSource> {
     path,
     chunks: () => readChunks(path),
   };
-  return (await startsLikeGzip(path)) ? gunzipped(file) : file;
+  return (await fileStartsLikeGzip(path)) ? gunzipped(file) : file;
 }
 
-/** The first two bytes of every gzip member (RFC 1952 §2.3.1, ID1 and ID2). */
-const GZIP_MAGIC = [0x1f, 0x8b];
-
-function isGzip(bytes: Uint8Array): boolean {
-  return bytes.length >= 2 && GZIP_MAGIC.every((b, i) => bytes[i] === b);
-}
-
-async function startsLikeGzip(path: string): Promise<boolean> {
+async function fileStartsLikeGzip(path: string): Promise<boolean> {
   try {
     const handle = await open(path, 'r');
     try {
       const { buffer, bytesRead } = await handle.read(Buffer.alloc(2), 0, 2, 0);
-      return isGzip(buffer.subarray(0, bytesRead));
+      return startsLikeGzip(buffer.subarray(0, bytesRead));
     } finally {
       await handle.close();
     }
@@ -263,7 +256,7 @@ async function readBatchesOnce(
   const chunks = withFirstChunk(source.chunks());
   const first = await chunks.first();
   // Standard input (a file is found out sooner, by inputSource).
-  if (first !== null && isGzip(first)) return readBatchesOnce(gunzipped(source, chunks), settings, batchRows, handlers);
+  if (first !== null && startsLikeGzip(first)) return readBatchesOnce(gunzipped(source, chunks), settings, batchRows, handlers);
   if (first !== null && ZIP_MAGIC.every((b, i) => first[i] === b)) return readWorkbook(source, chunks, settings, batchRows, handlers);
   // A file is read on other threads, which read it from its path (read-thread.ts).
   const threadPath = source.path !== null && canReadInThread() ? source.path : null;

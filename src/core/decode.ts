@@ -260,6 +260,11 @@ const SIGNATURES: readonly Signature[] = [
   { bytes: [0x1f, 0x8b], what: 'a gzip-compressed file', hint: 'Unpack it first, then load the CSV inside.' },
 ];
 
+/** The first two bytes of every gzip member (RFC 1952 §2.3.1, ID1 and ID2): the command line and the page unpack such files. */
+export function startsLikeGzip(bytes: Uint8Array): boolean {
+  return bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b;
+}
+
 function rejectBinary(bytes: Uint8Array, forced: EncodingName | null): void {
   const signature = SIGNATURES.find((s) => s.bytes.every((b, i) => bytes[i] === b));
   if (signature !== undefined) {

@@ -6,7 +6,7 @@
  */
 import { spreadsheetCellText } from '../core/spreadsheet-cell.ts';
 import readXlsxFile from 'read-excel-file/web-worker';
-import { retryAsWindows1252, type EncodingName } from '../core/decode.ts';
+import { retryAsWindows1252, startsLikeGzip, type EncodingName } from '../core/decode.ts';
 import { readInParallel } from '../core/parallel-read.ts';
 import { createTableReader, readTableFromSource, tableFromRows, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { LevelwiseError } from '../core/errors.ts';
@@ -66,12 +66,8 @@ export async function readSource(source: TableSource, options: ReadSourceOptions
   return { ...(await readText(file, options)), fileName: file.name, file, sheet: null };
 }
 
-/** The first two bytes of a gzip file (RFC 1952 §2.3.1, ID1 and ID2). */
-const GZIP_MAGIC = [0x1f, 0x8b];
-
 async function isGzip(file: Blob): Promise<boolean> {
-  const head = new Uint8Array(await file.slice(0, 2).arrayBuffer());
-  return head.length === 2 && GZIP_MAGIC.every((b, i) => head[i] === b);
+  return startsLikeGzip(new Uint8Array(await file.slice(0, 2).arrayBuffer()));
 }
 
 /**
