@@ -142,7 +142,7 @@ export class ColumnBuilder {
       else if (!this.ascending) r = this.pushKnownValues(records, field, r, to);
       else if (this.pastCap) r = this.pushAscendingValues(records, field, r, to);
       if (r === to) break;
-      // A new value (or number storage, or an ascending run): the general path, one cell.
+      // A new value, a cell of an ascending run before the cap, or the cell that ends a run: the general path, one cell.
       const at = r * stride + field;
       this.pushBytes(bytes, bounds[at]!, bounds[at + 1]! - 1, hashes[at]!, null);
       r++;

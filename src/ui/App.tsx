@@ -172,7 +172,7 @@ export function App() {
             actions={
               table && recipe ? (
                 <TakeAway
-                  onCsv={() => void takeAway.exportCsv({ slot: 'work', version: table.version, fileName: table.fileName, rowCount: table.rowCount, recipe })}
+                  onCsv={(compressed) => void takeAway.exportCsv({ slot: 'work', version: table.version, fileName: table.fileName, rowCount: table.rowCount, recipe }, compressed)}
                   onRecipe={() => takeAway.saveRecipe(recipe, table.fileName)}
                   onCodebook={(format) => takeAway.saveCodebook(recipe, table.fileName, format)}
                   busy={wb.task !== null}

@@ -144,10 +144,15 @@ export interface ExportRequest {
    * the worker, so the page's main thread never copies or holds the file's bytes (the page's choice).
    */
   readonly parts?: 'bytes' | 'blobs';
+  /** 'gzip': the parts are the CSV gzip-compressed (gzip-parts.ts). */
+  readonly compress?: 'gzip';
 }
 
 export interface ExportSummary {
+  /** Bytes of CSV written (before any compression). */
   readonly bytes: number;
+  /** With `compress`: the bytes of the parts, compressed; else null. */
+  readonly compressedBytes: number | null;
   readonly rowsWritten: number;
   readonly report: ApplyReport;
 }

@@ -32,6 +32,7 @@ import {
   type ToWorker,
 } from './protocol.ts';
 import { readSource } from './read-source.ts';
+import { gzipParts } from './gzip-parts.ts';
 import { profileSharingWorkers } from './segment-pool.ts';
 import { windowTable } from './window-table.ts';
 
@@ -155,14 +156,21 @@ export function createSession(post: Post): Session {
       const plan = compilePlan(request.recipe, state.table.names);
       // The writer reuses its buffer: a copy is what travels — a byte array (transferred, not
       // cloned), or a Blob, whose bytes go to the browser's blob store and never reach the page.
-      const writer = createCsvWriter(plan, (part) =>
-        request.parts === 'blobs' ? context.blob(new Blob([part as Uint8Array<ArrayBuffer>])) : context.chunk(part.slice()),
-      );
-      writer.writeHeader();
-      const report = await encodeAll(plan, state.table, context, 'writing', (batch) => writer.writeBatch(batch));
-      writer.finish();
-      const result: ExportSummary = { bytes: writer.bytesWritten, rowsWritten: report.rowsWritten, report };
-      return { result };
+      const send = (part: Uint8Array): void =>
+        request.parts === 'blobs' ? context.blob(new Blob([part as Uint8Array<ArrayBuffer>])) : context.chunk(part.slice());
+      const gzip = request.compress === 'gzip' ? gzipParts(send) : null;
+      const writer = createCsvWriter(plan, gzip === null ? send : (part) => gzip.write(part));
+      try {
+        writer.writeHeader();
+        const report = await encodeAll(plan, state.table, context, 'writing', (batch) => writer.writeBatch(batch), gzip?.drained);
+        writer.finish();
+        const compressedBytes = gzip === null ? null : await gzip.finish();
+        const result: ExportSummary = { bytes: writer.bytesWritten, compressedBytes, rowsWritten: report.rowsWritten, report };
+        return { result };
+      } catch (error) {
+        gzip?.abort();
+        throw error;
+      }
     },
 
     async check(request, context) {
@@ -287,6 +295,8 @@ async function encodeAll(
   context: Context,
   phase: Phase,
   write: (batch: ReturnType<typeof encodeBatch>) => void,
+  /** Awaited after each batch: where the bytes go can take more. */
+  drained?: () => Promise<void>,
 ): Promise<ApplyReport> {
   const report = createApplyReport(plan);
   context.progress(phase, 0, table.rowCount);
@@ -294,6 +304,7 @@ async function encodeAll(
     const end = Math.min(table.rowCount, start + BATCH_ROWS);
     write(encodeBatch(plan, table, start, end, report));
     context.progress(phase, end, table.rowCount);
+    await drained?.();
     await breathe(context.signal);
   }
   return report.finish();

@@ -18,7 +18,7 @@ import { draftRecipe } from '../../src/core/fit.ts';
 import { profileTable } from '../../src/core/profile.ts';
 import { DEFAULT_MISSING_TOKENS } from '../../src/core/recipe.ts';
 import { readTable } from '../../src/core/read-table.ts';
-import { gzipSync } from 'node:zlib';
+import { gunzipSync, gzipSync } from 'node:zlib';
 import { formatCount, formatValue } from '../../src/ui/columns/labels.ts';
 
 /** An invented ticket list: identifiers, a nominal colour, an unordered-looking priority, amounts with one gap. */
@@ -248,6 +248,14 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
         'T-05,1,0,2,50,0\r\n' +
         'T-06,0,0,1,12,0\r\n',
     );
+
+    // The same CSV gzip-compressed (RFC 1952), made in the worker by CompressionStream.
+    await page.getByLabel('Encoded CSV file type').selectOption('gzip');
+    const [packed] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Encoded CSV', exact: true }).click()]);
+    expect(packed.suggestedFilename()).toBe('tickets — encoded.csv.gz');
+    expect(gunzipSync(readFileSync(await packed.path())).toString('utf8')).toBe(csv.text);
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'gzip-compressed' }).first().textContent()).toMatch(/Encoded CSV of tickets\.csv ready: 6 rows, \d+ bytes gzip-compressed \(\d+ bytes of CSV\)/);
+    await page.getByLabel('Encoded CSV file type').selectOption('plain');
 
     const recipe = await downloadText(() => page.getByRole('button', { name: 'Recipe', exact: true }).click());
     expect(recipe.name).toBe('tickets.recipe.json');

@@ -1,9 +1,10 @@
-/** The three things to take away: the encoded CSV, the recipe, and the codebook (Markdown or HTML). */
+/** The three things to take away: the encoded CSV (plain or gzip-compressed), the recipe, and the codebook (Markdown or HTML). */
 import { useId, useState } from 'react';
 import type { CodebookFormat } from './useTakeAway.ts';
 
 export interface TakeAwayProps {
-  onCsv(): void;
+  /** `compressed`: gzip-compressed, a .csv.gz file. */
+  onCsv(compressed: boolean): void;
   onRecipe(): void;
   onCodebook(format: CodebookFormat): void;
   readonly busy: boolean;
@@ -13,19 +14,37 @@ export interface TakeAwayProps {
 
 export function TakeAway({ onCsv, onRecipe, onCodebook, busy, noOutputs = false }: TakeAwayProps) {
   const [format, setFormat] = useState<CodebookFormat>('markdown');
+  const [compressed, setCompressed] = useState(false);
   const formatId = useId();
+  const csvFormatId = useId();
   const noteId = useId();
   return (
     <div className="take-away" role="group" aria-label="Take away">
-      <button
-        type="button"
-        className="button button-primary"
-        onClick={onCsv}
-        disabled={busy || noOutputs}
-        aria-describedby={noOutputs ? noteId : undefined}
-      >
-        Encoded CSV
-      </button>
+      <span className="joined">
+        <button
+          type="button"
+          className="button button-primary"
+          onClick={() => onCsv(compressed)}
+          disabled={busy || noOutputs}
+          aria-describedby={noOutputs ? noteId : undefined}
+        >
+          Encoded CSV
+        </button>
+        <label htmlFor={csvFormatId} className="visually-hidden">
+          Encoded CSV file type
+        </label>
+        <select
+          id={csvFormatId}
+          className="select-compact"
+          value={compressed ? 'gzip' : 'plain'}
+          onChange={(e) => setCompressed(e.target.value === 'gzip')}
+          title="A .csv.gz file is the same CSV, gzip-compressed: a fraction of the size"
+          data-testid="csv-file-type"
+        >
+          <option value="plain">.csv</option>
+          <option value="gzip">.csv.gz</option>
+        </select>
+      </span>
       {noOutputs ? (
         <span id={noteId} className="muted take-away-note">
           Every column is excluded: there is nothing to encode. Give at least one column a level.

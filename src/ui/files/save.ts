@@ -46,11 +46,15 @@ interface SavePickerWindow {
  * A sink for an export of about `estimatedBytes`. Resolves null when the person closed the save
  * picker without choosing a file. Must be called from a click (the picker needs a user gesture).
  */
-export async function openPartSink(fileName: string, type: string, estimatedBytes: number): Promise<PartSink | null> {
+export async function openPartSink(
+  fileName: string,
+  { type, extension, description }: { readonly type: string; readonly extension: string; readonly description: string },
+  estimatedBytes: number,
+): Promise<PartSink | null> {
   const picker = (window as unknown as SavePickerWindow).showSaveFilePicker;
   if (estimatedBytes > STREAM_ABOVE_BYTES && picker) {
     try {
-      const handle = await picker.call(window, { suggestedName: fileName, types: [{ description: 'CSV file', accept: { [type]: ['.csv'] } }] });
+      const handle = await picker.call(window, { suggestedName: fileName, types: [{ description, accept: { [type]: [extension] } }] });
       const writable = await handle.createWritable();
       let pending = Promise.resolve();
       return {

@@ -1,6 +1,6 @@
 /**
- * Taking results away: the encoded CSV (written by the worker in parts), the recipe as JSON, and
- * the codebook as Markdown or HTML (both from core, built from the recipe alone).
+ * Taking results away: the encoded CSV (written by the worker in parts, plain or gzip-compressed),
+ * the recipe as JSON, and the codebook as Markdown or HTML (both from core, built from the recipe alone).
  */
 import { useCallback } from 'react';
 import type { ApplyReport } from '../../core/apply-report.ts';
@@ -33,6 +33,12 @@ interface Deps {
   showReport(report: ApplyReport, fileName: string): void;
 }
 
+/** The two kinds of file the encoded CSV is saved as (type and extension, for a save dialog). */
+const CSV_FILE = { type: 'text/csv', extension: '.csv', description: 'CSV file' } as const;
+const GZIP_FILE = { type: 'application/gzip', extension: '.gz', description: 'gzip-compressed CSV file' } as const;
+/** How much smaller gzip makes an encoded CSV, roughly (the benchmark's: 350 → 41 MB at zlib's fastest level). */
+const COMPRESSION_GUESS = 8;
+
 /** A rough guess of the CSV's size, to decide between a download and streaming to disk. */
 export function estimateCsvBytes(rowCount: number, recipe: Recipe): number {
   const outputs = recipe.columns.reduce((n, c) => n + c.outputs.length, 0);
@@ -41,25 +47,27 @@ export function estimateCsvBytes(rowCount: number, recipe: Recipe): number {
 
 export function useTakeAway({ client, run, notify, showReport }: Deps) {
   const exportCsv = useCallback(
-    async (target: ExportTarget) => {
-      const fileName = `${baseName(target.fileName)} — encoded.csv`;
-      const sink = await openPartSink(fileName, 'text/csv', estimateCsvBytes(target.rowCount, target.recipe));
+    async (target: ExportTarget, compressed = false) => {
+      const fileName = `${baseName(target.fileName)} — encoded.${compressed ? 'csv.gz' : 'csv'}`;
+      const estimate = estimateCsvBytes(target.rowCount, target.recipe) / (compressed ? COMPRESSION_GUESS : 1);
+      const sink = await openPartSink(fileName, compressed ? GZIP_FILE : CSV_FILE, estimate);
       if (sink === null) return;
       try {
         const summary = await run('Writing the encoded CSV', (onProgress) =>
           client.start(
             'export',
             // Blob parts: the file's bytes go from the worker to the browser's blob store (or the disk), never through this thread.
-            { slot: target.slot, version: target.version, recipe: target.recipe, parts: 'blobs' },
+            { slot: target.slot, version: target.version, recipe: target.recipe, parts: 'blobs', ...(compressed ? { compress: 'gzip' as const } : {}) },
             { onProgress, onBlob: (part) => sink.write(part) },
           ),
         );
         await sink.finish();
         const { report } = summary;
         const left = report.rowsRejected;
+        const size = summary.compressedBytes === null ? formatBytes(summary.bytes) : `${formatBytes(summary.compressedBytes)} gzip-compressed (${formatBytes(summary.bytes)} of CSV)`;
         notify({
           tone: left > 0 ? 'warning' : 'success',
-          title: `Encoded CSV of ${target.fileName} ${sink.kind === 'disk' ? 'saved' : 'ready'}: ${formatCount(summary.rowsWritten)} rows, ${formatBytes(summary.bytes)}`,
+          title: `Encoded CSV of ${target.fileName} ${sink.kind === 'disk' ? 'saved' : 'ready'}: ${formatCount(summary.rowsWritten)} rows, ${size}`,
           ...(left > 0 ? { detail: `${formatCount(left)} ${left === 1 ? 'row was' : 'rows were'} left out by an “error” policy.` } : {}),
           action: { label: left > 0 ? 'See which rows' : 'See the report', run: () => showReport(report, target.fileName) },
         });

@@ -12,6 +12,15 @@ describe('TakeAway', () => {
     render(<TakeAway onCsv={onCsv} onRecipe={() => {}} onCodebook={() => {}} busy={false} />);
     await userEvent.click(screen.getByRole('button', { name: 'Encoded CSV' }));
     expect(onCsv).toHaveBeenCalledTimes(1);
+    expect(onCsv).toHaveBeenLastCalledWith(false);
+  });
+
+  it('offers it gzip-compressed, as a .csv.gz file, once chosen', async () => {
+    const onCsv = vi.fn();
+    render(<TakeAway onCsv={onCsv} onRecipe={() => {}} onCodebook={() => {}} busy={false} />);
+    await userEvent.selectOptions(screen.getByLabelText('Encoded CSV file type'), '.csv.gz');
+    await userEvent.click(screen.getByRole('button', { name: 'Encoded CSV' }));
+    expect(onCsv).toHaveBeenLastCalledWith(true);
   });
 
   it('does not offer a file of empty lines when every column is excluded, and says why', async () => {
