@@ -235,28 +235,12 @@ export class ColumnBuilder {
     return r;
   }
 
-  /** pushNumber for records [from, to) of a block, with the number storage held in locals; returns `to`. */
+  /** pushNumber for records [from, to) of a block, the room made once; returns `to`. */
   private pushNumberCells(records: PlainRecords, field: number, from: number, to: number): number {
     const { bytes, bounds, width } = records;
     const stride = width + 1;
-    if (this.numbers!.length < this.length + (to - from)) {
-      const room = roomFor(this.numbers!.length, this.length + (to - from));
-      this.numbers = resized(this.numbers!, room);
-      if (this.fixedDigits !== null) this.fixedDigits = resized(this.fixedDigits, room);
-    }
-    const numbers = this.numbers!;
-    let length = this.length;
-    for (let r = from; r < to; r++, length++) {
-      const at = r * stride + field;
-      const start = bounds[at]!;
-      const end = bounds[at + 1]! - 1;
-      scanner.read(bytes, start, end);
-      numbers[length] = scanner.value;
-      if (scanner.printsBack) continue;
-      if (scanner.fixed > 0) (this.fixedDigits ??= new Uint8Array(numbers.length))[length] = scanner.fixed;
-      else this.exceptions!.set(length, utf8Text(bytes, start, end));
-    }
-    this.length = length;
+    this.numberRoom(this.length + (to - from));
+    for (let r = from, at = from * stride + field; r < to; r++, at += stride) this.storeNumber(bytes, bounds[at]!, bounds[at + 1]! - 1, null);
     return to;
   }
 
@@ -474,18 +458,26 @@ export class ColumnBuilder {
   }
 
   private pushNumber(bytes: Uint8Array, start: number, end: number, text: string | null): void {
-    let numbers = this.numbers!;
-    if (this.length === numbers.length) {
-      numbers = this.numbers = grow(numbers);
-      if (this.fixedDigits !== null) this.fixedDigits = resized(this.fixedDigits, numbers.length);
-    }
+    if (this.length === this.numbers!.length) this.numberRoom(this.length + 1);
+    this.storeNumber(bytes, start, end, text);
+  }
+
+  /** Number storage for `rows` rows at least, grown by doubling (fixed decimals alongside). */
+  private numberRoom(rows: number): void {
+    if (this.numbers!.length >= rows) return;
+    const room = roomFor(this.numbers!.length, rows);
+    this.numbers = resized(this.numbers!, room);
+    if (this.fixedDigits !== null) this.fixedDigits = resized(this.fixedDigits, room);
+  }
+
+  /** The cell bytes[start, end) as the next row of number storage, which has room for it. */
+  private storeNumber(bytes: Uint8Array, start: number, end: number, text: string | null): void {
+    const row = this.length++;
     scanner.read(bytes, start, end);
-    numbers[this.length] = scanner.value;
-    if (!scanner.printsBack) {
-      if (scanner.fixed > 0) (this.fixedDigits ??= new Uint8Array(numbers.length))[this.length] = scanner.fixed;
-      else this.exceptions!.set(this.length, text ?? utf8Text(bytes, start, end));
-    }
-    this.length++;
+    this.numbers![row] = scanner.value;
+    if (scanner.printsBack) return;
+    if (scanner.fixed > 0) (this.fixedDigits ??= new Uint8Array(this.numbers!.length))[row] = scanner.fixed;
+    else this.exceptions!.set(row, text ?? utf8Text(bytes, start, end));
   }
 }
 
