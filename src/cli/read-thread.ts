@@ -252,7 +252,7 @@ export async function readTableInThreads(
   // profile read none but those of the rare cells that are not numbers.
   const parallel = readInParallel(fileBytes, runners, { packValues: true, onPart, headStartBytes: HEAD_START_BYTES, handOverFromBytes: HAND_OVER_FROM_BYTES, cellsWhenRead: profiling !== null });
   try {
-    const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: fileBytes, stopAt: parallel.firstStop, packValues: true });
+    const reader = createTableReader({ delimiter: settings.delimiter, encoding: settings.encoding, totalBytes: parallel.firstReserve, stopAt: parallel.firstStop, packValues: true });
     // Chunks no larger than the first segment, so that the reader can stop near its end; the first
     // one small, so that the header is known and the other threads start at once.
     const buffer = new Uint8Array(Math.min(CHUNK_BYTES, parallel.firstStop));

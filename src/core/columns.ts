@@ -147,25 +147,34 @@ export function valueText(column: TextColumn, code: number): string {
  */
 export function tableBuffers(table: Table): ArrayBuffer[] {
   const buffers = new Set<ArrayBuffer>();
+  if (table.lineOfRow.buffer instanceof ArrayBuffer) buffers.add(table.lineOfRow.buffer);
+  for (const column of table.columns) addColumnBuffers(column, buffers);
+  return [...buffers];
+}
+
+/** The buffers one column's typed arrays hold (see tableBuffers). */
+export function columnBuffers(column: Column): Set<ArrayBuffer> {
+  const buffers = new Set<ArrayBuffer>();
+  addColumnBuffers(column, buffers);
+  return buffers;
+}
+
+function addColumnBuffers(column: Column, buffers: Set<ArrayBuffer>): void {
   const add = (array: { readonly buffer: ArrayBufferLike } | null): void => {
     if (array !== null && array.buffer instanceof ArrayBuffer) buffers.add(array.buffer);
   };
-  add(table.lineOfRow);
-  for (const column of table.columns) {
-    if (column.kind === 'text') {
-      add(column.codes);
-      // Typed only in a table made to cross (crossingTable).
-      if (ArrayBuffer.isView(column.counts)) add(column.counts as unknown as Uint32Array);
-      if (column.packed !== undefined) {
-        add(column.packed.bytes);
-        add(column.packed.starts);
-      }
-    } else {
-      add(column.values);
-      add(column.fixedDigits);
+  if (column.kind === 'text') {
+    add(column.codes);
+    // Typed only in a table made to cross (crossingTable).
+    if (ArrayBuffer.isView(column.counts)) add(column.counts as unknown as Uint32Array);
+    if (column.packed !== undefined) {
+      add(column.packed.bytes);
+      add(column.packed.starts);
     }
+  } else {
+    add(column.values);
+    add(column.fixedDigits);
   }
-  return [...buffers];
 }
 
 /**

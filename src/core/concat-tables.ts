@@ -13,8 +13,9 @@
  * skip the lookup when a segment's values all sort after those already joined, as they do in
  * exports sorted by their key.
  */
-import { valueText, withPackedValues, type Column, type NumberColumn, type PackedTexts, type RowIssue, type Table, type TextColumn } from './columns.ts';
+import { columnBuffers, valueText, withPackedValues, type Column, type NumberColumn, type PackedTexts, type RowIssue, type Table, type TextColumn } from './columns.ts';
 import { compareBytes, DEFAULT_DICTIONARY_CAP, NON_NUMBER_SHARE, readNumberText } from './columns-builder.ts';
+import { releaseBuffer } from './release-buffers.ts';
 
 export interface ConcatOptions {
   /**
@@ -38,6 +39,13 @@ export interface ConcatOptions {
    * The parts must then not be changed or given up while the table is in use.
    */
   readonly cellsWhenRead?: boolean;
+  /**
+   * Give up every part's storage (release-buffers.ts) as soon as its column is joined, but for what
+   * the joined table keeps: with reuseFirst, joining then holds at most one column twice, not the
+   * other parts until the end (or, where the first part's arrays lack room, the first part too).
+   * The parts must not be used afterwards. Not with cellsWhenRead, which reads the parts later.
+   */
+  readonly releaseParts?: boolean;
 }
 
 /** How a column is joined: in the first part's storage (reuseFirst), now or when read (cellsWhenRead). */
@@ -60,17 +68,28 @@ export function concatTables(parts: readonly Table[], options: ConcatOptions = {
   const rowCounts = parts.map((part) => part.rowCount);
   const reuse = options.reuseFirst === true;
   const mode: JoinMode = { reuse, later: options.cellsWhenRead === true };
-  const columns = first.names.map((_, c) => joinColumn(parts.map((part) => part.columns[c]!), rowCounts, cap, mode));
+  const release = options.releaseParts === true;
+  if (release && mode.later) throw new Error('concatTables: releaseParts cannot go with cellsWhenRead, which reads the parts later');
+  const columns = first.names.map((_, c) => {
+    const columnParts = parts.map((part) => part.columns[c]!);
+    const joined = joinColumn(columnParts, rowCounts, cap, mode);
+    if (release) releaseAllBut(columnParts.map(columnBuffers), columnBuffers(joined));
+    return joined;
+  });
+  const lineOfRow = joinUint32(parts.map((part) => part.lineOfRow), rowCounts, reuse);
+  if (release) releaseAllBut(parts.map((part) => buffersOf(part.lineOfRow)), buffersOf(lineOfRow));
   const rowIssues: RowIssue[] = [];
   for (const part of parts) for (const issue of part.rowIssues) rowIssues.push(issue);
-  return {
-    names: first.names,
-    columns,
-    rowCount: sum(rowCounts),
-    lineOfRow: joinUint32(parts.map((part) => part.lineOfRow), rowCounts, reuse),
-    rowIssues,
-    headerIssues: first.headerIssues,
-  };
+  return { names: first.names, columns, rowCount: sum(rowCounts), lineOfRow, rowIssues, headerIssues: first.headerIssues };
+}
+
+/** Releases the parts' buffers, but for those in `kept` (the joined column's, some of which may be the first part's). */
+function releaseAllBut(partBuffers: readonly Set<ArrayBuffer>[], kept: ReadonlySet<ArrayBuffer>): void {
+  for (const buffers of partBuffers) for (const buffer of buffers) if (!kept.has(buffer)) releaseBuffer(buffer);
+}
+
+function buffersOf(array: Uint32Array): Set<ArrayBuffer> {
+  return new Set(array.buffer instanceof ArrayBuffer ? [array.buffer] : []);
 }
 
 /**

@@ -260,7 +260,12 @@ class NumberPieces {
       if (old[from + 3] === 0) continue;
       let i = slotOf(old[from]!, old[from + 1]!, old[from + 2]!) & mask;
       while (slots[4 * i + 3] !== 0) i = (i + 1) & mask;
-      slots.set(old.subarray(from, from + 4), 4 * i);
+      // Four stores: set(subarray) would make a typed-array view per slot moved.
+      const to = 4 * i;
+      slots[to] = old[from]!;
+      slots[to + 1] = old[from + 1]!;
+      slots[to + 2] = old[from + 2]!;
+      slots[to + 3] = old[from + 3]!;
     }
     this.slots = slots;
   }

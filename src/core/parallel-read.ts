@@ -14,7 +14,8 @@
  * runs this orchestration on random files cut into tiny segments (through read-in-segments.ts).
  */
 import { concatTables } from './concat-tables.ts';
-import { tableBuffers, type Table } from './columns.ts';
+import type { Table } from './columns.ts';
+import { RELEASES_AT_ONCE } from './release-buffers.ts';
 import type { ColumnHints, ReadResult, TableReader } from './read-table.ts';
 import { createSegmentReader, rebaseRows, type SegmentReader, type SegmentResult } from './read-segment.ts';
 import type { Delimiter } from './parse.ts';
@@ -89,11 +90,27 @@ export interface ParallelReadOptions {
    * goes, not given up once joined.
    */
   readonly cellsWhenRead?: boolean;
+  /**
+   * What the calling thread's reader reserves storage for (`firstReserve`): 'whole-file' (the
+   * default where memory is freed only by a collection) or 'own-share' (the default where it can be
+   * given back at once; see ParallelRead.firstReserve). For tests, to take either way anywhere.
+   */
+  readonly reserve?: 'whole-file' | 'own-share';
 }
 
 export interface ParallelRead {
   /** The `stopAt` for the calling thread's table reader: the end of the first segment, as first cut. */
   readonly firstStop: number;
+  /**
+   * The `totalBytes` for that reader, which it reserves storage for. The whole file where a part's
+   * memory goes only at the next collection (Node 20): the other parts then join the first in its
+   * own storage, and the first part is never held twice. Its own share where memory can be given
+   * back at once (release-buffers.ts) and the parts are given up as they are joined: the join then
+   * copies each column into new storage and releases the parts' arrays at once, so that the room
+   * for the other parts and the parts themselves are never held together (in Chromium 150, the
+   * peak while reading a million-row file went from ~290 to ~230 MB).
+   */
+  readonly firstReserve: number;
   /**
    * Call after each chunk pushed to that reader: starts the other segments once it can, and may
    * move the reader's stop earlier (`handOverFromBytes`).
@@ -163,8 +180,10 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
   };
 
   const placements = { taken: 1, redone: 0, skipped: 0 };
+  const ownShare = (options.reserve ?? (RELEASES_AT_ONCE ? 'own-share' : 'whole-file')) === 'own-share' && options.cellsWhenRead !== true;
   return {
     firstStop,
+    firstReserve: ownShare ? Math.min(firstStop, fileBytes) : fileBytes,
     placements,
     pushed(reader) {
       if (started) return handOver(reader);
@@ -215,21 +234,12 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
       options.onPart?.(parts);
       // The first part was read into storage reserved for the whole file: the others join it there.
       const later = options.cellsWhenRead === true;
-      const table = concatTables(parts, { ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }), reuseFirst: true, cellsWhenRead: later });
-      if (!later) releaseJoinedParts(parts.slice(1));
+      // Each part came in a message from another thread, and what keeps such a message alive is not
+      // ours to know: in Chromium 150 the second half of a million-row file (49 MB of typed arrays)
+      // stayed held in the worker after the join, through every collection asked for over 7.5 s.
+      // Released as they are joined (concatTables releaseParts), their memory goes at once.
+      const table = concatTables(parts, { ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }), reuseFirst: true, cellsWhenRead: later, releaseParts: !later });
       return { ...first, table, totalRows: table.rowCount, emptyLinesSkipped, stoppedAt: null, lineBreaks: order.lineBreaks, bytes: fileBytes };
     },
   };
-}
-
-/**
- * The storage of parts already copied into the joined table, given up at once: each part came in a
- * message from another thread, and what keeps such a message alive is not ours to know. In Chromium
- * 150 the second half of a million-row file (49 MB of typed arrays) stayed held in the worker
- * after the join, through every collection asked for over 7.5 s; transferring a buffer away
- * detaches it, and its memory goes with the clone, which nothing holds. The parts must not be used
- * afterwards (concatTables copies them; it never keeps a later part's arrays).
- */
-function releaseJoinedParts(parts: readonly Table[]): void {
-  for (const part of parts) for (const buffer of tableBuffers(part)) structuredClone(buffer, { transfer: [buffer] });
 }

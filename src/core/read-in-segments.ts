@@ -24,6 +24,8 @@ export interface SegmentedReadOptions {
    * pushing `pushBytes` at a time and letting the runners finish between pushes, as threads would.
    */
   readonly handOver?: { readonly fromBytes: number; readonly pushBytes: number };
+  /** What the first reader reserves storage for (ParallelReadOptions.reserve); by default as this engine would. */
+  readonly reserve?: 'whole-file' | 'own-share';
 }
 
 export interface SegmentedReadResult extends ReadResult {
@@ -63,9 +65,10 @@ async function readSegments(bytes: Uint8Array, segmentBytes: number, options: Se
   const parts: Table[] = [];
   const later = options.cellsWhenRead === true ? { cellsWhenRead: true } : {};
   const handOver = options.handOver === undefined ? {} : { handOverFromBytes: options.handOver.fromBytes };
-  const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, ...later, ...handOver, segmentBytes, onPart: (joined) => parts.push(...joined) });
-  // Sized for the whole file, as the page and the command line do: the other parts join it in place.
-  const reader = createTableReader({ ...cap, stopAt: parallel.firstStop, totalBytes: bytes.length });
+  const reserve = options.reserve === undefined ? {} : { reserve: options.reserve };
+  const parallel = readInParallel(bytes.length, [runner, runner], { ...cap, ...later, ...handOver, ...reserve, segmentBytes, onPart: (joined) => parts.push(...joined) });
+  // Sized as the page and the command line size it (ParallelRead.firstReserve).
+  const reader = createTableReader({ ...cap, stopAt: parallel.firstStop, totalBytes: parallel.firstReserve });
   const pushBytes = options.handOver?.pushBytes ?? PUSH_BYTES;
   for (let at = 0; at < bytes.length && reader.stoppedAt === null; at += pushBytes) {
     reader.push(bytes.subarray(at, at + pushBytes));

@@ -12,6 +12,7 @@ import { createTableReader, readTableFromSource, tableFromRows, type Delimiter, 
 import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
 import { NumberProfiles } from '../core/number-profiles.ts';
+import { releaseChunk } from '../core/release-buffers.ts';
 import type { ColumnProfile, ProfileOptions } from '../core/profile.ts';
 import { pageLimit, tooLargeForPage, tooLargeUnpacked } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
@@ -189,7 +190,7 @@ async function readInSegments(
       if (profiling !== null && parts.length > 1) numberProfiles = new NumberProfiles(parts, profiling.options, pool.profilers);
     };
     const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, headStartBytes: HEAD_START_BYTES, handOverFromBytes: HAND_OVER_FROM_BYTES, packValues: true, onPart });
-    const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: file.size, packValues: true });
+    const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: parallel.firstReserve, packValues: true });
     for await (const chunk of chunks) {
       reader.push(chunk);
       parallel.pushed(reader);
@@ -229,6 +230,8 @@ function chunksOf(file: Blob, signal: AbortSignal, onProgress: ReadProgress): As
 /**
  * A stream's chunks, each first shown to `onChunk`; pauses for the worker's messages and stops when
  * the request is cancelled. `failure` names an error of the stream itself (not of its consumer).
+ * A chunk's memory is given back when the next is asked for (core release-buffers.ts): the
+ * consumer must not keep a chunk past that, as the table reader does not.
  */
 async function* streamChunks(
   stream: ReadableStream<Uint8Array>,
@@ -259,6 +262,8 @@ async function* streamChunks(
       }
       onChunk(next.value);
       yield next.value;
+      // Asked for the next chunk, the reader is done with this one (it copies what it keeps).
+      releaseChunk(next.value);
     }
   } finally {
     // Left early (cancelled, refused, or the reader stopped): the stream, and any it is piped from, stops too.

@@ -8,7 +8,8 @@
 import { crossingTable, tableBuffers } from '../core/columns.ts';
 import { isLevelwiseError } from '../core/errors.ts';
 import { segmentReaderFor, type SegmentRequest } from '../core/parallel-read.ts';
-import { profileNumberParts } from '../core/number-profiles.ts';
+import { profileNumberParts, requestBuffers } from '../core/number-profiles.ts';
+import { releaseBuffer, releaseChunk } from '../core/release-buffers.ts';
 import type { FromSegmentWorker, ToSegmentWorker } from './segment-pool.ts';
 import { warmUpUntilMessage } from './warm-up.ts';
 
@@ -21,9 +22,11 @@ scope.addEventListener('message', (event: MessageEvent<ToSegmentWorker>) => {
   const { id } = message;
   if (message.type === 'profile') {
     try {
-      scope.postMessage({ type: 'profile', id, profile: profileNumberParts(message.request) } satisfies FromSegmentWorker);
+      // The parts are copies made for this request (segment-pool.ts transfers them): once joined, or answered, they can go.
+      scope.postMessage({ type: 'profile', id, profile: profileNumberParts(message.request, true) } satisfies FromSegmentWorker);
     } catch (error) {
       scope.postMessage(failure(id, error));
+      for (const buffer of requestBuffers(message.request)) releaseBuffer(buffer);
     }
     return;
   }
@@ -56,7 +59,10 @@ async function readSegment(id: number, file: Blob, request: SegmentRequest): Pro
         scope.postMessage({ type: 'progress', bytes: read - told } satisfies FromSegmentWorker);
         told = read;
       }
-      if (!reader.push(next.value)) break;
+      const goOn = reader.push(next.value);
+      // The reader copies what it keeps: the chunk's memory can go now, not at the next collection.
+      releaseChunk(next.value);
+      if (!goOn) break;
     }
   } finally {
     void stream.cancel();

@@ -135,4 +135,16 @@ describe('number columns profiled on other threads', () => {
     expect(profileNumberParts(sent)).toEqual(profileTable(whole, OPTIONS)[0]); // …whole there
     expect(profileTable(concatTables(parts), OPTIONS)).toEqual(profileTable(whole, OPTIONS)); // and the parts untouched
   });
+
+  it('a thread that profiles a request with releaseParts gives its copies back and answers the same profile', () => {
+    const { whole, parts } = wholeAndParts();
+    const requests: NumberPartsRequest[] = [];
+    new NumberProfiles(parts, OPTIONS, [(request) => (requests.push(request), new Promise<ColumnProfile>(() => undefined))]);
+    const sent = structuredClone(requests[0]!, { transfer: requestBuffers(requests[0]!) });
+    const buffers = requestBuffers(sent);
+    expect(buffers.every((buffer) => buffer.byteLength > 0)).toBe(true);
+    expect(profileNumberParts(sent, true)).toEqual(profileTable(whole, OPTIONS)[0]);
+    // Released (release-buffers.ts): detached, whether the memory went at once (ES2024 transfer) or goes at the next collection.
+    expect(buffers.map((buffer) => buffer.byteLength)).toEqual(buffers.map(() => 0));
+  });
 });
