@@ -108,7 +108,8 @@ export interface ParallelRead {
    * back at once (release-buffers.ts) and the parts are given up as they are joined: the join then
    * copies each column into new storage and releases the parts' arrays at once, so that the room
    * for the other parts and the parts themselves are never held together (in Chromium 150, the
-   * peak while reading a million-row file went from ~290 to ~230 MB).
+   * peak while reading a million-row file went from ~290 to ~230 MB). A file the first reader
+   * ends up reading whole (one it cannot cut) then grows its storage as it goes.
    */
   readonly firstReserve: number;
   /**
@@ -232,7 +233,8 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
         }
       }
       options.onPart?.(parts);
-      // The first part was read into storage reserved for the whole file: the others join it there.
+      // The first part's storage has room for the whole file where it was reserved so (firstReserve):
+      // the others join it there. Else the join copies it too, column by column, releasing as it goes.
       const later = options.cellsWhenRead === true;
       // Each part came in a message from another thread, and what keeps such a message alive is not
       // ours to know: in Chromium 150 the second half of a million-row file (49 MB of typed arrays)
