@@ -73,11 +73,9 @@ const PARALLEL_FROM_BYTES = Number(process.env.LEVELWISE_PARALLEL_FROM_BYTES) ||
 /** Segments handed to a thread and not yet taken by this one. */
 const SEGMENTS_AHEAD = 2;
 
-/** Threads that read, this one included when it reads too: one per core, at most four (LEVELWISE_READING_THREADS for tests). */
+/** Threads that read, this one included when it reads too: one per core, at most four. */
 function readingThreads(): number {
-  const asked = Number(process.env.LEVELWISE_READING_THREADS);
-  if (asked >= 1) return Math.floor(asked);
-  return Math.max(1, Math.min(4, availableParallelism()));
+  return askedReadingThreads() ?? Math.max(1, Math.min(4, availableParallelism()));
 }
 
 /**
@@ -88,9 +86,13 @@ function readingThreads(): number {
  * cores, and each ran slower for it.
  */
 function batchReadingThreads(): number {
+  return askedReadingThreads() ?? Math.max(1, Math.min(4, availableParallelism() - 1));
+}
+
+/** LEVELWISE_READING_THREADS, for tests and measurements: that many reading threads whatever the cores; null when unset. */
+function askedReadingThreads(): number | null {
   const asked = Number(process.env.LEVELWISE_READING_THREADS);
-  if (asked >= 1) return Math.floor(asked);
-  return Math.max(1, Math.min(4, availableParallelism() - 1));
+  return asked >= 1 ? Math.floor(asked) : null;
 }
 
 interface Settings {
