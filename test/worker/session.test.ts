@@ -24,6 +24,13 @@ function openSmall(client: WorkbenchClient, text = SMALL_CSV, name = 'small.csv'
   return client.call('open', { slot: 'work', source: { kind: 'file', file: new File([text], name) }, draft: true });
 }
 
+/** Opens `file` with a draft, keeping the bytes-read figures of the reading progress. */
+async function openWatchingProgress(client: WorkbenchClient, file: File): Promise<{ opened: OpenedTable; progress: number[] }> {
+  const progress: number[] = [];
+  const opened = await client.call('open', { slot: 'work', source: { kind: 'file', file }, draft: true }, { onProgress: (p) => p.phase === 'reading' && progress.push(p.done) });
+  return { opened, progress };
+}
+
 /** The decisions a person would make on the small table. */
 const DECISIONS: Decision[] = [
   { type: 'set-level', column: 'id', level: 'identifier' },
@@ -39,12 +46,7 @@ function decided(opened: OpenedTable): Recipe {
 describe('opening a file', () => {
   it('reads the table, profiles it and drafts a recipe', async () => {
     const client = newClient();
-    const progress: number[] = [];
-    const opened = await client.call(
-      'open',
-      { slot: 'work', source: { kind: 'file', file: new File([SMALL_CSV], 'small.csv') }, draft: true },
-      { onProgress: (p) => p.phase === 'reading' && progress.push(p.done) },
-    );
+    const { opened, progress } = await openWatchingProgress(client, new File([SMALL_CSV], 'small.csv'));
     expect(opened.rowCount).toBe(4);
     expect(opened.names).toEqual(['id', 'colour', 'size', 'score']);
     expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8' });
@@ -96,12 +98,7 @@ describe('opening a file', () => {
     const client = newClient();
     const plain = await openSmall(client);
     const packed = gzipSync(SMALL_CSV);
-    const progress: number[] = [];
-    const opened = await client.call(
-      'open',
-      { slot: 'work', source: { kind: 'file', file: new File([packed], 'small.csv.gz') }, draft: true },
-      { onProgress: (p) => p.phase === 'reading' && progress.push(p.done) },
-    );
+    const { opened, progress } = await openWatchingProgress(client, new File([packed], 'small.csv.gz'));
     expect(opened.rowCount).toBe(4);
     expect(opened.names).toEqual(plain.names);
     expect(opened.profiles).toEqual(plain.profiles);
