@@ -2,7 +2,7 @@
  * Reading and writing recipe documents. Loading validates against the schema and answers with
  * messages a person understands: which field, what was expected, what was found.
  */
-import type { z } from 'zod';
+import type * as z from 'zod/mini';
 import { jsonErrorPosition } from './json-position.ts';
 import { MAX_CATEGORICAL_LEVELS } from './level-limit.ts';
 import { nameOutputs } from './names.ts';

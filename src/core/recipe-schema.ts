@@ -1,5 +1,5 @@
 /** The recipe's JSON Schema, generated from the zod definition (the single source of truth). */
-import { z } from 'zod';
+import * as z from 'zod/mini';
 import { Recipe, RECIPE_VERSION } from './recipe.ts';
 
 export const RECIPE_SCHEMA_ID = `https://levelwise.invalid/recipe.v${RECIPE_VERSION}.schema.json`;

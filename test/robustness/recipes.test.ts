@@ -127,6 +127,13 @@ describe('unknown and missing fields', () => {
     ]);
   });
 
+  it('a number or list out of its bounds says which bound', () => {
+    const text = edited((d) => {
+      (d['source'] as Record<string, unknown>)['rows'] = -1;
+    });
+    expect(errorsOf(text)).toEqual(['source.rows: Too small: expected number to be >=0.']);
+  });
+
   it('names each missing field by its path and what was expected', () => {
     const text = edited((d) => {
       delete d['naming'];
