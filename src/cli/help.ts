@@ -1,5 +1,10 @@
 /** The --help text of the command and of each verb. docs/cli.md says the same at more length. */
+import packageFile from '../../package.json' with { type: 'json' };
 import { DEFAULT_MISSING_TOKENS } from '../core/missing.ts';
+import { RECIPE_VERSION } from '../core/recipe.ts';
+
+/** The program's version and the recipe format it reads and writes: what a scheduled job's log should record. */
+export const VERSION_TEXT = `levelwise ${packageFile.version} (recipe format ${RECIPE_VERSION})\n`;
 
 const READING = `Reading files:
   FILE is a CSV or other delimited text file (also gzip-compressed, .gz), an .xlsx workbook,
@@ -29,7 +34,8 @@ Verbs:
   check RECIPE FILE          does FILE fit the recipe? (missing columns, unseen levels, …)
   sql RECIPE --table NAME    the recipe as one SQL SELECT for DuckDB, PostgreSQL, SQLite or ANSI SQL
 
-Run "levelwise VERB --help" for a verb's options. "-" stands for standard input or output.
+Run "levelwise VERB --help" for a verb's options, "levelwise --version" for the version. "-" stands
+for standard input or output.
 ${EXIT_CODES}
 `;
 

@@ -3,7 +3,7 @@
  * only picks the verb, shows help, and turns any failure into one line and an exit code.
  */
 import { describeFailure, EXIT, usageFailure, type ExitCode } from './failure.ts';
-import { MAIN_HELP, VERB_HELP } from './help.ts';
+import { MAIN_HELP, VERB_HELP, VERSION_TEXT } from './help.ts';
 import { OutputClosed } from './output.ts';
 import { applyVerb } from './verbs/apply.ts';
 import { checkVerb } from './verbs/check.ts';
@@ -28,6 +28,10 @@ export async function main(argv: readonly string[]): Promise<ExitCode> {
     // Without a verb the command was incomplete: the help goes to standard error, with exit 2.
     (verb === undefined ? process.stderr : process.stdout).write((topic !== undefined ? VERB_HELP[topic] : undefined) ?? MAIN_HELP);
     return verb === undefined ? EXIT.usage : EXIT.ok;
+  }
+  if (verb === '--version' || verb === '-V') {
+    process.stdout.write(VERSION_TEXT);
+    return EXIT.ok;
   }
   const run = VERBS[verb];
   try {

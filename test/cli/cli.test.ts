@@ -78,6 +78,14 @@ describe('help', () => {
     for (const verb of ['profile FILE', 'draft FILE', 'apply RECIPE FILE', 'check RECIPE FILE', 'sql RECIPE --table NAME']) expect(help).toContain(verb);
     expect(help).toContain('Exit codes: 0 done; 1 the data does not fit the recipe; 2 wrong command or unreadable input.');
   });
+  it('levelwise --version names the package version and the recipe format', () => {
+    const version = (JSON.parse(readFileSync(join(import.meta.dirname, '../../package.json'), 'utf8')) as { version: string }).version;
+    for (const flag of ['--version', '-V']) {
+      const run = levelwise([flag]);
+      expect(run.status).toBe(0);
+      expect(run.stdout.toString()).toBe(`levelwise ${version} (recipe format 1)\n`);
+    }
+  });
   it('without a verb the help goes to standard error with exit 2', () => {
     const run = levelwise([]);
     expect(run.status).toBe(2);
