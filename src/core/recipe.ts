@@ -14,10 +14,12 @@ import * as z from 'zod/mini';
 import { en } from 'zod/locales';
 import { SYMBOL_MAX_LENGTH, SYMBOL_TEXT } from './number-symbols.ts';
 
-// zod compiles a parser per schema with `new Function` on first use: the page's Content-Security-Policy
-// refuses that (no 'unsafe-eval'), and a command-line run parses one recipe, where compiling cost
-// 20–30 ms more than it saved (a 160 kB recipe: 40–60 ms cold, 12–27 ms without).
-// The functional build loads no messages of its own; these are the ones a recipe's problems are told in.
+// Before any schema is made (zod decides then): no parsers compiled with `new Function`. zod probes
+// for it as the schemas are made, and the page's Content-Security-Policy (no 'unsafe-eval') refused
+// and reported the probe on every load (test/e2e/robustness.test.ts); and a command-line run parses
+// one recipe, where compiling cost 20–30 ms more than it saved (a 160 kB recipe: 40–60 ms cold,
+// 12–27 ms without). The functional build loads no messages of its own: `en()` gives the ones a
+// recipe's problems are told in.
 z.config({ ...en(), jitless: true });
 
 export const RECIPE_KIND = 'levelwise.recipe';

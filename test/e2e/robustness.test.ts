@@ -65,6 +65,12 @@ describe.skipIf(!available)('bad input in Chromium', () => {
     context = await browser.newContext({ viewport: { width: 1280, height: 860 }, acceptDownloads: true });
     context.on('request', (request) => requests.push(request.url()));
     context.on('requestfailed', (request) => stopped.set(request.url(), request.failure()?.errorText ?? ''));
+    // Every policy violation in the page from its first script on, before any of the page's own code runs.
+    await context.addInitScript(() => {
+      const seen: string[] = [];
+      (globalThis as unknown as { __policyViolations: string[] }).__policyViolations = seen;
+      document.addEventListener('securitypolicyviolation', (e) => seen.push(`${e.effectiveDirective} ${e.blockedURI}`));
+    });
     page = await context.newPage();
     page.on('pageerror', (error) => pageErrors.push(error.message));
   });
@@ -378,6 +384,11 @@ describe.skipIf(!available)('bad input in Chromium', () => {
   });
 
   describe('nothing leaves the machine', () => {
+    it('the page’s own code never runs into its policy: no script evaluated from text (a library probing for `new Function` would be reported)', async () => {
+      const violations = await page.evaluate(() => (globalThis as unknown as { __policyViolations: string[] }).__policyViolations);
+      expect(violations.filter((v) => v.startsWith('script-src'))).toEqual([]);
+    });
+
     it('the page’s own attempts to reach another origin are blocked by its Content-Security-Policy', async () => {
       const outcome = await page.evaluate(async (target) => {
         const violations: { directive: string; blocked: string }[] = [];
