@@ -130,8 +130,12 @@ describe('unknown and missing fields', () => {
   it('a number or list out of its bounds says which bound', () => {
     const text = edited((d) => {
       (d['source'] as Record<string, unknown>)['rows'] = -1;
+      (d.columns[1]!['cleaning'] as Record<string, unknown>)['merges'] = [{ into: 'red', from: [] }];
     });
-    expect(errorsOf(text)).toEqual(['source.rows: Too small: expected number to be >=0.']);
+    expect(errorsOf(text)).toEqual([
+      'source.rows: Too small: expected number to be >=0.',
+      'columns[1] ("colour").cleaning.merges[0].from: Too small: expected array to have >=1 items.',
+    ]);
   });
 
   it('names each missing field by its path and what was expected', () => {
