@@ -4,15 +4,18 @@
  * `apply` and `check` (readBatchesInThread): this thread encodes and writes while reading threads
  * (one per core but this thread's, `batchReadingThreads`) read the file in segments (core
  * read-segment.ts), and takes their rows in file order (core segment-order.ts):
- * 1. One thread reads the file's start (header, encoding, delimiter, the first rows) with the table
- *    reader's `stopAt`, and says where it stopped before it sends the batch of those rows, so that
- *    the segments go out before this thread encodes that batch. A file that cannot be cut (not UTF-8, lone CR
- *    line breaks, one column) or is small is read to the end right there, by that thread alone.
- * 2. The rest is cut into segments of SEGMENT_BYTES, handed round the threads. A segment that
- *    began inside a quoted field (it does not start where the one before stopped) is read again
- *    from the right place, so quoted line breaks cost time, never correctness.
- * At most SEGMENTS_AHEAD segments per thread are handed out and not yet taken, so memory stays
- * flat however long the file.
+ * 1. This thread reads the file's start (header, encoding, delimiter, the first rows) with the
+ *    table reader's `stopAt` while the reading threads start up (~0.1 s), and hands out the
+ *    segments before it encodes those rows. A small file is read to the end right there. A file
+ *    that cannot be cut (not UTF-8, lone CR line breaks, one column) is read from its start to its
+ *    end by the first reading thread instead, so that reading and encoding still overlap.
+ * 2. The rest is cut into segments of SEGMENT_BYTES, handed round the threads. When the segment
+ *    this thread wants next has not come yet, it reads the next one not handed out itself rather
+ *    than wait (one at a time), so the reading is shared as the encoding leaves room for it. A
+ *    segment that began inside a quoted field (it does not start where the one before stopped) is
+ *    read again from the right place, here, so quoted line breaks cost time, never correctness.
+ * At most SEGMENTS_AHEAD segments per thread are handed out and not yet taken, and one read here,
+ * so memory stays flat however long the file.
  *
  * `profile` and `draft` (readTableInThreads): the whole table, in one segment per thread, this one
  * reading the first, joined by core parallel-read.ts as the page's worker does.
@@ -147,9 +150,28 @@ export function canReadInThread(): boolean {
   return import.meta.url.endsWith('.mjs') || import.meta.url.endsWith('.js');
 }
 
+/** Where the file's start left off, whichever thread read it. */
+interface StartRead {
+  readonly names: readonly string[];
+  readonly rows: number;
+  readonly encoding: EncodingName;
+  readonly encodingGuessed: boolean;
+  readonly delimiter: Delimiter;
+  /** null: the file was read to its end (small, or one that cannot be cut). */
+  readonly stoppedAt: number | null;
+  readonly lineBreaks: number;
+  readonly columnHints: ColumnHints | null;
+  /** Hands the start's last rows to onBatch (after the segments have gone out). */
+  readonly takeHeldBatches: () => Promise<void>;
+}
+
+/** A segment in file order: being read by a reading thread (the id its answer carries), or read here. */
+type Outstanding = { readonly job: SegmentJob; readonly id: number } | { readonly job: SegmentJob; readonly read: SegmentRead };
+
 /**
- * Reads the file at `path` on other threads; `onBatch` receives each batch in file order, its rows
- * numbered from the file's start, and the next batch waits until the promise it returns has settled.
+ * Reads the file at `path` on other threads, this one helping; `onBatch` receives each batch in
+ * file order, its rows numbered from the file's start, and the next batch waits until the promise
+ * it returns has settled.
  */
 export async function readBatchesInThread(
   path: string,
@@ -159,69 +181,134 @@ export async function readBatchesInThread(
   const fileBytes = fstatOf(path);
   const workers = Array.from({ length: batchReadingThreads() }, () => startReadingThread(path));
   const inbox = new Inbox(workers);
+  const fd = openSync(path, 'r');
+  const buffer = new Uint8Array(CHUNK_BYTES);
   try {
-    // 1. The file's start, on the first thread.
-    const firstId = inbox.send(0, { type: 'start', id: 0, settings, stopAt: FIRST_STOP });
-    let started: Extract<FromReader, { type: 'started' }> | null = null;
-    for (;;) {
-      const message = await inbox.next(firstId);
-      if (message.type === 'batch') await onBatch(message.table, message.firstRow, message.bytesRead);
-      else if (message.type === 'started') {
-        started = message;
-        break;
-      }
-    }
-    const { heldBatches } = started;
-    const takeHeldBatches = async (): Promise<void> => {
-      for (let b = 0; b < heldBatches; b++) {
-        const message = await inbox.next(firstId);
-        if (message.type !== 'batch') throw new Error(`reading thread: unexpected ${message.type} message`);
-        await onBatch(message.table, message.firstRow, message.bytesRead);
-      }
-    };
+    // 1. The file's start: here, while the threads start; on a thread when the file cannot be cut,
+    //    so that reading it to the end and encoding it overlap.
+    const started = readStartHere(fd, buffer, settings, fileBytes, onBatch) ?? (await readStartOnThread(inbox, settings, onBatch));
     const result = { names: started.names, encoding: started.encoding, delimiter: started.delimiter };
     if (started.stoppedAt === null) {
-      await takeHeldBatches();
+      await started.takeHeldBatches();
       return { ...result, totalRows: started.rows };
     }
 
     // 2. The rest in segments, taken in file order.
     const order = new SegmentOrder({ end: started.stoppedAt, rows: started.rows, lineBreaks: started.lineBreaks });
     const queue: SegmentJob[] = segmentJobs(started.stoppedAt, fileBytes, SEGMENT_BYTES);
-    const segmentRequest = (job: SegmentJob): ToReader => ({
-      type: 'segment',
-      id: 0,
-      request: { job, names: started.names, delimiter: started.delimiter, encodingGuessed: started.encodingGuessed, columnHints: started.columnHints, packValues: true },
+    const segmentRequest = (job: SegmentJob): SegmentRequest => ({
+      job,
+      names: started.names,
+      delimiter: started.delimiter,
+      encodingGuessed: started.encodingGuessed,
+      columnHints: started.columnHints,
+      packValues: true,
     });
-    // Segments handed out, in file order: [job, message id].
-    const handedOut: [SegmentJob, number][] = [];
+    const readHere = (job: SegmentJob): Outstanding => ({ job, read: readSegmentFrom(fd, buffer, segmentRequest(job), fileBytes) });
+    const outstanding: Outstanding[] = [];
     const handOut = (): void => {
-      while (queue.length > 0 && handedOut.length < SEGMENTS_AHEAD * workers.length) {
+      let onThreads = outstanding.filter((o) => 'id' in o).length;
+      while (queue.length > 0 && onThreads++ < SEGMENTS_AHEAD * workers.length) {
         const job = queue.shift()!;
-        handedOut.push([job, inbox.send(inbox.leastBusy(), segmentRequest(job))]);
+        outstanding.push({ job, id: inbox.send(inbox.leastBusy(), { type: 'segment', id: 0, request: segmentRequest(job) }) });
       }
     };
     handOut();
     // The start's last batch only now: encoding it first (~0.15 s, cold) kept the segments waiting.
-    await takeHeldBatches();
-    while (handedOut.length > 0) {
-      const [job, id] = handedOut.shift()!;
-      const segment = await inbox.next(id);
-      if (segment.type !== 'segment') throw new Error(`reading thread: unexpected ${segment.type} message`);
-      const placement = order.check(job, segment.start);
+    await started.takeHeldBatches();
+    while (outstanding.length > 0) {
+      // Lets the threads' answers in, so that the wait below is seen for what it is.
+      await new Promise<void>((resolve) => setImmediate(resolve));
+      const next = outstanding[0]!;
+      if ('id' in next && !inbox.answered(next.id) && queue.length > 0 && !outstanding.some((o) => 'read' in o)) {
+        // Rather than wait, this thread reads the next segment not handed out (at most one ahead).
+        outstanding.push(readHere(queue.shift()!));
+        continue;
+      }
+      outstanding.shift();
+      const segment = 'read' in next ? next.read : await segmentAnswer(inbox, next.id);
+      const placement = order.check(next.job, segment.start);
       if (placement.kind === 'take') {
         order.advance(segment);
-        await onBatch(rebaseRows(arrivedTable(segment.table), placement.rowOffset, placement.lineOffset), placement.rowOffset, segment.bytesRead);
+        await onBatch(rebaseRows(segment.table, placement.rowOffset, placement.lineOffset), placement.rowOffset, segment.bytesRead);
       } else if (placement.kind === 'redo') {
-        // It began inside a quoted field: read again from the true boundary, before anything later.
-        handedOut.unshift([placement.job, inbox.send(inbox.leastBusy(), segmentRequest(placement.job))]);
+        // It began inside a quoted field: read again from the true boundary, here (it is wanted next).
+        outstanding.unshift(readHere(placement.job));
       }
       handOut();
     }
     return { ...result, totalRows: order.rows };
   } finally {
+    closeSync(fd);
     await Promise.all(workers.map((worker) => worker.terminate()));
   }
+}
+
+/**
+ * Reads the file's start on this thread (the header, encoding, delimiter and the first rows, up to
+ * FIRST_STOP), its batches held for `takeHeldBatches`. Returns null, having handed nothing to
+ * `onBatch`, when the file cannot be cut into segments (not UTF-8, lone CR line breaks, one
+ * column) and is longer than its first chunk: a reading thread then reads it whole.
+ */
+function readStartHere(
+  fd: number, buffer: Uint8Array, settings: Settings, fileBytes: number, onBatch: (table: Table, firstRow: number, bytesRead: number) => Promise<void>,
+): StartRead | null {
+  const held: [Table, number][] = [];
+  const reader = createTableReader({
+    delimiter: settings.delimiter,
+    encoding: settings.encoding,
+    batchRows: settings.batchRows,
+    stopAt: FIRST_STOP,
+    onBatch: (table, firstRow) => void held.push([table, firstRow]),
+  });
+  let bytesRead = 0;
+  for (let read = readSync(fd, buffer, 0, Math.min(FIRST_CHUNK_BYTES, FIRST_STOP), 0); read > 0; read = readSync(fd, buffer, 0, Math.min(buffer.length, FIRST_STOP), bytesRead)) {
+    bytesRead += read;
+    reader.push(buffer.subarray(0, read));
+    if (reader.stoppedAt !== null) break;
+    if (reader.segmenting === null && bytesRead < fileBytes) return null;
+  }
+  const result = reader.finish();
+  return {
+    names: result.table.names,
+    rows: result.totalRows,
+    encoding: result.encoding,
+    encodingGuessed: result.encodingGuessed,
+    delimiter: result.delimiter,
+    stoppedAt: result.stoppedAt,
+    lineBreaks: result.lineBreaks,
+    columnHints: result.columnHints,
+    takeHeldBatches: async () => {
+      for (const [table, firstRow] of held.splice(0)) await onBatch(table, firstRow, bytesRead);
+    },
+  };
+}
+
+/** The file's start read by the first reading thread, its batches handed to `onBatch` as they come. */
+async function readStartOnThread(inbox: Inbox, settings: Settings, onBatch: (table: Table, firstRow: number, bytesRead: number) => Promise<void>): Promise<StartRead> {
+  const firstId = inbox.send(0, { type: 'start', id: 0, settings, stopAt: FIRST_STOP });
+  for (;;) {
+    const message = await inbox.next(firstId);
+    if (message.type === 'batch') await onBatch(message.table, message.firstRow, message.bytesRead);
+    else if (message.type === 'started') {
+      const { heldBatches } = message;
+      const takeHeldBatches = async (): Promise<void> => {
+        for (let b = 0; b < heldBatches; b++) {
+          const held = await inbox.next(firstId);
+          if (held.type !== 'batch') throw new Error(`reading thread: unexpected ${held.type} message`);
+          await onBatch(held.table, held.firstRow, held.bytesRead);
+        }
+      };
+      return { ...message, takeHeldBatches };
+    } else throw new Error(`reading thread: unexpected ${message.type} message`);
+  }
+}
+
+/** A reading thread's answer to a segment request, its table usable here. */
+async function segmentAnswer(inbox: Inbox, id: number): Promise<SegmentRead> {
+  const answer = await inbox.next(id);
+  if (answer.type !== 'segment') throw new Error(`reading thread: unexpected ${answer.type} message`);
+  return { ...answer, table: arrivedTable(answer.table) };
 }
 
 /** A whole table read on threads, and its profile when asked for. */
@@ -362,6 +449,11 @@ class Inbox {
     return best;
   }
 
+  /** Whether an answer to request `id` has come and not yet been taken. */
+  answered(id: number): boolean {
+    return (this.queues.get(id)?.length ?? 0) > 0;
+  }
+
   /** The next answer to request `id`, in the order the thread sent them. */
   next(id: number): Promise<FromReader> {
     if (this.failure !== null) return Promise.reject(this.failure);
@@ -480,9 +572,17 @@ function readStart(request: Extract<ToReader, { type: 'start' }>, fd: number, bu
 }
 
 function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd: number, buffer: Uint8Array, port: NonNullable<typeof parentPort>): void {
-  const { job } = request;
-  const fileBytes = fstatSync(fd).size;
-  let position = job.firstByte;
+  const read = readSegmentFrom(fd, buffer, request, fstatSync(fd).size);
+  const message: FromReader = { type: 'segment', id, ...read, table: crossingTable(read.table) };
+  port.postMessage(message, tableBuffers(message.table));
+}
+
+/** A segment read, and the file byte its reading stopped at (for progress). */
+type SegmentRead = SegmentResult & { readonly bytesRead: number };
+
+/** Reads the segment `request` asks for from the file open as `fd`, on whichever thread calls it. */
+function readSegmentFrom(fd: number, buffer: Uint8Array, request: SegmentRequest, fileBytes: number): SegmentRead {
+  let position = request.job.firstByte;
   const reader = segmentReaderFor(request, fileBytes);
   let atEnd = false;
   for (;;) {
@@ -494,9 +594,7 @@ function readSegment({ id, request }: Extract<ToReader, { type: 'segment' }>, fd
     position += read;
     if (!reader.push(buffer.subarray(0, read))) break;
   }
-  const result = reader.finish(atEnd);
-  const message: FromReader = { type: 'segment', id, bytesRead: position, ...result, table: crossingTable(result.table) };
-  port.postMessage(message, tableBuffers(message.table));
+  return { ...reader.finish(atEnd), bytesRead: position };
 }
 
 function post(port: NonNullable<typeof parentPort>, message: Extract<FromReader, { type: 'batch' }>): void {

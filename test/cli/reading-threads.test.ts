@@ -78,6 +78,28 @@ describe('reading in segments on several threads', () => {
     expect(threaded.rejects).toContain('\n3866,');
   });
 
+  it('apply reads again, as one thread would, the segments whose cut falls between the two quotes of a doubled quote', () => {
+    // Invented: every third note is a run of doubled quotes around a line break, so many cuts land
+    // between the two quotes of a pair. Seen from such a cut the quotes pair up the wrong way and
+    // the segment starts at a line break inside the field; it does not line up with the segment
+    // before it and is read again from the true boundary, on the thread that takes it.
+    const quotes = '""'.repeat(150);
+    const lines = ['id,note,size'];
+    for (let i = 1; i <= 600; i++) lines.push(`Q-${i},${i % 3 === 0 ? `"${quotes}\n${quotes}"` : `plain ${i % 40}`},${['S', 'M', 'L'][i % 3]}`);
+    const file = join(work, 'quotes (invented).csv');
+    writeFileSync(file, lines.join('\n') + '\n');
+    const fitted = readTable(new TextEncoder().encode(lines.slice(0, 100).join('\n'))).table;
+    const recipe = join(work, 'quotes.recipe.json');
+    writeFileSync(recipe, stringifyRecipe(draftRecipe(profileTable(fitted), { file: 'quotes.csv', rows: fitted.rowCount })));
+    const [threaded, single] = [true, false].map((onThreads) => levelwise(['apply', recipe, file], onThreads));
+    expect(single!.status).toBe(0);
+    expect(threaded!.status).toBe(0);
+    // The header and 600 rows (the identifier, then the note's and size's columns).
+    expect(single!.stdout.toString().split('\r\n')).toHaveLength(602);
+    expect(Buffer.compare(threaded!.stdout, single!.stdout)).toBe(0);
+    expect(threaded!.stderr).toBe(single!.stderr);
+  });
+
   it('profile and draft, reading the whole file in one segment per thread, print what one thread prints', () => {
     for (const verb of ['profile', 'draft']) {
       const threaded = levelwise([verb, input], true);
