@@ -40,7 +40,7 @@ import type { EncodingName } from '../core/decode.ts';
 import { isLevelwiseError, LevelwiseError } from '../core/errors.ts';
 import { createTableReader, type ColumnHints, type Delimiter, type ReadResult } from '../core/read-table.ts';
 import { rebaseRows, type SegmentResult } from '../core/read-segment.ts';
-import { NumberProfiles, profileNumberParts, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
+import { COLUMNS_IN_HAND, NumberProfiles, profileNumberParts, requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
 import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
@@ -108,7 +108,17 @@ interface Settings {
 type ToReader =
   | { readonly type: 'start'; readonly id: number; readonly settings: Settings; readonly stopAt: number }
   | { readonly type: 'segment'; readonly id: number; readonly request: SegmentRequest }
-  | ({ readonly type: 'profile-parts'; readonly id: number } & NumberPartsRequest);
+  | ({
+      readonly type: 'profile-parts';
+      readonly id: number;
+      /** Per column of the table: UNCLAIMED, BEGUN by the reading thread or TAKEN_BACK by the calling one (shared memory). */
+      readonly claims: Int32Array;
+    } & NumberPartsRequest);
+
+/** States of a column in a profile-parts request's `claims`. */
+const UNCLAIMED = 0;
+const BEGUN = 1;
+const TAKEN_BACK = 2;
 
 type FromReader =
   | {
@@ -136,6 +146,8 @@ type FromReader =
     }
   | ({ readonly type: 'segment'; readonly id: number; readonly bytesRead: number } & SegmentResult)
   | { readonly type: 'profile'; readonly id: number; readonly profile: ColumnProfile }
+  /** The column of a profile-parts request was taken back before this thread began it. */
+  | { readonly type: 'taken-back'; readonly id: number }
   | { readonly type: 'failed'; readonly code: string | null; readonly message: string; readonly hint: string; readonly stack?: string };
 
 export interface ThreadReadResult {
@@ -347,8 +359,11 @@ export async function readTableInThreads(
   let numberProfiles = null as NumberProfiles | null;
   const onPart = (parts: readonly Table[]): void => {
     if (profiling === null || workers.length === 0) return;
-    const profilers = workers.map((_, w): NumberPartsProfiler => (request) => answerOf(inbox, w, { type: 'profile-parts', id: 0, ...request }));
-    numberProfiles = new NumberProfiles(parts, profiling, profilers);
+    // A column is begun by its thread or taken back by this one, whichever comes first (compare and swap).
+    const claims = new Int32Array(new SharedArrayBuffer(4 * (parts[0]?.columns.length ?? 0)));
+    // The request's parts are copies made for it: moved, not copied again.
+    const profilers = workers.map((_, w): NumberPartsProfiler => (request) => answerOf(inbox, w, { type: 'profile-parts', id: 0, ...request, claims }, requestBuffers(request)));
+    numberProfiles = new NumberProfiles(parts, profiling, profilers, COLUMNS_IN_HAND, (index) => Atomics.compareExchange(claims, index, UNCLAIMED, TAKEN_BACK) === UNCLAIMED);
   };
   // A table read to be profiled has its cells joined only if something reads them: draft and
   // profile read none but those of the rare cells that are not numbers.
@@ -384,9 +399,10 @@ export async function readTableInThreads(
 }
 
 /** The profile a reading thread answers `request` with. */
-async function answerOf(inbox: Inbox, worker: number, request: ToReader): Promise<ColumnProfile> {
-  const answer = await inbox.next(inbox.send(worker, request));
-  if (answer.type !== 'profile') throw new Error(`reading thread: unexpected ${answer.type} message`);
+async function answerOf(inbox: Inbox, worker: number, request: ToReader, transfer: readonly ArrayBuffer[]): Promise<ColumnProfile> {
+  const answer = await inbox.next(inbox.send(worker, request, transfer));
+  // 'taken-back': nobody waits for this answer (NumberProfiles.take left the column to this thread).
+  if (answer.type !== 'profile') throw new Error(`reading thread: ${answer.type === 'taken-back' ? 'column taken back' : `unexpected ${answer.type} message`}`);
   return answer.profile;
 }
 
@@ -432,13 +448,13 @@ class Inbox {
     });
   }
 
-  /** Sends a request to thread `worker`; returns the id its answers carry. */
-  send(worker: number, request: ToReader): number {
+  /** Sends a request to thread `worker`, moving `transfer` there; returns the id its answers carry. */
+  send(worker: number, request: ToReader, transfer: readonly ArrayBuffer[] = []): number {
     const id = this.nextId++;
     this.queues.set(id, []);
     this.ownerOf.set(id, worker);
     this.pending[worker]!++;
-    this.workers[worker]!.postMessage({ ...request, id });
+    this.workers[worker]!.postMessage({ ...request, id }, transfer);
     return id;
   }
 
@@ -521,7 +537,8 @@ function serve(path: string, port: NonNullable<typeof parentPort>): void {
     try {
       if (request.type === 'start') readStart(request, fd, buffer, port);
       else if (request.type === 'segment') readSegment(request, fd, buffer, port);
-      else port.postMessage({ type: 'profile', id: request.id, profile: profileNumberParts(request) } satisfies FromReader);
+      else if (Atomics.compareExchange(request.claims, request.index, UNCLAIMED, BEGUN) === TAKEN_BACK) port.postMessage({ type: 'taken-back', id: request.id } satisfies FromReader);
+      else port.postMessage({ type: 'profile', id: request.id, profile: profileNumberParts(request, true) } satisfies FromReader);
     } catch (error) {
       port.postMessage(failed(error));
     }

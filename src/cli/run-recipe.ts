@@ -8,6 +8,7 @@
  */
 import { createApplyReport, type ApplyReport, type ApplyReportBuilder } from '../core/apply-report.ts';
 import { encodeBatch, type EncodedBatch } from '../core/apply.ts';
+import { BatchArrays } from '../core/batch-arrays.ts';
 import type { Table } from '../core/columns.ts';
 import { compilePlan, type Plan } from '../core/plan.ts';
 import type { Recipe } from '../core/recipe.ts';
@@ -50,6 +51,8 @@ export interface RecipeRun {
 
 export async function runRecipe(recipe: Recipe, source: InputSource, settings: ReadSettings, verb: string, hooks: RecipeRunHooks): Promise<RecipeRun> {
   let plan: Plan | null = null;
+  // Each batch is written (or tallied) before the next is encoded: its arrays serve the next.
+  const arrays = new BatchArrays();
   let report: ReturnType<typeof rejectionTee> | null = null;
   const progress = createProgress(`levelwise ${verb}`, source.size);
   try {
@@ -62,7 +65,7 @@ export async function runRecipe(recipe: Recipe, source: InputSource, settings: R
         }
         report.startBatch(firstRow);
         // Core rejects rows a policy refuses and rows whose fields do not line up with the header.
-        const encoded = encodeBatch(plan, table, start, end, report);
+        const encoded = encodeBatch(plan, table, start, end, report, arrays);
         hooks.batch(plan, encoded, table, report.take());
       },
       async afterChunk(bytes, rows) {

@@ -43,18 +43,35 @@ export interface EncodedBatch {
   readonly rejectedCount: number;
 }
 
-/** Encodes rows [start, end) of `table` (default: all); records what happened in `report` when given. */
-export function encodeBatch(plan: Plan, table: Table, start = 0, end = table.rowCount, report?: ApplyReportBuilder): EncodedBatch {
+/** Where a batch's arrays come from: made anew, or kept from the batch before (batch-arrays.ts). */
+interface ArraySource {
+  int32(slot: string, length: number): Int32Array;
+  float64(slot: string, length: number): Float64Array;
+  uint8(slot: string, length: number): Uint8Array;
+}
+
+const NEW_ARRAYS: ArraySource = {
+  int32: (_, length) => new Int32Array(length),
+  float64: (_, length) => new Float64Array(length),
+  uint8: (_, length) => new Uint8Array(length),
+};
+
+/**
+ * Encodes rows [start, end) of `table` (default: all); records what happened in `report` when given.
+ * With `arrays`, the batch is made in the arrays of the last batch encoded with them, which it
+ * then replaces: for a caller done with each batch before it encodes the next.
+ */
+export function encodeBatch(plan: Plan, table: Table, start = 0, end = table.rowCount, report?: ApplyReportBuilder, arrays: ArraySource = NEW_ARRAYS): EncodedBatch {
   const rows = Math.max(0, end - start);
-  const rejected = new Uint8Array(rows);
+  const rejected = arrays.uint8('rejected', rows);
   const position = sourcePositions(plan, table);
   const columns = plan.columns.map((columnPlan, i): EncodedColumn => {
     const source = position[i] === -1 ? null : (table.columns[position[i] ?? -1] ?? null);
     switch (columnPlan.kind) {
       case 'categorical':
-        return encodeLevels(columnPlan, source, start, rows, rejected, table, report);
+        return encodeLevels(columnPlan, source, start, rows, rejected, table, report, arrays.int32(`level ${i}`, rows), arrays.uint8(`missing ${i}`, rows));
       case 'continuous':
-        return encodeNumbers(columnPlan, source, start, rows, rejected, table, report);
+        return encodeNumbers(columnPlan, source, start, rows, rejected, table, report, arrays.float64(`value ${i}`, rows), arrays.uint8(`missing ${i}`, rows));
       case 'identifier':
         return { kind: 'text', source };
       case 'excluded':
@@ -85,10 +102,9 @@ function forEachCell(source: Column | null, start: number, rows: number, visit: 
 }
 
 function encodeLevels(
-  plan: CategoricalPlan, source: Column | null, start: number, rows: number, rejected: Uint8Array, table: Table, report?: ApplyReportBuilder,
+  plan: CategoricalPlan, source: Column | null, start: number, rows: number, rejected: Uint8Array, table: Table, report: ApplyReportBuilder | undefined,
+  level: Int32Array, missing: Uint8Array,
 ): EncodedColumn {
-  const level = new Int32Array(rows);
-  const missing = new Uint8Array(rows);
   const note = (r: number, text: string, outcome: LevelResolution): void => {
     level[r] = outcome.level;
     missing[r] = outcome.missing ? 1 : 0;
@@ -145,10 +161,9 @@ function resolveCodes<T extends Int32Array | Float64Array>(byCode: T, source: Te
 }
 
 function encodeNumbers(
-  plan: ContinuousPlan, source: Column | null, start: number, rows: number, rejected: Uint8Array, table: Table, report?: ApplyReportBuilder,
+  plan: ContinuousPlan, source: Column | null, start: number, rows: number, rejected: Uint8Array, table: Table, report: ApplyReportBuilder | undefined,
+  values: Float64Array, missing: Uint8Array,
 ): EncodedColumn {
-  const values = new Float64Array(rows);
-  const missing = new Uint8Array(rows);
   const { center, scale } = plan.transform;
   // A plain number is read directly (no cache to consult); only unusual texts are resolved in full.
   const { isMissing, readNumber } = plan;

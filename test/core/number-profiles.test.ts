@@ -122,6 +122,28 @@ describe('number columns profiled on other threads', () => {
     expect(profiles).toEqual(profileTable(whole, OPTIONS));
   });
 
+  it('a column its thread has not begun is taken back by this thread when the caller can claim it', async () => {
+    const { whole, parts } = wholeAndParts();
+    const one = heldProfiler();
+    const claimed: number[] = [];
+    // The thread has begun column a (the first it holds) and waits to begin b.
+    const shared = new NumberProfiles(parts, OPTIONS, [one.profiler], COLUMNS_IN_HAND, (index) => (claimed.push(index), index !== 0));
+    expect(one.requests.map((r) => r.index)).toEqual([0, 1]);
+    const table = joinAndGiveUp(parts);
+    shared.joinedInto(table);
+    const leftHere: number[] = [];
+    const profiles = await profileTableSharing(table, OPTIONS, (_, index) => {
+      const taken = shared.take(index);
+      if (taken === null) leftHere.push(index);
+      if (index === 2) one.answerNext(); // a, answered once this thread has done its share
+      return taken;
+    });
+    // a from the thread; b taken back; c never given (the thread had two in hand).
+    expect(claimed).toEqual([0, 1]);
+    expect(leftHere).toEqual([1, 2]);
+    expect(profiles).toEqual(profileTable(whole, OPTIONS));
+  });
+
   it('send copies of the rows: transferring a request\'s arrays away leaves the parts whole', () => {
     const { whole, parts } = wholeAndParts();
     const requests: NumberPartsRequest[] = [];
