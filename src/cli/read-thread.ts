@@ -49,8 +49,13 @@ const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
 /** A whole-table read's first chunk: the header and the first rows, after which the other threads start. */
 const FIRST_CHUNK_BYTES = 64 << 10;
-/** The size of a segment: several batches' worth, so a segment's start-up is paid rarely. */
-const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 8 << 20;
+/**
+ * The size of a segment: ~33,000 rows of the benchmark's file, so that a segment's start-up is paid
+ * rarely. With this thread reading segments too, 4 MB with SEGMENTS_AHEAD 3 ran as fast as 8 MB
+ * with 2 (medians of seven interleaved rounds at 1M rows: 1.44 and 1.43 s) with less held at once:
+ * peak RSS 216 against 237 MB at 1M rows, 243 against 263 MB at 4M.
+ */
+const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 4 << 20;
 /**
  * Where the first thread stops reading the file's start alone (the others wait for it). The
  * segments are sized and stored like these rows (ColumnHints): from 64 kB (~500 rows) the number
@@ -73,8 +78,11 @@ const HEAD_START_BYTES = 6 << 20;
 const HAND_OVER_FROM_BYTES = 4 << 20;
 /** A whole table is read on one thread below this size: starting threads would cost more than it saves. */
 const PARALLEL_FROM_BYTES = Number(process.env.LEVELWISE_PARALLEL_FROM_BYTES) || 16 << 20;
-/** Segments handed to a thread and not yet taken by this one. */
-const SEGMENTS_AHEAD = 2;
+/**
+ * Segments handed to a thread and not yet taken by this one. With 2, the reading thread went idle
+ * (~0.15 s in a trace) while this one was reading a segment of its own and then encoding.
+ */
+const SEGMENTS_AHEAD = 3;
 
 /** Threads that read, this one included when it reads too: one per core, at most four. */
 function readingThreads(): number {
