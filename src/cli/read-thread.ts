@@ -50,12 +50,12 @@ const CHUNK_BYTES = 1 << 20;
 /** A whole-table read's first chunk: the header and the first rows, after which the other threads start. */
 const FIRST_CHUNK_BYTES = 64 << 10;
 /**
- * The size of a segment: ~33,000 rows of the benchmark's file, so that a segment's start-up is paid
- * rarely. With this thread reading segments too, 4 MB with SEGMENTS_AHEAD 3 ran as fast as 8 MB
- * with 2 (medians of seven interleaved rounds at 1M rows: 1.44 and 1.43 s) with less held at once:
- * peak RSS 216 against 237 MB at 1M rows, 243 against 263 MB at 4M.
+ * The size of a segment: ~65,000 rows of the benchmark's file, so that a segment's start-up is paid
+ * rarely. Every segment makes its dictionaries afresh, and this thread resolves each of their
+ * values; at 1M rows, 4 MB segments took ~0.4 s more CPU time than 8 MB, and 16 MB ~0.2 s less
+ * (eight interleaved rounds), but held ~25 MB more at 1M rows and grew 1.27× from 1M to 4M rows.
  */
-const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 4 << 20;
+const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 8 << 20;
 /**
  * Where the first thread stops reading the file's start alone (the others wait for it). The
  * segments are sized and stored like these rows (ColumnHints): from 64 kB (~500 rows) the number
