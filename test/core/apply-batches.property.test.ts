@@ -3,12 +3,14 @@
  * only the codes a few rows use of a big one) and reads plain numbers without consulting the
  * plan's cache. Checked here against the plainest encoder, one cell at a time through the plan's
  * resolvers, on random tables, recipes and row ranges (fast-check); and the report must count the
- * same missing, unseen and invalid cells and reject the same rows whatever the batch size.
+ * same missing, unseen and invalid cells and reject the same rows whatever the batch size, and a
+ * batch made in the arrays of the one before must be what new arrays give.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { createApplyReport } from '../../src/core/apply-report.ts';
 import { encodeBatch } from '../../src/core/apply.ts';
+import { BatchArrays } from '../../src/core/batch-arrays.ts';
 import { cellText, type Table } from '../../src/core/columns.ts';
 import { decide, type Decision } from '../../src/core/decisions.ts';
 import { draftRecipe } from '../../src/core/fit.ts';
@@ -88,6 +90,25 @@ describe('encodeBatch against one cell at a time', () => {
         }
       }),
       { numRuns: 200 },
+    );
+  });
+
+  it('batches made in the arrays of the batch before (a streamed apply) are those made in new arrays', () => {
+    fc.assert(
+      fc.property(scenario, (s) => {
+        const { source, plan } = planned(s);
+        const arrays = new BatchArrays();
+        // Batches of different sizes, in turn, so that a smaller one follows a larger one in the same arrays.
+        for (let start = 0, k = 0; start < source.rowCount; k++) {
+          const end = Math.min(source.rowCount, start + (k % 2 === 0 ? s.batchRows : 1 + (s.batchRows >> 1)));
+          const reused = encodeBatch(plan, source, start, end, undefined, arrays);
+          const fresh = encodeBatch(plan, source, start, end);
+          expect(reused.rejected).toEqual(fresh.rejected);
+          expect(reused.columns).toEqual(fresh.columns);
+          start = end;
+        }
+      }),
+      { numRuns: 100 },
     );
   });
 
