@@ -268,7 +268,7 @@ export async function readBatchesInThread(
  * Reads the file's start on this thread (the header, encoding, delimiter and the first rows, up to
  * FIRST_STOP), its batches held for `takeHeldBatches`. Returns null, having handed nothing to
  * `onBatch`, when the file cannot be cut into segments (not UTF-8, lone CR line breaks, one
- * column) and is longer than its first chunk: a reading thread then reads it whole.
+ * column) and is longer than FIRST_STOP: a reading thread then reads it whole.
  */
 function readStartHere(
   fd: number, buffer: Uint8Array, settings: Settings, fileBytes: number, onBatch: (table: Table, firstRow: number, bytesRead: number) => Promise<void>,
@@ -282,7 +282,11 @@ function readStartHere(
     onBatch: (table, firstRow) => void held.push([table, firstRow]),
   });
   let bytesRead = 0;
-  for (let read = readSync(fd, buffer, 0, Math.min(FIRST_CHUNK_BYTES, FIRST_STOP), 0); read > 0; read = readSync(fd, buffer, 0, Math.min(buffer.length, FIRST_STOP), bytesRead)) {
+  // Chunks no larger than the stop, so that the reader can stop near it; past the first, the
+  // header is known (up to FIRST_STOP long, as a reading thread would have it) and whether the
+  // file can be cut with it.
+  const chunk = Math.min(buffer.length, FIRST_STOP);
+  for (let read = readSync(fd, buffer, 0, chunk, 0); read > 0; read = readSync(fd, buffer, 0, chunk, bytesRead)) {
     bytesRead += read;
     reader.push(buffer.subarray(0, read));
     if (reader.stoppedAt !== null) break;
