@@ -57,7 +57,7 @@ const FIRST_CHUNK_BYTES = 64 << 10;
  */
 const SEGMENT_BYTES = Number(process.env.LEVELWISE_SEGMENT_BYTES) || 8 << 20;
 /**
- * Where the first thread stops reading the file's start alone (the others wait for it). The
+ * Where the reading of the file's start stops (`apply`, `check`; segments start from there). The
  * segments are sized and stored like these rows (ColumnHints): from 64 kB (~500 rows) the number
  * columns had not yet reached number storage, and every segment found that out again (`apply`'s
  * peak RSS at 4M rows went from ~340 to ~360 MB).
@@ -138,20 +138,12 @@ type FromReader =
       /** The last answer to its request (a batch held back until after 'started'). */
       readonly last?: boolean;
     }
-  | {
+  | ({
       readonly type: 'started';
       readonly id: number;
-      readonly names: readonly string[];
-      readonly rows: number;
-      readonly encoding: EncodingName;
-      readonly encodingGuessed: boolean;
-      readonly delimiter: Delimiter;
-      readonly stoppedAt: number | null;
-      readonly lineBreaks: number;
-      readonly columnHints: ColumnHints | null;
       /** Batches of the start's last rows, sent after this answer (see readStart). */
       readonly heldBatches: number;
-    }
+    } & StartFacts)
   | ({ readonly type: 'segment'; readonly id: number; readonly bytesRead: number } & SegmentResult)
   | { readonly type: 'profile'; readonly id: number; readonly profile: ColumnProfile }
   /** The column of a profile-parts request was taken back before this thread began it. */
@@ -170,8 +162,8 @@ export function canReadInThread(): boolean {
   return import.meta.url.endsWith('.mjs') || import.meta.url.endsWith('.js');
 }
 
-/** Where the file's start left off, whichever thread read it. */
-interface StartRead {
+/** What reading the file's start found, whichever thread read it: what the segments need to know. */
+interface StartFacts {
   readonly names: readonly string[];
   readonly rows: number;
   readonly encoding: EncodingName;
@@ -181,6 +173,15 @@ interface StartRead {
   readonly stoppedAt: number | null;
   readonly lineBreaks: number;
   readonly columnHints: ColumnHints | null;
+}
+
+function startFacts(result: ReadResult): StartFacts {
+  const { totalRows: rows, encoding, encodingGuessed, delimiter, stoppedAt, lineBreaks, columnHints } = result;
+  return { names: result.table.names, rows, encoding, encodingGuessed, delimiter, stoppedAt, lineBreaks, columnHints };
+}
+
+/** The file's start read, its last rows not yet handed on. */
+interface StartRead extends StartFacts {
   /** Hands the start's last rows to onBatch (after the segments have gone out). */
   readonly takeHeldBatches: () => Promise<void>;
 }
@@ -199,9 +200,9 @@ export async function readBatchesInThread(
   onBatch: (table: Table, firstRow: number, bytesRead: number) => Promise<void>,
 ): Promise<ThreadReadResult> {
   const fileBytes = fstatOf(path);
+  const fd = openSync(path, 'r');
   const workers = Array.from({ length: batchReadingThreads() }, () => startReadingThread(path));
   const inbox = new Inbox(workers);
-  const fd = openSync(path, 'r');
   const buffer = new Uint8Array(CHUNK_BYTES);
   try {
     // 1. The file's start: here, while the threads start; on a thread when the file cannot be cut,
@@ -292,16 +293,8 @@ function readStartHere(
     if (reader.stoppedAt !== null) break;
     if (reader.segmenting === null && bytesRead < fileBytes) return null;
   }
-  const result = reader.finish();
   return {
-    names: result.table.names,
-    rows: result.totalRows,
-    encoding: result.encoding,
-    encodingGuessed: result.encodingGuessed,
-    delimiter: result.delimiter,
-    stoppedAt: result.stoppedAt,
-    lineBreaks: result.lineBreaks,
-    columnHints: result.columnHints,
+    ...startFacts(reader.finish()),
     takeHeldBatches: async () => {
       for (const [table, firstRow] of held.splice(0)) await onBatch(table, firstRow, bytesRead);
     },
@@ -584,19 +577,7 @@ function readStart(request: Extract<ToReader, { type: 'start' }>, fd: number, bu
   }
   finishing = true;
   const result = reader.finish();
-  port.postMessage({
-    type: 'started',
-    id: request.id,
-    names: result.table.names,
-    rows: result.totalRows,
-    encoding: result.encoding,
-    encodingGuessed: result.encodingGuessed,
-    delimiter: result.delimiter,
-    stoppedAt: result.stoppedAt,
-    lineBreaks: result.lineBreaks,
-    columnHints: result.columnHints,
-    heldBatches: held.length,
-  } satisfies FromReader);
+  port.postMessage({ type: 'started', id: request.id, ...startFacts(result), heldBatches: held.length } satisfies FromReader);
   held.forEach((batch, b) => post(port, { ...batch, last: b === held.length - 1 }));
 }
 

@@ -81,8 +81,8 @@ export class NumberProfiles {
   /** Column indices not yet started, in column order. */
   private readonly waiting: number[] = [];
   private readonly started = new Map<number, Promise<ColumnProfile>>();
-  /** Per profiler, the columns it has been given and not yet answered, in the order given. */
-  private readonly inHand: number[][];
+  /** Per profiler, the columns it has been given and not yet answered. */
+  private readonly inHand: number[];
   private readonly inHandAtMost: number;
   private readonly claim: ColumnClaim | null;
 
@@ -94,7 +94,7 @@ export class NumberProfiles {
     this.parts = parts;
     this.options = options;
     this.profilers = profilers;
-    this.inHand = profilers.map(() => []);
+    this.inHand = profilers.map(() => 0);
     this.inHandAtMost = inHandAtMost;
     this.claim = claim;
     parts[0]?.columns.forEach((_, index) => {
@@ -133,8 +133,8 @@ export class NumberProfiles {
   /** The profiler with the fewest columns in hand, if it can take one more; the first of equals. */
   private leastBusy(): number | null {
     let best: number | null = null;
-    this.inHand.forEach((held, p) => {
-      if (held.length < this.inHandAtMost && (best === null || held.length < this.inHand[best]!.length)) best = p;
+    this.inHand.forEach((count, p) => {
+      if (count < this.inHandAtMost && (best === null || count < this.inHand[best]!)) best = p;
     });
     return best;
   }
@@ -144,14 +144,13 @@ export class NumberProfiles {
   }
 
   private start(profiler: number, index: number): Promise<ColumnProfile> {
-    const held = this.inHand[profiler]!;
-    held.push(index);
+    this.inHand[profiler]!++;
     const rowCounts = this.parts.map((part) => part.rowCount);
     // Copies of the rows only: a part's arrays may have room for more (the first has room for the
     // whole file), and this thread keeps its own.
     const parts = this.parts.map((part, k) => numberRowsCopy(part.columns[index] as NumberColumn, rowCounts[k]!));
     const profiled = this.profilers[profiler]!({ parts, rowCounts, index, options: this.options }).finally(() => {
-      held.splice(held.indexOf(index), 1);
+      this.inHand[profiler]!--;
       this.startWhileFree();
     });
     profiled.catch(() => undefined); // awaited when taken, or not at all when the read fails

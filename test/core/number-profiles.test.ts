@@ -55,6 +55,18 @@ function heldProfiler(): { profiler: NumberPartsProfiler; requests: NumberPartsR
   return { profiler, requests, answerNext: () => held.shift()!() };
 }
 
+/** profileTableSharing through `shared.take`, noting the columns left to this thread; `asked` runs after each take. */
+async function profileSharing(shared: NumberProfiles, table: Table, asked: (index: number) => void): Promise<{ profiles: ColumnProfile[]; leftHere: number[] }> {
+  const leftHere: number[] = [];
+  const profiles = await profileTableSharing(table, OPTIONS, (_, index) => {
+    const taken = shared.take(index);
+    if (taken === null) leftHere.push(index);
+    asked(index);
+    return taken;
+  });
+  return { profiles, leftHere };
+}
+
 /** Lets settled promises run their callbacks (a profiler come free starts the next column). */
 const settle = (): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0));
 
@@ -106,16 +118,12 @@ describe('number columns profiled on other threads', () => {
     expect(one.requests.map((r) => r.index)).toEqual([0, 1]);
     const table = joinAndGiveUp(parts);
     shared.joinedInto(table);
-    const leftHere: number[] = [];
-    const profiles = await profileTableSharing(table, OPTIONS, (_, index) => {
-      const taken = shared.take(index);
-      if (taken === null) leftHere.push(index);
+    const { profiles, leftHere } = await profileSharing(shared, table, (index) => {
       // Still busy with columns a and b while this thread asks for c; it answers after.
       if (index === 2) {
         one.answerNext();
         one.answerNext();
       }
-      return taken;
     });
     expect(one.requests.map((r) => r.index)).toEqual([0, 1]);
     expect(leftHere).toEqual([2]);
@@ -131,12 +139,8 @@ describe('number columns profiled on other threads', () => {
     expect(one.requests.map((r) => r.index)).toEqual([0, 1]);
     const table = joinAndGiveUp(parts);
     shared.joinedInto(table);
-    const leftHere: number[] = [];
-    const profiles = await profileTableSharing(table, OPTIONS, (_, index) => {
-      const taken = shared.take(index);
-      if (taken === null) leftHere.push(index);
+    const { profiles, leftHere } = await profileSharing(shared, table, (index) => {
       if (index === 2) one.answerNext(); // a, answered once this thread has done its share
-      return taken;
     });
     // a from the thread; b taken back; c never given (the thread had two in hand).
     expect(claimed).toEqual([0, 1]);
