@@ -201,7 +201,8 @@ export async function readBatchesInThread(
 ): Promise<ThreadReadResult> {
   const fileBytes = fstatOf(path);
   const fd = openSync(path, 'r');
-  const workers = Array.from({ length: batchReadingThreads() }, () => startReadingThread(path));
+  // A file no longer than the start is read here whole: a thread would only start and stop.
+  const workers = fileBytes > FIRST_STOP ? Array.from({ length: batchReadingThreads() }, () => startReadingThread(path)) : [];
   const inbox = new Inbox(workers);
   const buffer = new Uint8Array(CHUNK_BYTES);
   try {
