@@ -92,16 +92,6 @@ export class NumberTally {
     return { values, counts, length: values.length };
   }
 
-  /** Writes every counted cell's number into `out`, as many times as counted; returns `out`. */
-  expandInto(out: Float64Array): Float64Array {
-    let at = 0;
-    this.forEach((value, count) => {
-      out.fill(value, at, at + count);
-      at += count;
-    });
-    return out;
-  }
-
   /** The i-th distinct number first counted, -0 when the run of zeros is -0's. */
   private valueAt(i: number): number {
     const value = this.numbers[i]!;

@@ -10,6 +10,7 @@ import { knownSymbolOf } from './number-symbols.ts';
 import { detectNumberFormat, hasLeadingZero, mayStartNumber, numberReader, type NumberReader } from './numbers.ts';
 import { plainValues } from './plain-values.ts';
 import type { NumberFormat } from './recipe.ts';
+import { countOnGrid, type GridRuns } from './number-grid.ts';
 import { NumberTally } from './number-tally.ts';
 import { sortNumbers } from './sort-numbers.ts';
 
@@ -642,10 +643,11 @@ interface NumberCells {
   /** The cells counted by their text, in the order the texts first appear: exceptions, fixed-decimal cells, coded missing numbers. */
   readonly texts: Map<string, number>;
   /**
-   * The other numbers ("plain"): counted by value, or, past the most distinct numbers worth
-   * counting (MAX_COUNTED_SHARE), every one of them in an array, in no particular order.
+   * The other numbers ("plain"): as runs when they fit a grid (number-grid.ts), else counted by
+   * value, or, past the most distinct numbers worth counting (MAX_COUNTED_SHARE), every one of
+   * them in an array, in no particular order.
    */
-  readonly plain: NumberTally | Float64Array;
+  readonly plain: GridRuns | NumberTally | Float64Array;
   readonly plainCount: number;
   /** Plain numbers that are not whole. */
   readonly plainFractions: number;
@@ -658,48 +660,81 @@ const MAX_COUNTED_SHARE = 1 / 8;
 const MIN_COUNTED = 1024;
 
 /**
- * The one pass over the cells: plain numbers are counted by value, NaN without text is an empty
- * cell, and the others are counted by their text: exceptions, fixed-decimal cells ("134.00"), and
- * numbers a missing token spells ("-999"). Fixed-decimal cells are counted by number too, and get
- * their text once per distinct number: a tenth of a column of amounts can be "12.50"s. A function
- * of its own: run once in a command line, it is optimised sooner small than inside the whole profile.
+ * The one pass over the cells: NaN without text is an empty cell; exceptions, fixed-decimal cells
+ * ("134.00") and numbers a missing token spells ("-999") are counted by their text; the others,
+ * the plain numbers, are then counted by value (countOnGrid, else countByValue). Fixed-decimal cells are counted
+ * by number too, and get their text once per distinct number: a tenth of a column of amounts can
+ * be "12.50"s. A function of its own: run once in a command line, it is optimised sooner small than
+ * inside the whole profile.
  */
 function tallyNumberCells(column: NumberColumn, codedMissing: ReadonlySet<number>): NumberCells {
   const { length, values } = column;
-  const isException = exceptionRows(column);
+  /** 1 for a cell counted by its text: the plain numbers are the others that are not NaN. */
+  const byText = exceptionRows(column);
   const fixed = column.fixedDigits;
-  const most = Math.max(MIN_COUNTED, Math.ceil(length * MAX_COUNTED_SHARE));
   /** By count of decimals. */
   const fixedNumbers: NumberTally[] = [];
   const textCells = new Map<string, TextCells>();
-  const tally = new NumberTally();
-  let all: Float64Array | null = null;
   let plainCount = 0;
   let plainFractions = 0;
   let emptyCells = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  let negativeZero = false;
   for (let row = 0; row < length; row++) {
-    if (isException[row] === 1) continue; // counted by text below
+    if (byText[row] === 1) continue; // an exception, counted below
     const v = values[row]!;
     if (v !== v) {
       emptyCells++;
       continue;
     }
     const digits = fixed === null ? 0 : fixed[row]!;
-    if (digits > 0) (fixedNumbers[digits] ??= new NumberTally()).add(v, 1, row);
-    else if (codedMissing.size > 0 && codedMissing.has(v)) countText(textCells, String(v), 1, row); // a plain cell's text
-    else {
-      if (!Number.isInteger(v)) plainFractions++;
-      if (all !== null) all[plainCount] = v;
-      else {
-        tally.add(v, 1);
-        if (tally.distinct > most) all = tally.expandInto(new Float64Array(length));
-      }
+    if (digits > 0) {
+      (fixedNumbers[digits] ??= new NumberTally()).add(v, 1, row);
+      byText[row] = 1;
+    } else if (codedMissing.size > 0 && codedMissing.has(v)) {
+      countText(textCells, String(v), 1, row); // a plain cell's text
+      byText[row] = 1;
+    } else {
       plainCount++;
+      if (!Number.isInteger(v)) plainFractions++;
+      if (v < min) min = v;
+      if (v > max) max = v;
+      if (v === 0 && 1 / v < 0) negativeZero = true;
     }
   }
   for (const [row, text] of column.exceptions) if (row >= 0 && row < length) countText(textCells, text, 1, row);
   fixedNumbers.forEach((numbers, digits) => numbers.forEach((v, count, firstRow) => countText(textCells, v.toFixed(digits), count, firstRow)));
-  return { texts: inFirstRowOrder(textCells), plain: all === null ? tally : all.subarray(0, plainCount), plainCount, plainFractions, emptyCells };
+  // The storage may hold room past the column's length.
+  const cells = values.subarray(0, length);
+  const plain = countOnGrid(cells, byText, { min, max, hasFractions: plainFractions > 0, negativeZero, count: plainCount }) ?? countByValue(cells, byText, plainCount);
+  return { texts: inFirstRowOrder(textCells), plain, plainCount, plainFractions, emptyCells };
+}
+
+/**
+ * The plain numbers among `values` (not NaN, not marked in `byText`), counted in a hash table; or
+ * every one of them in an array when more are distinct than counting pays for.
+ */
+function countByValue(values: Float64Array, byText: Uint8Array, plainCount: number): NumberTally | Float64Array {
+  const most = Math.max(MIN_COUNTED, Math.ceil(plainCount * MAX_COUNTED_SHARE));
+  const tally = new NumberTally();
+  for (let row = 0; row < values.length; row++) {
+    const v = values[row]!;
+    if (byText[row] === 1 || v !== v) continue;
+    tally.add(v, 1);
+    if (tally.distinct > most) return plainNumbers(values, byText, plainCount);
+  }
+  return tally;
+}
+
+function plainNumbers(values: Float64Array, byText: Uint8Array, plainCount: number): Float64Array {
+  const plain = new Float64Array(plainCount);
+  let at = 0;
+  for (let row = 0; row < values.length; row++) {
+    const v = values[row]!;
+    if (byText[row] === 0 && v === v) plain[at++] = v;
+  }
+  return plain;
 }
 
 /** 1 for each row of the column's exceptions. */
@@ -770,7 +805,12 @@ function readExceptionNumbers(texts: readonly LevelCount[], read: NumberReader):
  * exceptions' numbers with their counts), and how many distinct numbers the plain ones are. In a
  * comma-decimal format (`decimalComma`) only the plain whole numbers count: "2.5" does not read.
  */
-function numberRuns(plain: NumberTally | Float64Array, plainCount: number, decimalComma: boolean, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
+function numberRuns(plain: GridRuns | NumberTally | Float64Array, plainCount: number, decimalComma: boolean, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
+  if (!(plain instanceof NumberTally) && !(plain instanceof Float64Array)) {
+    const counted = decimalComma ? wholeRuns(plain) : plain;
+    const others = exceptions.values.length === 0 ? null : runsFromPairs(exceptions.values, exceptions.counts);
+    return { runs: others === null ? counted : mergeRuns(counted, others), distinctPlain: counted.length };
+  }
   if (plain instanceof NumberTally) {
     const counted = decimalComma ? wholeNumbersOf(plain) : plain;
     const distinctPlain = counted.distinct;
@@ -781,6 +821,43 @@ function numberRuns(plain: NumberTally | Float64Array, plainCount: number, decim
   sortNumbers(valid);
   const distinctPlain = countDistinctSorted(valid);
   return { runs: runsFromSorted(mergeSorted(valid, expanded(exceptions))), distinctPlain };
+}
+
+/** The runs of whole numbers among `runs`. */
+function wholeRuns(runs: Runs): Runs {
+  const values = new Float64Array(runs.length);
+  const counts = new Float64Array(runs.length);
+  let length = 0;
+  for (let i = 0; i < runs.length; i++) {
+    if (!Number.isInteger(runs.values[i])) continue;
+    values[length] = runs.values[i]!;
+    counts[length++] = runs.counts[i]!;
+  }
+  return { values: values.subarray(0, length), counts: counts.subarray(0, length), length };
+}
+
+/** Two lists of runs as one, ascending; equal numbers join one run, which is -0 when either is (as a sort puts -0 first). */
+function mergeRuns(a: Runs, b: Runs): Runs {
+  const values = new Float64Array(a.length + b.length);
+  const counts = new Float64Array(a.length + b.length);
+  let i = 0;
+  let j = 0;
+  let n = 0;
+  while (i < a.length || j < b.length) {
+    const x = i < a.length ? a.values[i]! : Infinity;
+    const y = j < b.length ? b.values[j]! : Infinity;
+    if (i < a.length && (j === b.length || x < y)) {
+      values[n] = x;
+      counts[n++] = a.counts[i++]!;
+    } else if (j < b.length && (i === a.length || y < x)) {
+      values[n] = y;
+      counts[n++] = b.counts[j++]!;
+    } else {
+      values[n] = Object.is(x, -0) ? x : y;
+      counts[n++] = a.counts[i++]! + b.counts[j++]!;
+    }
+  }
+  return { values: values.subarray(0, n), counts: counts.subarray(0, n), length: n };
 }
 
 function wholeNumbersOf(tally: NumberTally): NumberTally {
