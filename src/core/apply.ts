@@ -11,7 +11,7 @@
  * The page (whole table, or a visible window of it) and the command line (streamed batches) call
  * the same functions, so they produce the same bytes.
  */
-import { cellText, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
+import { cellText, type Codes, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
 import type { ApplyReportBuilder } from './apply-report.ts';
 import { misshapenRows } from './row-shape.ts';
 import { ALL_ZEROS, type CategoricalPlan, type ContinuousPlan, type LevelResolution, type Plan } from './plan.ts';
@@ -27,7 +27,7 @@ export type EncodedColumn =
        * For a dictionary-stored source: the code of each row (indexed by row − start). Rows of one
        * code hold the same value and missing flag, so a writer may format each code once.
        */
-      readonly codes?: Uint32Array;
+      readonly codes?: Codes;
     }
   | { readonly kind: 'text'; readonly source: Column | null }
   | { readonly kind: 'none' };

@@ -11,7 +11,7 @@
  * fixed-decimal exports ('12.50') leave the dictionary too; tolerating a few other texts lets a
  * measurement with missing-value spellings ('NA', 'n/a') or the odd grouped number leave it.
  */
-import { withPackedValues, type Column, type HeaderIssue, type RowIssue, type Table } from './columns.ts';
+import { codesFor, valuesHeldBy, widenedCodes, withPackedValues, type Codes, type Column, type HeaderIssue, type RowIssue, type Table } from './columns.ts';
 import { hashBytes, plainFields, type PlainRecords } from './parse.ts';
 import { utf8Bytes, utf8Text } from './utf8-text.ts';
 
@@ -53,7 +53,10 @@ export class ColumnBuilder {
   private readonly cap: number;
   private length = 0;
   // Dictionary storage, emptied once the column holds numbers.
-  private codes: Uint32Array<ArrayBuffer>;
+  /** As narrow as the values so far allow (columns.ts Codes), widened as they come. */
+  private codes: Codes;
+  /** How many values `codes` can tell apart. */
+  private codesHold: number;
   /** The values' strings; undefined until `build` for those read as bytes (see valueTexts). */
   private values: (string | undefined)[] = [];
   private counts: Uint32Array<ArrayBuffer>;
@@ -101,12 +104,13 @@ export class ColumnBuilder {
     this.table = new Int32Array(2 * slots);
     this.counts = new Uint32Array(distinct + 1);
     this.valueStart = new Int32Array(distinct + 1);
-    this.codes = new Uint32Array(Math.max(INITIAL_CAPACITY, expected?.rows ?? 0));
+    this.codes = codesFor(Math.max(INITIAL_CAPACITY, expected?.rows ?? 0), expected?.distinct ?? 0);
+    this.codesHold = valuesHeldBy(this.codes);
     if (expected?.numbers === true) {
       this.pastCap = true;
       this.numbers = new Float64Array(this.codes.length);
       this.exceptions = new Map();
-      this.codes = new Uint32Array(0);
+      this.codes = new Uint8Array(0);
     }
   }
 
@@ -197,6 +201,7 @@ export class ColumnBuilder {
     const values = this.values;
     let count = values.length;
     if (this.codes.length < this.length + rows) this.codes = resized(this.codes, roomFor(this.codes.length, this.length + rows));
+    if (count + rows > this.codesHold) this.widenCodes(count + rows);
     if (this.counts.length <= count + rows) {
       const room = roomFor(this.counts.length, count + rows + 1);
       this.counts = resized(this.counts, room);
@@ -359,6 +364,7 @@ export class ColumnBuilder {
 
   private addValue(bytes: Uint8Array, start: number, end: number, text: string | null): number {
     const code = this.values.length;
+    if (code === this.codesHold) this.widenCodes(code + 1);
     const length = end - start;
     this.values.push(text ?? undefined);
     if (code + 1 >= this.counts.length) {
@@ -378,6 +384,12 @@ export class ColumnBuilder {
     this.valueStart[code + 1] = stored + length;
     if (!this.pastCap) this.countNumber(bytes, start, end);
     return code;
+  }
+
+  /** Codes wide enough for `distinct` values. */
+  private widenCodes(distinct: number): void {
+    this.codes = widenedCodes(this.codes, distinct);
+    this.codesHold = valuesHeldBy(this.codes);
   }
 
   /** Counts a new value that is not a number, and at the cap decides the column's storage. */
@@ -452,7 +464,7 @@ export class ColumnBuilder {
     this.table = new Int32Array(0);
     this.setValueBytes(new Uint8Array(0));
     this.valueStart = new Int32Array(0);
-    this.codes = new Uint32Array(0);
+    this.codes = new Uint8Array(0);
     this.values = [];
     this.counts = new Uint32Array(0);
   }
@@ -667,7 +679,7 @@ function detach(text: string): string {
 }
 
 /** A copy of `array` with room for `length` entries. */
-function resized<A extends Uint8Array | Uint32Array | Float64Array | Int32Array>(array: A, length: number): A {
+function resized<A extends Uint8Array | Uint16Array | Uint32Array | Float64Array | Int32Array>(array: A, length: number): A {
   const bigger = new (array.constructor as new (length: number) => A)(length);
   bigger.set(array);
   return bigger;
@@ -681,7 +693,7 @@ function roomFor(length: number, needed: number): number {
 }
 
 /** A typed array twice as long (at least 16), holding `array`'s values first. */
-export function grow<A extends Uint32Array | Float64Array | Int32Array>(array: A): A {
+export function grow<A extends Uint8Array | Uint16Array | Uint32Array | Float64Array | Int32Array>(array: A): A {
   const bigger = new (array.constructor as new (length: number) => A)(Math.max(16, array.length * 2));
   bigger.set(array);
   return bigger;

@@ -13,7 +13,7 @@
  * skip the lookup when a segment's values all sort after those already joined, as they do in
  * exports sorted by their key.
  */
-import { columnBuffers, valueText, withPackedValues, type Column, type NumberColumn, type PackedTexts, type RowIssue, type Table, type TextColumn } from './columns.ts';
+import { codesFor, columnBuffers, valueText, valuesHeldBy, withPackedValues, type Codes, type Column, type NumberColumn, type PackedTexts, type RowIssue, type Table, type TextColumn } from './columns.ts';
 import { compareBytes, DEFAULT_DICTIONARY_CAP, NON_NUMBER_SHARE, readNumberText } from './columns-builder.ts';
 import { releaseBuffer } from './release-buffers.ts';
 
@@ -129,8 +129,8 @@ function numberCellsWhenRead(name: string, length: number, join: () => NumberCol
 }
 
 /** `column` with its codes made by `join` the first time they are read. */
-function codesWhenRead(column: TextColumn, join: () => Uint32Array): TextColumn {
-  let codes: Uint32Array | null = null;
+function codesWhenRead(column: TextColumn, join: () => Codes): TextColumn {
+  let codes: Codes | null = null;
   return Object.defineProperty(column, 'codes', { enumerable: true, configurable: true, get: () => (codes ??= join()) });
 }
 
@@ -138,7 +138,7 @@ function codesWhenRead(column: TextColumn, join: () => Uint32Array): TextColumn 
  * `array` itself, seen over all of its buffer from where it starts, when that holds `rows` entries
  * (a reader's storage is made larger than its rows; `lineOfRow` is a view of its first rows).
  */
-function withRoomFor<A extends Uint32Array | Float64Array | Uint8Array>(array: A, rows: number): A | null {
+function withRoomFor<A extends Uint32Array | Uint16Array | Float64Array | Uint8Array>(array: A, rows: number): A | null {
   if (!(array.buffer instanceof ArrayBuffer)) return null;
   const room = Math.floor((array.buffer.byteLength - array.byteOffset) / array.BYTES_PER_ELEMENT);
   if (room < rows) return null;
@@ -242,13 +242,13 @@ function notANumber(text: string): boolean {
   return text !== '' && Number.isNaN(readNumberText(text).value);
 }
 
-function firstRowOf(codes: Uint32Array, code: number, rows: number): number {
+function firstRowOf(codes: Codes, code: number, rows: number): number {
   for (let row = 0; row < rows; row++) if (codes[row] === code) return row;
   throw new Error(`concatTables: code ${code} counted but not found in the codes`);
 }
 
 /** Rows before `end` whose code is flagged. */
-function cellsFlagged(codes: Uint32Array, flagged: Uint8Array, end: number): number {
+function cellsFlagged(codes: Codes, flagged: Uint8Array, end: number): number {
   let cells = 0;
   for (let row = 0; row < end; row++) cells += flagged[codes[row]!]!;
   return cells;
@@ -375,18 +375,21 @@ function joinAsText(columns: readonly Column[], rowCounts: readonly number[], mo
   // with reuseFirst they are filled on in place.
   const firstMap = dictionary.maps[0]!;
   const reuse = mode.reuse && columns[0]!.kind === 'text' && 'base' in firstMap && firstMap.base === 0;
-  const join = (): Uint32Array => joinCodes(parts, dictionary.maps, rowCounts, reuse);
+  const join = (): Codes => joinCodes(parts, dictionary.maps, rowCounts, reuse, dictionary.values.length);
   return mode.later ? codesWhenRead(column, join) : { ...column, codes: join() };
 }
 
 /** Stands for codes joined only when read. */
 const NO_CODES = new Uint32Array(0);
 
-/** The parts' codes in the joined dictionary (`maps`), in one array; `reuse`: filled on in the first part's. */
-function joinCodes(parts: readonly TextColumn[], maps: readonly CodeMap[], rowCounts: readonly number[], reuse: boolean): Uint32Array {
+/**
+ * The parts' codes in the joined dictionary (`maps`, `distinct` values), in one array; `reuse`:
+ * filled on in the first part's, when they are wide enough for the joined dictionary.
+ */
+function joinCodes(parts: readonly TextColumn[], maps: readonly CodeMap[], rowCounts: readonly number[], reuse: boolean, distinct: number): Codes {
   const rows = sum(rowCounts);
-  const inPlace = reuse ? withRoomFor(parts[0]!.codes, rows) : null;
-  const codes = inPlace ?? new Uint32Array(rows);
+  const inPlace = reuse ? inPlaceCodes(parts[0]!.codes, rows, distinct) : null;
+  const codes = inPlace ?? codesFor(rows, distinct);
   let offset = 0;
   parts.forEach((part, k) => {
     const map = maps[k]!;
@@ -438,15 +441,15 @@ function joinPackedAscending(columns: readonly Column[], rowCounts: readonly num
     byteBase += valueBytesOf(pack);
   });
   starts[distinct] = byteBase;
-  const join = (): Uint32Array => joinAscendingCodes(parts, rowCounts, mode.reuse);
+  const join = (): Codes => joinAscendingCodes(parts, rowCounts, mode.reuse, distinct);
   const column = withPackedValues({ kind: 'text', name: parts[0]!.name, length: rows, codes: mode.later ? NO_CODES : join(), counts }, { bytes, starts, ascending: true });
   return mode.later ? codesWhenRead(column, join) : column;
 }
 
 /** The parts' codes, each part's after the codes of the parts before it. */
-function joinAscendingCodes(parts: readonly TextColumn[], rowCounts: readonly number[], reuse: boolean): Uint32Array {
-  const inPlace = reuse ? withRoomFor(parts[0]!.codes, sum(rowCounts)) : null;
-  const codes = inPlace ?? new Uint32Array(sum(rowCounts));
+function joinAscendingCodes(parts: readonly TextColumn[], rowCounts: readonly number[], reuse: boolean, distinct: number): Codes {
+  const inPlace = reuse ? inPlaceCodes(parts[0]!.codes, sum(rowCounts), distinct) : null;
+  const codes = inPlace ?? codesFor(sum(rowCounts), distinct);
   let offset = 0;
   let base = 0;
   parts.forEach((part, k) => {
@@ -458,8 +461,13 @@ function joinAscendingCodes(parts: readonly TextColumn[], rowCounts: readonly nu
   return codes;
 }
 
+/** The first part's codes, to be filled on with the others', when they have room for `rows` and are wide enough for `distinct` values. */
+function inPlaceCodes(codes: Codes, rows: number, distinct: number): Codes | null {
+  return distinct <= valuesHeldBy(codes) ? withRoomFor(codes, rows) : null;
+}
+
 /** codes[offset + row] = from[row] + base for the part's rows. */
-function shiftCodes(from: Uint32Array, rows: number, base: number, codes: Uint32Array, offset: number): void {
+function shiftCodes(from: Codes, rows: number, base: number, codes: Codes, offset: number): void {
   for (let row = 0; row < rows; row++) codes[offset + row] = from[row]! + base;
 }
 

@@ -20,7 +20,7 @@
  * (while there are at most JOINT_PIECES_LIMIT), so the row loop copies one piece where it would
  * copy several small ones (the dozen categorical columns of a survey export become four pieces).
  */
-import { cellText, type Column, type PackedTexts } from './columns.ts';
+import { cellText, type Codes, type Column, type PackedTexts } from './columns.ts';
 import { numberCell, textCell } from './csv-cell.ts';
 import type { EncodedBatch } from './apply.ts';
 import { ALL_ZEROS, type CategoricalPlan, type Plan } from './plan.ts';
@@ -504,7 +504,7 @@ function numberPieceOfRow(values: Float64Array, missing: Uint8Array, numbers: Nu
 
 /** Rows of one code hold the same number and missing flag, so each code is looked up once. */
 function codedNumberPieceOfRow(
-  codes: Uint32Array, values: Float64Array, missing: Uint8Array, numbers: NumberPieces, rows: number, pieceOf: Int32Array, w: number, n: number,
+  codes: Codes, values: Float64Array, missing: Uint8Array, numbers: NumberPieces, rows: number, pieceOf: Int32Array, w: number, n: number,
 ): void {
   const pieceOfCode = new Int32Array(maxOf(codes, rows) + 1);
   for (let r = 0, i = w; r < rows; r++, i += n) {
@@ -518,7 +518,7 @@ function codedNumberPieceOfRow(
   }
 }
 
-function maxOf(codes: Uint32Array, rows: number): number {
+function maxOf(codes: Codes, rows: number): number {
   let max = 0;
   for (let r = 0; r < rows; r++) if (codes[r]! > max) max = codes[r]!;
   return max;

@@ -17,6 +17,36 @@ function textsOf(column: Column): string[] {
 }
 
 describe('dictionary storage', () => {
+  it('codes take one byte a cell up to 256 values, two up to 65,536, four beyond, and give back every cell', () => {
+    const cases = [
+      { distinct: 3, width: Uint8Array },
+      { distinct: 256, width: Uint8Array },
+      { distinct: 257, width: Uint16Array },
+      { distinct: 65_536, width: Uint16Array },
+      { distinct: 65_537, width: Uint32Array },
+    ];
+    for (const { distinct, width } of cases) {
+      // Each value twice, the second time in another order, so codes repeat: v0 v1 … then v1 v0 ….
+      const values = Array.from({ length: distinct }, (_, i) => `v${i}`);
+      const cells = [...values, ...values.map((_, i) => values[(i + 1) % distinct]!)];
+      const one = build(cells, 1 << 20) as TextColumn;
+      expect(one.codes).toBeInstanceOf(width);
+      expect(one.values).toHaveLength(distinct);
+      expect(textsOf(one)).toEqual(cells);
+      // The same cells read from a file: a block at a time, ascending runs included (v0 < v1 < … by bytes only in part).
+      const read = readTable(encodeUtf8(`x\n${cells.join('\n')}\n`), { dictionaryCap: 1 << 20 }).table.columns[0] as TextColumn;
+      expect(read.codes).toBeInstanceOf(width);
+      expect(textsOf(read)).toEqual(cells);
+    }
+  });
+
+  it('an ascending identifier read a block at a time past the cap widens its codes before the run needs them', () => {
+    const ids = Array.from({ length: 70_000 }, (_, i) => `ID-${String(i).padStart(6, '0')}`);
+    const read = readTable(encodeUtf8(`id\n${ids.join('\n')}\n`), { dictionaryCap: 16 }).table.columns[0] as TextColumn;
+    expect(read.codes).toBeInstanceOf(Uint32Array);
+    expect(textsOf(read)).toEqual(ids);
+  });
+
   it('stores codes, distinct values in order of first appearance, and counts', () => {
     const column = build(['red', 'blue', 'red', '', 'red', 'blue']) as TextColumn;
     expect(column.kind).toBe('text');

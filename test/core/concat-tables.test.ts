@@ -32,7 +32,7 @@ function joinedAndWhole(cells: readonly string[], cuts: readonly number[], cap: 
 /** A column's storage, capacity left out, for exact comparison. */
 function storageOf(column: Column): unknown {
   if (column.kind === 'text') {
-    return { kind: 'text', values: column.values, counts: column.counts, codes: Array.from(column.codes.subarray(0, column.length)) };
+    return { kind: 'text', values: column.values, counts: column.counts, codes: Array.from(column.codes.subarray(0, column.length)), bytesPerCode: column.codes.BYTES_PER_ELEMENT };
   }
   return {
     kind: 'number',
@@ -70,6 +70,22 @@ describe('concatTables: dictionary + dictionary', () => {
     expect(text(joined).values).toEqual(['H-01', 'H-02', 'H-03', 'H-04']);
     expect(Array.from(text(joined).codes)).toEqual([0, 1, 2, 3]);
     sameAsWhole(joined, whole);
+  });
+
+  it('codes one byte wide in the first part, two in the join, when the values outgrow 256 there; in place or not', () => {
+    // 300 values, each twice, in an order that is not ascending: the first part holds 200 of them.
+    const cells = Array.from({ length: 600 }, (_, i) => `v${(i * 7) % 300}`);
+    const { parts, joined, whole } = joinedAndWhole(cells, [200], 1000);
+    expect(text(parts[0]!).codes).toBeInstanceOf(Uint8Array);
+    expect(text(joined).codes).toBeInstanceOf(Uint16Array);
+    expect(text(joined).values).toHaveLength(300);
+    sameAsWhole(joined, whole);
+    sameAsWhole(concatTables(parts, { dictionaryCap: 1000, reuseFirst: true }), whole);
+    // Under 256 values in all, the first part's one-byte codes are filled on in place.
+    const few = joinedAndWhole(cells.map((cell) => cell.slice(0, 3)), [200], 1000);
+    const inPlace = concatTables(few.parts, { dictionaryCap: 1000, reuseFirst: true });
+    expect(text(inPlace).codes.buffer).toBe(text(few.parts[0]!).codes.buffer);
+    sameAsWhole(inPlace, few.whole);
   });
 
   it('past the cap in the second part with numbers: number storage, as the whole read chooses', () => {
