@@ -138,7 +138,7 @@ function codesWhenRead(column: TextColumn, join: () => Codes): TextColumn {
  * `array` itself, seen over all of its buffer from where it starts, when that holds `rows` entries
  * (a reader's storage is made larger than its rows; `lineOfRow` is a view of its first rows).
  */
-function withRoomFor<A extends Uint32Array | Uint16Array | Float64Array | Uint8Array>(array: A, rows: number): A | null {
+function withRoomFor<A extends Uint32Array | Uint16Array | Int32Array | Float64Array | Uint8Array>(array: A, rows: number): A | null {
   if (!(array.buffer instanceof ArrayBuffer)) return null;
   const room = Math.floor((array.buffer.byteLength - array.byteOffset) / array.BYTES_PER_ELEMENT);
   if (room < rows) return null;
@@ -428,15 +428,19 @@ function joinPackedAscending(columns: readonly Column[], rowCounts: readonly num
   const rows = sum(rowCounts);
   const distinct = sum(parts.map((part) => part.counts.length));
   const counts = new Array<number>(distinct);
-  const bytes = new Uint8Array(sum(packs.map((pack) => valueBytesOf(pack))));
-  const starts = new Int32Array(distinct + 1);
+  const totalBytes = sum(packs.map((pack) => valueBytesOf(pack)));
+  // With reuseFirst, filled on in the first part's storage, which a reader made for the whole file
+  // (~14 MB for a million identifiers that need not be written afresh).
+  const inPlace = mode.reuse ? packInPlace(packs[0]!, totalBytes, distinct) : null;
+  const bytes = inPlace?.bytes ?? new Uint8Array(totalBytes);
+  const starts = inPlace?.starts ?? new Int32Array(distinct + 1);
   let base = 0;
   let byteBase = 0;
   parts.forEach((part, k) => {
     const pack = packs[k]!;
     const values = part.counts.length;
     appendValues(part.counts, pack.starts, base, byteBase, counts, starts);
-    bytes.set(pack.bytes.subarray(pack.starts[0]!, pack.starts[values]!), byteBase);
+    if (!(k === 0 && inPlace !== null)) bytes.set(pack.bytes.subarray(pack.starts[0]!, pack.starts[values]!), byteBase);
     base += values;
     byteBase += valueBytesOf(pack);
   });
@@ -478,6 +482,14 @@ function appendValues(partCounts: readonly number[], partStarts: Int32Array, bas
     counts[base + code] = partCounts[code] ?? 0;
     starts[base + code] = byteBase + partStarts[code]! - first;
   }
+}
+
+/** The first part's bytes and starts seen over `totalBytes` and `distinct` values, when its storage has room for them. */
+function packInPlace(pack: PackedTexts, totalBytes: number, distinct: number): { bytes: Uint8Array; starts: Int32Array } | null {
+  if (pack.starts[0] !== 0) return null;
+  const bytes = withRoomFor(pack.bytes, totalBytes);
+  const starts = withRoomFor(pack.starts, distinct + 1);
+  return bytes === null || starts === null ? null : { bytes: bytes.subarray(0, totalBytes), starts: starts.subarray(0, distinct + 1) };
 }
 
 function valueBytesOf(pack: PackedTexts): number {

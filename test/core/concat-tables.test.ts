@@ -134,6 +134,29 @@ describe('concatTables: dictionary + dictionary', () => {
   });
 });
 
+describe('concatTables: identifiers kept as bytes', () => {
+  it('in ascending order, joined in the first part\'s storage when its reader made room for the whole file (reuseFirst)', () => {
+    const ids = Array.from({ length: 30_000 }, (_, i) => `ID-${String(i).padStart(5, '0')}`);
+    const csv = (rows: readonly string[]): Uint8Array => new TextEncoder().encode(`id\n${rows.join('\n')}\n`);
+    const whole = readTable(csv(ids), { packValues: true }).table;
+    // The first part's reader is told the whole file's size, as the first thread's is.
+    const first = readTable(csv(ids.slice(0, 18_000)), { packValues: true, totalBytes: csv(ids).length }).table;
+    const second = rebaseRows(readTable(csv(ids.slice(18_000)), { packValues: true }).table, 18_000, 18_000);
+    const firstPack = text(first).packed!;
+    for (const reuseFirst of [false, true]) {
+      const joined = concatTables([first, second], { reuseFirst });
+      const pack = text(joined).packed!;
+      expect(pack.ascending).toBe(true);
+      expect(pack.bytes.buffer === firstPack.bytes.buffer && pack.starts.buffer === firstPack.starts.buffer).toBe(reuseFirst);
+      expect(Array.from({ length: 30_000 }, (_, row) => cellText(joined.columns[0]!, row))).toEqual(ids);
+      expect(text(joined).values).toEqual(text(whole).values);
+      expect(text(joined).counts).toEqual(text(whole).counts);
+    }
+    // The first part's own cells are as they were.
+    expect(Array.from({ length: 18_000 }, (_, row) => cellText(first.columns[0]!, row))).toEqual(ids.slice(0, 18_000));
+  });
+});
+
 describe('concatTables: numbers + numbers', () => {
   it('values concatenated, exceptions moved by the rows before, fixed decimals joined', () => {
     // Cap 2. Part 0: 1 2.50 3 n/a → numbers ('3' passes the cap). Part 1: 134.00 7 '' 007 8 → numbers.
