@@ -85,6 +85,10 @@ export function createSession(post: Post): Session {
     async open(request, context) {
       const version = nextVersion++;
       const missingTokens = request.missingTokens ?? DEFAULT_MISSING_TOKENS;
+      // A chosen file's fingerprint is read (two small slices) while the file itself is: after the
+      // read it would be two more trips to the browser before the summary.
+      const early = request.source.kind === 'file' ? fingerprintFile(request.source.file, request.source.file.name) : null;
+      early?.catch(() => undefined); // a read that fails reports its own error
       const read = await readSource(request.source, {
         delimiter: request.delimiter ?? null,
         ...(request.maxBytes === undefined ? {} : { maxBytes: request.maxBytes }),
@@ -95,7 +99,7 @@ export function createSession(post: Post): Session {
         onProfiling: () => context.progress('profiling', 0, null),
       });
       const { table } = read.read;
-      const fingerprint = await fingerprintFile(read.file, read.fileName);
+      const fingerprint = await (early ?? fingerprintFile(read.file, read.fileName));
       let profiles: OpenedTable['profiles'] = [];
       let draft: Recipe | null = null;
       if (request.draft) {
