@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { countOnGrid, type GridFacts, type GridRuns } from '../../src/core/number-grid.ts';
+import { sortedRuns } from './helpers/sorted-runs.ts';
 
 /** countOnGrid over `values` with the facts a caller's pass finds; `leftOut` marks cells not counted. */
 function gridOf(values: readonly number[], leftOut: readonly number[] = []): GridRuns | null {
@@ -22,20 +23,6 @@ function factsOf(numbers: readonly number[]): GridFacts {
 
 function plain(runs: GridRuns | null): { values: number[]; counts: number[] } | null {
   return runs === null ? null : { values: [...runs.values.subarray(0, runs.length)], counts: [...runs.counts.subarray(0, runs.length)] };
-}
-
-/** The reference: every number sorted (Float64Array sort puts -0 before 0) and walked as runs; a run takes its first value. */
-function sortedRuns(numbers: readonly number[]): { values: number[]; counts: number[] } {
-  const runs: { values: number[]; counts: number[] } = { values: [], counts: [] };
-  for (const v of Float64Array.from(numbers).sort()) {
-    const last = runs.values.length - 1;
-    if (last >= 0 && runs.values[last] === v) runs.counts[last]!++;
-    else {
-      runs.values.push(v);
-      runs.counts.push(1);
-    }
-  }
-  return runs;
 }
 
 describe('countOnGrid', () => {

@@ -2,24 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { NumberTally } from '../../src/core/number-tally.ts';
 import { sortNumbers } from '../../src/core/sort-numbers.ts';
-
-/**
- * The reference: counts by sorting every number and walking the runs (Float64Array sort puts -0
- * before 0, and a run takes its first value, so a run of zeros is -0 when any -0 is in it).
- */
-function referenceRuns(values: readonly number[]): { values: number[]; counts: number[] } {
-  const sorted = Float64Array.from(values).sort();
-  const runs: { values: number[]; counts: number[] } = { values: [], counts: [] };
-  for (const v of sorted) {
-    const last = runs.values.length - 1;
-    if (last >= 0 && runs.values[last] === v) runs.counts[last]!++;
-    else {
-      runs.values.push(v);
-      runs.counts.push(1);
-    }
-  }
-  return runs;
-}
+import { sortedRuns } from './helpers/sorted-runs.ts';
 
 function tallyOf(values: readonly number[]): NumberTally {
   const tally = new NumberTally();
@@ -38,7 +21,7 @@ describe('NumberTally', () => {
     fc.assert(
       fc.property(cellNumbers, (values) => {
         const runs = tallyOf(values).runs(sortNumbers);
-        const expected = referenceRuns(values);
+        const expected = sortedRuns(values);
         expect(Array.from(runs.values)).toEqual(expected.values);
         expect(Array.from(runs.counts)).toEqual(expected.counts);
         expect(runs.length).toBe(expected.values.length);
