@@ -7,6 +7,9 @@
  * (bench/README.md, "In the page"). Packed, a run of levels is one string and two typed arrays:
  * a few milliseconds to receive, almost nothing to collect. The page needs the objects only when a
  * decision refits that column (core `decide` reads `profile.levels`), so they are built then, once.
+ * An identifier's levels, read as ASCII bytes, travel as those bytes (moved, not copied) and become
+ * a string only then too: making and sending a 10 MB string for a million identifiers took the
+ * worker ~80 ms in a trace, between the file read and its summary shown.
  */
 import type { ColumnProfile, LevelCount, LevelSource } from '../core/profile.ts';
 import { utf8Text } from '../core/utf8-text.ts';
@@ -18,15 +21,33 @@ export const RUN_LEVELS = 1 << 16;
 /** …or once its text passes this many UTF-16 code units, so no run's string grows huge. */
 export const RUN_TEXT_UNITS = 1 << 24;
 
-/** Levels end to end: level i is `lengths[i]` code units of `text`, counted `counts[i]` times. */
-export interface PackedLevels {
-  readonly text: string;
+/** Levels end to end: level i is `lengths[i]` code units of the run's text, counted `counts[i]` times. */
+interface LevelRun {
   readonly lengths: Uint32Array;
   readonly counts: Float64Array;
 }
 
+/** A run whose text is a string. */
+export interface TextLevels extends LevelRun {
+  readonly text: string;
+}
+
+/** A run of ASCII levels whose text is still its bytes, one byte a code unit. */
+export interface AsciiLevels extends LevelRun {
+  readonly ascii: Uint8Array<ArrayBuffer>;
+}
+
+export type PackedLevels = TextLevels | AsciiLevels;
+
+/** The buffers of a run, to move rather than copy to the page. */
+export function runBuffers(run: PackedLevels): ArrayBuffer[] {
+  const buffers: ArrayBuffer[] = [run.lengths.buffer as ArrayBuffer, run.counts.buffer as ArrayBuffer];
+  if ('ascii' in run) buffers.push(run.ascii.buffer);
+  return buffers;
+}
+
 /** Splits `levels` into packed runs, in order. */
-export function packLevels(levels: readonly LevelCount[]): PackedLevels[] {
+export function packLevels(levels: readonly LevelCount[]): TextLevels[] {
   return runsOf(levels.length, (i) => levels[i]!.value.length).map(([start, end]) => {
     // Plain loops into arrays made once: the mapping forms of Array/TypedArray.from cost several
     // times as much on a million levels.
@@ -72,7 +93,7 @@ function runsOf(count: number, unitsOf: (i: number) => number): [number, number]
   return runs;
 }
 
-function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8Array, starts: Int32Array): PackedLevels {
+function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8Array, starts: Int32Array): AsciiLevels {
   const lengths = new Uint32Array(codes.length);
   const levelCounts = new Float64Array(codes.length);
   let units = 0;
@@ -86,8 +107,8 @@ function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8
     units += lengths[i]!;
     if (i > 0 && code !== codes[i - 1]! + 1) consecutive = false;
   }
-  // ASCII: one decode of the run's bytes gives one UTF-16 unit per byte.
-  if (consecutive && codes.length > 0) return { text: utf8Text(bytes, starts[codes[0]!]!, starts[codes[0]!]! + units), lengths, counts: levelCounts };
+  // A copy: the column's bytes stay here.
+  if (consecutive && codes.length > 0) return { ascii: bytes.slice(starts[codes[0]!]!, starts[codes[0]!]! + units), lengths, counts: levelCounts };
   const text = new Uint8Array(units);
   let at = 0;
   // A byte at a time: values are short, and a subarray per value cost more than its copy.
@@ -96,12 +117,15 @@ function runFromBytes(codes: Int32Array, counts: readonly number[], bytes: Uint8
     const end = from + lengths[i]!;
     for (let b = from; b < end; b++) text[at++] = bytes[b]!;
   }
-  return { text: utf8Text(text, 0, text.length), lengths, counts: levelCounts };
+  return { ascii: text, lengths, counts: levelCounts };
 }
 
 export function unpackLevels(runs: readonly PackedLevels[]): LevelCount[] {
   const levels: LevelCount[] = [];
-  for (const { text, lengths, counts } of runs) {
+  for (const run of runs) {
+    const { lengths, counts } = run;
+    // ASCII: one decode of the run's bytes gives one UTF-16 unit per byte.
+    const text = 'text' in run ? run.text : utf8Text(run.ascii, 0, run.ascii.length);
     let at = 0;
     for (let i = 0; i < lengths.length; i++) {
       const end = at + lengths[i]!;

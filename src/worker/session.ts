@@ -15,7 +15,7 @@ import { compilePlan, type Plan } from '../core/plan.ts';
 import { levelCount, levelSourceOf, profileTable, withField, type ColumnProfile } from '../core/profile.ts';
 import { DEFAULT_MISSING_TOKENS, type Recipe } from '../core/recipe.ts';
 import { fingerprintFile } from './fingerprint.ts';
-import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, type PackedLevels } from './packed-levels.ts';
+import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, runBuffers, type PackedLevels } from './packed-levels.ts';
 import {
   Cancelled,
   type CallKind,
@@ -210,7 +210,7 @@ export function createSession(post: Post): Session {
       progress: throttledProgress((phase, done, total) => post({ type: 'progress', id: message.id, phase, done, total })),
       chunk: (bytes) => post({ type: 'chunk', id: message.id, bytes }, [bytes.buffer]),
       blob: (blob) => post({ type: 'blob', id: message.id, blob }),
-      levels: (column, levels) => post({ type: 'levels', id: message.id, column, levels }, [levels.lengths.buffer, levels.counts.buffer]),
+      levels: (column, levels) => post({ type: 'levels', id: message.id, column, levels }, runBuffers(levels)),
     };
     try {
       // The handler table is keyed by message type; TypeScript cannot narrow the pair, hence the cast.

@@ -10,7 +10,7 @@ import { levelSourceOf, profileColumn, profileTable } from '../../src/core/profi
 import { readTable } from '../../src/core/read-table.ts';
 import { WorkbenchClient } from '../../src/worker/client.ts';
 import { createInPagePort } from '../../src/worker/in-page-port.ts';
-import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, RUN_LEVELS, RUN_TEXT_UNITS, unpackLevels, withPackedLevels, type PackedLevels } from '../../src/worker/packed-levels.ts';
+import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, RUN_LEVELS, RUN_TEXT_UNITS, runBuffers, unpackLevels, withPackedLevels, type PackedLevels } from '../../src/worker/packed-levels.ts';
 import type { FromWorker } from '../../src/worker/protocol.ts';
 import { createSession, sendLongLevelsAhead } from '../../src/worker/session.ts';
 import { textColumnsOf } from '../helpers/text-columns.ts';
@@ -86,6 +86,7 @@ describe('opening a file with a column of many distinct values', () => {
     });
     session.receive({ type: 'open', id: 1, slot: 'work', source: { kind: 'file', file: new File([csv], 'ids.csv') }, draft: true });
     await expect.poll(() => transfers.length, { timeout: 20_000 }).toBe(1);
+    // Lengths and counts: a file this small is read on one thread, its ids made strings as read.
     expect(transfers).toEqual([2]);
   });
 });
@@ -98,7 +99,12 @@ describe('packing level lists kept as bytes', () => {
         const profile = profileColumn(textColumnsOf(cells).bytes, 0);
         const source = levelSourceOf(profile);
         expect(source).not.toBeNull();
-        expect(packLevelsFromBytes(source!)).toEqual(packLevels(profile.levels ?? []));
+        const fromBytes = packLevelsFromBytes(source!);
+        const fromLevels = packLevels(profile.levels ?? []);
+        expect(fromBytes.map(({ lengths, counts }) => ({ lengths, counts }))).toEqual(fromLevels.map(({ lengths, counts }) => ({ lengths, counts })));
+        // The same text, still as its ASCII bytes.
+        expect(fromBytes.map((run) => ('ascii' in run ? new TextDecoder().decode(run.ascii) : run.text))).toEqual(fromLevels.map((run) => run.text));
+        expect(unpackLevels(fromBytes)).toEqual(profile.levels);
       }),
     );
   });
@@ -117,5 +123,8 @@ describe('packing level lists kept as bytes', () => {
     // Runs of RUN_LEVELS levels: 65,536, then 4,464.
     expect(sent.map((run) => run.lengths.length)).toEqual([RUN_LEVELS, 70_000 - RUN_LEVELS]);
     expect(unpackLevels(sent)).toEqual(cells.map((value) => ({ value, count: 1 })));
+    // No string made here: the runs carry the bytes, moved to the page with the typed arrays.
+    expect(sent.every((run) => 'ascii' in run && run.ascii.length === run.lengths.reduce((a, b) => a + b, 0))).toBe(true);
+    expect(runBuffers(sent[0]!)).toHaveLength(3);
   });
 });
