@@ -53,10 +53,8 @@ export class ColumnBuilder {
   private readonly cap: number;
   private length = 0;
   // Dictionary storage, emptied once the column holds numbers.
-  /** As narrow as the values so far allow (columns.ts Codes), widened as they come. */
+  /** As narrow as the values so far allow (columns.ts Codes), widened as they come (widenedCodes). */
   private codes: Codes;
-  /** How many values `codes` can tell apart. */
-  private codesHold: number;
   /** The values' strings; undefined until `build` for those read as bytes (see valueTexts). */
   private values: (string | undefined)[] = [];
   private counts: Uint32Array<ArrayBuffer>;
@@ -105,7 +103,6 @@ export class ColumnBuilder {
     this.counts = new Uint32Array(distinct + 1);
     this.valueStart = new Int32Array(distinct + 1);
     this.codes = codesFor(Math.max(INITIAL_CAPACITY, expected?.rows ?? 0), expected?.distinct ?? 0);
-    this.codesHold = valuesHeldBy(this.codes);
     if (expected?.numbers === true) {
       this.pastCap = true;
       this.numbers = new Float64Array(this.codes.length);
@@ -201,7 +198,7 @@ export class ColumnBuilder {
     const values = this.values;
     let count = values.length;
     if (this.codes.length < this.length + rows) this.codes = resized(this.codes, roomFor(this.codes.length, this.length + rows));
-    if (count + rows > this.codesHold) this.widenCodes(count + rows);
+    this.codes = widenedCodes(this.codes, count + rows);
     if (this.counts.length <= count + rows) {
       const room = roomFor(this.counts.length, count + rows + 1);
       this.counts = resized(this.counts, room);
@@ -364,7 +361,7 @@ export class ColumnBuilder {
 
   private addValue(bytes: Uint8Array, start: number, end: number, text: string | null): number {
     const code = this.values.length;
-    if (code === this.codesHold) this.widenCodes(code + 1);
+    if (code === valuesHeldBy(this.codes)) this.codes = widenedCodes(this.codes, code + 1);
     const length = end - start;
     this.values.push(text ?? undefined);
     if (code + 1 >= this.counts.length) {
@@ -384,12 +381,6 @@ export class ColumnBuilder {
     this.valueStart[code + 1] = stored + length;
     if (!this.pastCap) this.countNumber(bytes, start, end);
     return code;
-  }
-
-  /** Codes wide enough for `distinct` values. */
-  private widenCodes(distinct: number): void {
-    this.codes = widenedCodes(this.codes, distinct);
-    this.codesHold = valuesHeldBy(this.codes);
   }
 
   /** Counts a new value that is not a number, and at the cap decides the column's storage. */

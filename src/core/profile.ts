@@ -806,21 +806,22 @@ function readExceptionNumbers(texts: readonly LevelCount[], read: NumberReader):
  * comma-decimal format (`decimalComma`) only the plain whole numbers count: "2.5" does not read.
  */
 function numberRuns(plain: GridRuns | NumberTally | Float64Array, plainCount: number, decimalComma: boolean, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
-  if (!(plain instanceof NumberTally) && !(plain instanceof Float64Array)) {
-    const counted = decimalComma ? wholeRuns(plain) : plain;
-    const others = exceptions.values.length === 0 ? null : runsFromPairs(exceptions.values, exceptions.counts);
-    return { runs: others === null ? counted : mergeRuns(counted, others), distinctPlain: counted.length };
-  }
   if (plain instanceof NumberTally) {
     const counted = decimalComma ? wholeNumbersOf(plain) : plain;
     const distinctPlain = counted.distinct;
     for (let i = 0; i < exceptions.values.length; i++) counted.add(exceptions.values[i]!, exceptions.counts[i]!);
     return { runs: counted.runs(sortNumbers), distinctPlain };
   }
-  const valid = decimalComma ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
-  sortNumbers(valid);
-  const distinctPlain = countDistinctSorted(valid);
-  return { runs: runsFromSorted(mergeSorted(valid, expanded(exceptions))), distinctPlain };
+  if (plain instanceof Float64Array) {
+    const valid = decimalComma ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
+    sortNumbers(valid);
+    const distinctPlain = countDistinctSorted(valid);
+    return { runs: runsFromSorted(mergeSorted(valid, expanded(exceptions))), distinctPlain };
+  }
+  // Counted on a grid: already runs, ascending.
+  const counted = decimalComma ? wholeRuns(plain) : plain;
+  const others = exceptions.values.length === 0 ? null : runsFromPairs(exceptions.values, exceptions.counts);
+  return { runs: others === null ? counted : mergeRuns(counted, others), distinctPlain: counted.length };
 }
 
 /** The runs of whole numbers among `runs`. */

@@ -23,8 +23,8 @@ export const RUN_TEXT_UNITS = 1 << 24;
 
 /** Levels end to end: level i is `lengths[i]` code units of the run's text, counted `counts[i]` times. */
 interface LevelRun {
-  readonly lengths: Uint32Array;
-  readonly counts: Float64Array;
+  readonly lengths: Uint32Array<ArrayBuffer>;
+  readonly counts: Float64Array<ArrayBuffer>;
 }
 
 /** A run whose text is a string. */
@@ -41,7 +41,7 @@ export type PackedLevels = TextLevels | AsciiLevels;
 
 /** The buffers of a run, to move rather than copy to the page. */
 export function runBuffers(run: PackedLevels): ArrayBuffer[] {
-  const buffers: ArrayBuffer[] = [run.lengths.buffer as ArrayBuffer, run.counts.buffer as ArrayBuffer];
+  const buffers = [run.lengths.buffer, run.counts.buffer];
   if ('ascii' in run) buffers.push(run.ascii.buffer);
   return buffers;
 }
