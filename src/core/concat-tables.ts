@@ -92,15 +92,6 @@ function buffersOf(array: Uint32Array): Set<ArrayBuffer> {
   return new Set(array.buffer instanceof ArrayBuffer ? [array.buffer] : []);
 }
 
-/**
- * One column of consecutive parts joined, exactly as concatTables joins it (`rowCounts`: the
- * parts' rows): for a column joined on another thread, on its own. The parts are not changed.
- */
-export function concatColumns(parts: readonly Column[], rowCounts: readonly number[], options: Pick<ConcatOptions, 'dictionaryCap'> = {}): Column {
-  if (parts.length === 1) return parts[0]!;
-  return joinColumn(parts, rowCounts, options.dictionaryCap ?? DEFAULT_DICTIONARY_CAP, { reuse: false, later: false });
-}
-
 function checkSameNames(parts: readonly Table[]): void {
   const names = parts[0]!.names;
   for (const part of parts) {

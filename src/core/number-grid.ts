@@ -12,13 +12,7 @@
  * key as the very same double (`Math.round(v * scale) / scale === v`), so no two numbers share a key
  * and the runs hold the numbers as read, not numbers rounded to the grid.
  */
-
-/** Distinct numbers ascending, each with how many cells hold it. */
-export interface GridRuns {
-  readonly values: Float64Array;
-  readonly counts: Float64Array;
-  readonly length: number;
-}
+import type { NumberRuns } from './number-runs.ts';
 
 /** The finest grid tried: numbers with more decimals than this are counted by hashing. */
 const MAX_SCALE = 1e6;
@@ -45,7 +39,7 @@ export interface GridFacts {
  * counted), counted on a grid; or null when no grid fits them: a span too wide for their count, or
  * more decimals than MAX_SCALE keeps. `facts` describe the numbers counted.
  */
-export function countOnGrid(values: Float64Array, leftOut: Uint8Array, facts: GridFacts): GridRuns | null {
+export function countOnGrid(values: Float64Array, leftOut: Uint8Array, facts: GridFacts): NumberRuns | null {
   if (facts.count === 0) return null;
   const slotsAllowed = Math.min(MAX_SLOTS, MIN_SLOTS + SLOTS_PER_NUMBER * facts.count);
   const scale = gridScale(values, leftOut, facts, slotsAllowed);
@@ -85,7 +79,7 @@ function onGrid(values: Float64Array, leftOut: Uint8Array, scale: number): boole
   return true;
 }
 
-function runsOfSlots(counts: Int32Array, first: number, scale: number, negativeZero: boolean): GridRuns {
+function runsOfSlots(counts: Int32Array, first: number, scale: number, negativeZero: boolean): NumberRuns {
   let length = 0;
   for (let slot = 0; slot < counts.length; slot++) if (counts[slot] !== 0) length++;
   const values = new Float64Array(length);

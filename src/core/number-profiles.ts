@@ -18,10 +18,11 @@
  * How a request reaches a thread is the caller's (a `NumberPartsProfiler` each); what the thread
  * does with it is `profileNumberParts`.
  */
-import { columnBuffers, type NumberColumn, type Table } from './columns.ts';
-import { concatColumns } from './concat-tables.ts';
+import type { NumberColumn, Table } from './columns.ts';
+import { missingNumbers } from './missing.ts';
+import { countNumberCells, joinNumberCells } from './number-cells.ts';
 import { releaseBuffer } from './release-buffers.ts';
-import { profileColumn, profileTableSharing, type ColumnProfile, type ProfileOptions } from './profile.ts';
+import { profileNumberCells, profileTableSharing, withInvalidExamples, type ColumnProfile, type ProfileOptions } from './profile.ts';
 
 /** One number column's parts, in file order, with the rows each holds. */
 export interface NumberPartsRequest {
@@ -37,18 +38,25 @@ export type NumberPartsProfiler = (request: NumberPartsRequest) => Promise<Colum
 
 /**
  * What the other thread answers: profileColumn of the parts joined as the table's column is joined.
- * With `releaseParts` (the parts are copies made for this request, as requestBuffers sends them),
- * their storage is given back once joined, so that the column is not held twice while it is
- * profiled (9 MB for a million numbers), and the joined column's once profiled. The request must
- * not be used afterwards.
+ * Each part is counted on its own and the counts added (number-cells.ts), so the parts are never
+ * joined into one column here: no second copy of a million numbers while they are profiled. With
+ * `releaseParts` (the parts are copies made for this request, as requestBuffers sends them), their
+ * storage is given back once profiled. The request must not be used afterwards.
  */
 export function profileNumberParts(request: NumberPartsRequest, releaseParts = false): ColumnProfile {
-  const column = concatColumns(request.parts, request.rowCounts);
-  if (!releaseParts) return profileColumn(column, request.index, request.options);
-  if (request.parts.length > 1) for (const buffer of requestBuffers(request)) releaseBuffer(buffer);
-  const profile = profileColumn(column, request.index, request.options);
-  // The joined column was made here, for this profile alone (or is the one part, a copy too).
-  for (const buffer of columnBuffers(column)) releaseBuffer(buffer);
+  const { parts, rowCounts, index, options } = request;
+  // Each part's cells are its first rowCounts[k] rows.
+  const columns = parts.map((part, k) => (part.length === rowCounts[k] ? part : { ...part, length: rowCounts[k]! }));
+  const codedMissing = missingNumbers(options.missingTokens);
+  const firstRows: number[] = [];
+  let rows = 0;
+  for (const count of rowCounts) {
+    firstRows.push(rows);
+    rows += count;
+  }
+  const cells = joinNumberCells(columns.map((column) => countNumberCells(column, codedMissing)), firstRows);
+  const profile = withInvalidExamples(profileNumberCells(cells, { name: columns[0]!.name, index, length: rows }, options), columns, options);
+  if (releaseParts) for (const buffer of requestBuffers(request)) releaseBuffer(buffer);
   return profile;
 }
 

@@ -10,9 +10,8 @@ import { knownSymbolOf } from './number-symbols.ts';
 import { detectNumberFormat, hasLeadingZero, mayStartNumber, numberReader, type NumberReader } from './numbers.ts';
 import { plainValues } from './plain-values.ts';
 import type { NumberFormat } from './recipe.ts';
-import { countOnGrid, type GridRuns } from './number-grid.ts';
-import { NumberTally } from './number-tally.ts';
-import { sortNumbers } from './sort-numbers.ts';
+import { countNumberCells, exceptionRows, type NumberCells, type TextCells } from './number-cells.ts';
+import { mergeRuns, runsFromPairs, wholeRuns, type NumberRuns } from './number-runs.ts';
 
 export interface LevelCount {
   /** Raw cell text exactly as written (not trimmed). */
@@ -583,12 +582,20 @@ function maybeBlank(text: string): boolean {
 // Number columns: one pass over the Float64Array, reading the texts of the cells that keep one.
 
 function profileNumberColumn(column: NumberColumn, index: number, options: ProfileOptions): ColumnProfile {
+  const cells = countNumberCells(column, missingNumbers(options.missingTokens));
+  return withInvalidExamples(profileNumberCells(cells, { name: column.name, index, length: column.length }, options), [column], options);
+}
+
+/**
+ * A number column's profile from its cells counted (number-cells.ts), whole or in parts joined,
+ * without examples of its invalid cells: finding them takes the cells themselves (withInvalidExamples).
+ */
+export function profileNumberCells(cells: NumberCells, column: { readonly name: string; readonly index: number; readonly length: number }, options: ProfileOptions): ColumnProfile {
   const isMissing = missingTest(options.missingTokens);
   const { length } = column;
-  const codedMissing = missingNumbers(options.missingTokens);
-  const { texts, plain, plainCount, plainFractions, emptyCells } = tallyNumberCells(column, codedMissing);
+  const { plain, plainCount, plainFractions, emptyCells } = cells;
 
-  const exceptionTexts = splitByMissing(texts, isMissing);
+  const exceptionTexts = splitByMissing(inFirstRowOrder(cells.texts), isMissing);
   const format = options.format ?? detectNumberFormat([
     ...exceptionTexts.nonMissing,
     // Plain cells speak for point decimals when they have fractions; whole numbers read in any format.
@@ -600,28 +607,18 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   // Plain numbers with a fraction do not read in a comma-decimal format: they become invalid cells.
   const plainInvalid = format.decimal === ',' ? plainFractions : 0;
   const fromExceptions = readExceptionNumbers(exceptionTexts.nonMissing, read);
-  const { runs, distinctPlain } = numberRuns(plain, plainCount, format.decimal === ',', fromExceptions);
+  const { runs, distinctPlain } = numberRuns(plain, format.decimal === ',', fromExceptions);
   const nonMissing = plainCount + sumCounts(exceptionTexts.nonMissing);
   const invalidCount = plainInvalid + fromExceptions.invalidCount;
   const missingSpellings = exceptionTexts.missing;
   if (emptyCells > 0) missingSpellings.push({ value: '', count: emptyCells });
   sortByCountDescending(missingSpellings);
 
-  const numeric =
-    runs.length === 0
-      ? null
-      : summarize(runs, {
-          format,
-          nonMissing,
-          invalidCount,
-          invalidExamples:
-            invalidCount > 0 ? numberColumnInvalidRows(column, codedMissing, read, isMissing, format) : [],
-          leadingZeros: fromExceptions.leadingZeros,
-        });
+  const numeric = runs.length === 0 ? null : summarize(runs, { format, nonMissing, invalidCount, invalidExamples: [], leadingZeros: fromExceptions.leadingZeros });
   const distinct = distinctPlain + exceptionTexts.nonMissing.length;
   return {
     name: column.name,
-    index,
+    index: column.index,
     count: length,
     missing: length - nonMissing,
     missingSpellings,
@@ -638,125 +635,24 @@ function profileNumberColumn(column: NumberColumn, index: number, options: Profi
   };
 }
 
-/** What the one pass over a number column's cells finds (tallyNumberCells). */
-interface NumberCells {
-  /** The cells counted by their text, in the order the texts first appear: exceptions, fixed-decimal cells, coded missing numbers. */
-  readonly texts: Map<string, number>;
-  /**
-   * The other numbers ("plain"): as runs when they fit a grid (number-grid.ts), else counted by
-   * value, or, past the most distinct numbers worth counting (MAX_COUNTED_SHARE), every one of
-   * them in an array, in no particular order.
-   */
-  readonly plain: GridRuns | NumberTally | Float64Array;
-  readonly plainCount: number;
-  /** Plain numbers that are not whole. */
-  readonly plainFractions: number;
-  readonly emptyCells: number;
-}
-
-/** Counted in a hash table up to this share of the cells distinct… */
-const MAX_COUNTED_SHARE = 1 / 8;
-/** …or this many, whichever is more. */
-const MIN_COUNTED = 1024;
-
 /**
- * The one pass over the cells: NaN without text is an empty cell; exceptions, fixed-decimal cells
- * ("134.00") and numbers a missing token spells ("-999") are counted by their text; the others,
- * the plain numbers, are then counted by value (countOnGrid, else countByValue). Fixed-decimal cells are counted
- * by number too, and get their text once per distinct number: a tenth of a column of amounts can
- * be "12.50"s. A function of its own: run once in a command line, it is optimised sooner small than
- * inside the whole profile.
+ * A number column's profile with examples of its invalid cells, in row order, when it has any: a
+ * second look at the cells, stopped at the cap. `parts`: the column profiled, whole or in
+ * consecutive parts (each with its rows numbered from 0).
  */
-function tallyNumberCells(column: NumberColumn, codedMissing: ReadonlySet<number>): NumberCells {
-  const { length, values } = column;
-  /** 1 for a cell counted by its text: the plain numbers are the others that are not NaN. */
-  const byText = exceptionRows(column);
-  const fixed = column.fixedDigits;
-  /** By count of decimals. */
-  const fixedNumbers: NumberTally[] = [];
-  const textCells = new Map<string, TextCells>();
-  let plainCount = 0;
-  let plainFractions = 0;
-  let emptyCells = 0;
-  let min = Infinity;
-  let max = -Infinity;
-  let negativeZero = false;
-  for (let row = 0; row < length; row++) {
-    if (byText[row] === 1) continue; // an exception, counted below
-    const v = values[row]!;
-    if (v !== v) {
-      emptyCells++;
-      continue;
-    }
-    const digits = fixed === null ? 0 : fixed[row]!;
-    if (digits > 0) {
-      (fixedNumbers[digits] ??= new NumberTally()).add(v, 1, row);
-      byText[row] = 1;
-    } else if (codedMissing.size > 0 && codedMissing.has(v)) {
-      countText(textCells, String(v), 1, row); // a plain cell's text
-      byText[row] = 1;
-    } else {
-      plainCount++;
-      if (!Number.isInteger(v)) plainFractions++;
-      if (v < min) min = v;
-      if (v > max) max = v;
-      if (v === 0 && 1 / v < 0) negativeZero = true;
-    }
+export function withInvalidExamples(profile: ColumnProfile, parts: readonly NumberColumn[], options: ProfileOptions): ColumnProfile {
+  const numeric = profile.numeric;
+  if (numeric === null || numeric.invalidCount === 0) return profile;
+  const { format } = numeric;
+  const look = { codedMissing: missingNumbers(options.missingTokens), read: numberReader(format), isMissing: missingTest(options.missingTokens), format };
+  const invalidExamples: { row: number; text: string }[] = [];
+  let firstRow = 0;
+  for (const part of parts) {
+    if (invalidExamples.length >= MAX_INVALID_EXAMPLES) break;
+    numberColumnInvalidRows(part, look, firstRow, invalidExamples);
+    firstRow += part.length;
   }
-  for (const [row, text] of column.exceptions) if (row >= 0 && row < length) countText(textCells, text, 1, row);
-  fixedNumbers.forEach((numbers, digits) => numbers.forEach((v, count, firstRow) => countText(textCells, v.toFixed(digits), count, firstRow)));
-  // The storage may hold room past the column's length.
-  const cells = values.subarray(0, length);
-  const plain = countOnGrid(cells, byText, { min, max, hasFractions: plainFractions > 0, negativeZero, count: plainCount }) ?? countByValue(cells, byText, plainCount);
-  return { texts: inFirstRowOrder(textCells), plain, plainCount, plainFractions, emptyCells };
-}
-
-/**
- * The plain numbers among `values` (not NaN, not marked in `byText`), counted in a hash table; or
- * every one of them in an array when more are distinct than counting pays for.
- */
-function countByValue(values: Float64Array, byText: Uint8Array, plainCount: number): NumberTally | Float64Array {
-  const most = Math.max(MIN_COUNTED, Math.ceil(plainCount * MAX_COUNTED_SHARE));
-  const tally = new NumberTally();
-  for (let row = 0; row < values.length; row++) {
-    const v = values[row]!;
-    if (byText[row] === 1 || v !== v) continue;
-    tally.add(v, 1);
-    if (tally.distinct > most) return plainNumbers(values, byText, plainCount);
-  }
-  return tally;
-}
-
-function plainNumbers(values: Float64Array, byText: Uint8Array, plainCount: number): Float64Array {
-  const plain = new Float64Array(plainCount);
-  let at = 0;
-  for (let row = 0; row < values.length; row++) {
-    const v = values[row]!;
-    if (byText[row] === 0 && v === v) plain[at++] = v;
-  }
-  return plain;
-}
-
-/** 1 for each row of the column's exceptions. */
-function exceptionRows(column: NumberColumn): Uint8Array {
-  const isException = new Uint8Array(column.length);
-  for (const row of column.exceptions.keys()) if (row >= 0 && row < column.length) isException[row] = 1;
-  return isException;
-}
-
-/** The cells of one text, and the first row among them. */
-interface TextCells {
-  count: number;
-  firstRow: number;
-}
-
-function countText(texts: Map<string, TextCells>, text: string, count: number, row: number): void {
-  const known = texts.get(text);
-  if (known === undefined) texts.set(text, { count, firstRow: row });
-  else {
-    known.count += count;
-    known.firstRow = Math.min(known.firstRow, row);
-  }
+  return withNumeric(profile, { ...numeric, invalidExamples });
 }
 
 /** Texts with their cells, in the order of their first rows: the order they appear in the file. */
@@ -801,105 +697,31 @@ function readExceptionNumbers(texts: readonly LevelCount[], read: NumberReader):
 }
 
 /**
- * The runs of a number column's numbers (the plain ones, counted or all in an array, and the
- * exceptions' numbers with their counts), and how many distinct numbers the plain ones are. In a
- * comma-decimal format (`decimalComma`) only the plain whole numbers count: "2.5" does not read.
+ * The runs of a number column's numbers (the plain ones and the exceptions' numbers with their
+ * counts), and how many distinct numbers the plain ones are. In a comma-decimal format
+ * (`decimalComma`) only the plain whole numbers count: "2.5" does not read.
  */
-function numberRuns(plain: GridRuns | NumberTally | Float64Array, plainCount: number, decimalComma: boolean, exceptions: ExceptionNumbers): { runs: Runs; distinctPlain: number } {
-  if (plain instanceof NumberTally) {
-    const counted = decimalComma ? wholeNumbersOf(plain) : plain;
-    const distinctPlain = counted.distinct;
-    for (let i = 0; i < exceptions.values.length; i++) counted.add(exceptions.values[i]!, exceptions.counts[i]!);
-    return { runs: counted.runs(sortNumbers), distinctPlain };
-  }
-  if (plain instanceof Float64Array) {
-    const valid = decimalComma ? keepWholeNumbers(plain.subarray(0, plainCount)) : plain.subarray(0, plainCount);
-    sortNumbers(valid);
-    const distinctPlain = countDistinctSorted(valid);
-    return { runs: runsFromSorted(mergeSorted(valid, expanded(exceptions))), distinctPlain };
-  }
-  // Counted on a grid: already runs, ascending.
+function numberRuns(plain: NumberRuns, decimalComma: boolean, exceptions: ExceptionNumbers): { runs: NumberRuns; distinctPlain: number } {
   const counted = decimalComma ? wholeRuns(plain) : plain;
   const others = exceptions.values.length === 0 ? null : runsFromPairs(exceptions.values, exceptions.counts);
   return { runs: others === null ? counted : mergeRuns(counted, others), distinctPlain: counted.length };
 }
 
-/** The runs of whole numbers among `runs`. */
-function wholeRuns(runs: Runs): Runs {
-  const values = new Float64Array(runs.length);
-  const counts = new Float64Array(runs.length);
-  let length = 0;
-  for (let i = 0; i < runs.length; i++) {
-    if (!Number.isInteger(runs.values[i])) continue;
-    values[length] = runs.values[i]!;
-    counts[length++] = runs.counts[i]!;
-  }
-  return { values: values.subarray(0, length), counts: counts.subarray(0, length), length };
-}
-
-/** Two lists of runs as one, ascending; equal numbers join one run, which is -0 when either is (as a sort puts -0 first). */
-function mergeRuns(a: Runs, b: Runs): Runs {
-  const values = new Float64Array(a.length + b.length);
-  const counts = new Float64Array(a.length + b.length);
-  let i = 0;
-  let j = 0;
-  let n = 0;
-  while (i < a.length || j < b.length) {
-    const x = i < a.length ? a.values[i]! : Infinity;
-    const y = j < b.length ? b.values[j]! : Infinity;
-    if (i < a.length && (j === b.length || x < y)) {
-      values[n] = x;
-      counts[n++] = a.counts[i++]!;
-    } else if (j < b.length && (i === a.length || y < x)) {
-      values[n] = y;
-      counts[n++] = b.counts[j++]!;
-    } else {
-      values[n] = Object.is(x, -0) ? x : y;
-      counts[n++] = a.counts[i++]! + b.counts[j++]!;
-    }
-  }
-  return { values: values.subarray(0, n), counts: counts.subarray(0, n), length: n };
-}
-
-function wholeNumbersOf(tally: NumberTally): NumberTally {
-  const whole = new NumberTally();
-  tally.forEach((value, count, firstRow) => {
-    if (Number.isInteger(value)) whole.add(value, count, firstRow);
-  });
-  return whole;
-}
-
-/** The exceptions' numbers, each as many times as it was counted, sorted. */
-function expanded(exceptions: ExceptionNumbers): Float64Array {
-  let cells = 0;
-  for (let i = 0; i < exceptions.counts.length; i++) cells += exceptions.counts[i]!;
-  const numbers = new Float64Array(cells);
-  let at = 0;
-  for (let i = 0; i < exceptions.values.length; i++) {
-    const count = exceptions.counts[i]!;
-    numbers.fill(exceptions.values[i]!, at, at + count);
-    at += count;
-  }
-  return sortNumbers(numbers);
-}
-
-function keepWholeNumbers(values: Float64Array): Float64Array {
-  return values.filter((v) => Number.isInteger(v));
+/** What tells a number column's invalid cells: the column's missing spellings and its number format. */
+interface InvalidLook {
+  readonly codedMissing: ReadonlySet<number>;
+  readonly read: NumberReader;
+  readonly isMissing: MissingTest;
+  readonly format: NumberFormat;
 }
 
 /**
- * Invalid cells of a number-stored column in row order. A second look at the cells, made only
- * when there are invalid cells, and stopped at the cap. The cells counted by their text
- * (tallyNumberCells) are read from it.
+ * Adds the invalid cells of a number-stored column to `examples` in row order (rows numbered from
+ * `firstRow`), until it holds MAX_INVALID_EXAMPLES. The cells counted by their text
+ * (number-cells.ts) are read from it.
  */
-function numberColumnInvalidRows(
-  column: NumberColumn,
-  codedMissing: ReadonlySet<number>,
-  read: NumberReader,
-  isMissing: MissingTest,
-  format: NumberFormat,
-): { row: number; text: string }[] {
-  const examples: { row: number; text: string }[] = [];
+function numberColumnInvalidRows(column: NumberColumn, look: InvalidLook, firstRow: number, examples: { row: number; text: string }[]): void {
+  const { codedMissing, read, isMissing, format } = look;
   const isException = exceptionRows(column);
   const { values, fixedDigits } = column;
   for (let row = 0; row < column.length && examples.length < MAX_INVALID_EXAMPLES; row++) {
@@ -907,80 +729,9 @@ function numberColumnInvalidRows(
     const countedByText = isException[row] === 1 || (fixedDigits !== null && fixedDigits[row]! > 0 && !Number.isNaN(v)) || (codedMissing.size > 0 && codedMissing.has(v));
     if (countedByText) {
       const text = cellText(column, row);
-      if (!isMissing(text) && Number.isNaN(read(text))) examples.push({ row, text });
-    } else if (format.decimal === ',' && !Number.isNaN(v) && !Number.isInteger(v)) examples.push({ row, text: String(v) });
+      if (!isMissing(text) && Number.isNaN(read(text))) examples.push({ row: firstRow + row, text });
+    } else if (format.decimal === ',' && !Number.isNaN(v) && !Number.isInteger(v)) examples.push({ row: firstRow + row, text: String(v) });
   }
-  return examples;
-}
-
-function countDistinctSorted(sorted: Float64Array): number {
-  let distinct = 0;
-  for (let i = 0; i < sorted.length; i++) if (i === 0 || sorted[i] !== sorted[i - 1]) distinct++;
-  return distinct;
-}
-
-function mergeSorted(a: Float64Array, b: Float64Array): Float64Array {
-  if (b.length === 0) return a;
-  if (a.length === 0) return b;
-  const out = new Float64Array(a.length + b.length);
-  let i = 0;
-  let j = 0;
-  let k = 0;
-  while (i < a.length && j < b.length) out[k++] = (a[i] ?? 0) <= (b[j] ?? 0) ? (a[i++] ?? 0) : (b[j++] ?? 0);
-  while (i < a.length) out[k++] = a[i++] ?? 0;
-  while (j < b.length) out[k++] = b[j++] ?? 0;
-  return out;
-}
-
-// ---------------------------------------------------------------------------------------------
-// Numbers as runs of equal values, ascending: the common ground of both storages.
-
-interface Runs {
-  readonly values: Float64Array;
-  readonly counts: Float64Array;
-  readonly length: number;
-}
-
-/**
- * Runs from unsorted (number, count) pairs, one pair per distinct text: the pairs are put in
- * numeric order (an index sort, -0 before 0 as a Float64Array sorts them), and equal numbers
- * written differently ("1.5", "1.50") join one run. Work grows with the distinct texts, not cells.
- */
-function runsFromPairs(numbers: Float64Array, weights: Float64Array): Runs {
-  const order = new Uint32Array(numbers.length);
-  for (let i = 0; i < order.length; i++) order[i] = i;
-  order.sort((a, b) => compareNumbers(numbers[a] ?? 0, numbers[b] ?? 0));
-  const values = new Float64Array(numbers.length);
-  const counts = new Float64Array(numbers.length);
-  let n = 0;
-  for (let k = 0; k < order.length; k++) {
-    const i = order[k] ?? 0;
-    const value = numbers[i] ?? 0;
-    if (n > 0 && values[n - 1] === value) counts[n - 1] = (counts[n - 1] ?? 0) + (weights[i] ?? 0);
-    else {
-      values[n] = value;
-      counts[n] = weights[i] ?? 0;
-      n++;
-    }
-  }
-  return { values, counts, length: n };
-}
-
-function compareNumbers(a: number, b: number): number {
-  if (a !== b) return a < b ? -1 : 1;
-  return a === 0 ? (Object.is(a, -0) ? 0 : 1) - (Object.is(b, -0) ? 0 : 1) : 0;
-}
-
-function runsFromSorted(sorted: Float64Array): Runs {
-  const values = new Float64Array(countDistinctSorted(sorted));
-  const counts = new Float64Array(values.length);
-  let n = -1;
-  for (let i = 0; i < sorted.length; i++) {
-    const v = sorted[i] ?? 0;
-    if (n < 0 || values[n] !== v) values[++n] = v;
-    counts[n] = (counts[n] ?? 0) + 1;
-  }
-  return { values, counts, length: values.length };
 }
 
 interface SummaryContext {
@@ -995,7 +746,7 @@ interface SummaryContext {
  * Statistics of non-empty runs. Mean from a compensated sum, variance by the corrected two-pass
  * formula (Chan, Golub & LeVeque 1983): Σw·d² − (Σw·d)²/n, which cancels the mean's rounding error.
  */
-function summarize(runs: Runs, context: SummaryContext): NumericSummary {
+function summarize(runs: NumberRuns, context: SummaryContext): NumericSummary {
   let count = 0;
   let sum = 0;
   let compensation = 0;
@@ -1042,13 +793,13 @@ function summarize(runs: Runs, context: SummaryContext): NumericSummary {
 }
 
 /** The middle value (or the mean of the two middle values) of the runs taken as one sorted list. */
-function weightedMedian(runs: Runs, count: number): number {
+function weightedMedian(runs: NumberRuns, count: number): number {
   const lowerPosition = Math.floor((count - 1) / 2);
   const upperPosition = Math.ceil((count - 1) / 2);
   return (valueAtPosition(runs, lowerPosition) + valueAtPosition(runs, upperPosition)) / 2;
 }
 
-function valueAtPosition(runs: Runs, position: number): number {
+function valueAtPosition(runs: NumberRuns, position: number): number {
   let seen = 0;
   for (let i = 0; i < runs.length; i++) {
     seen += runs.counts[i] ?? 0;
@@ -1057,7 +808,7 @@ function valueAtPosition(runs: Runs, position: number): number {
   return NaN;
 }
 
-function histogram(runs: Runs, min: number, max: number): NumericSummary['histogram'] {
+function histogram(runs: NumberRuns, min: number, max: number): NumericSummary['histogram'] {
   if (!(max > min)) {
     let total = 0;
     for (let i = 0; i < runs.length; i++) total += runs.counts[i] ?? 0;

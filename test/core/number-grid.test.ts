@@ -1,10 +1,11 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { countOnGrid, type GridFacts, type GridRuns } from '../../src/core/number-grid.ts';
+import { countOnGrid, type GridFacts } from '../../src/core/number-grid.ts';
+import type { NumberRuns } from '../../src/core/number-runs.ts';
 import { sortedRuns } from './helpers/sorted-runs.ts';
 
 /** countOnGrid over `values` with the facts a caller's pass finds; `leftOut` marks cells not counted. */
-function gridOf(values: readonly number[], leftOut: readonly number[] = []): GridRuns | null {
+function gridOf(values: readonly number[], leftOut: readonly number[] = []): NumberRuns | null {
   const cells = Float64Array.from(values);
   const out = new Uint8Array(cells.length);
   for (const row of leftOut) out[row] = 1;
@@ -21,7 +22,7 @@ function factsOf(numbers: readonly number[]): GridFacts {
   };
 }
 
-function plain(runs: GridRuns | null): { values: number[]; counts: number[] } | null {
+function plain(runs: NumberRuns | null): { values: number[]; counts: number[] } | null {
   return runs === null ? null : { values: [...runs.values.subarray(0, runs.length)], counts: [...runs.counts.subarray(0, runs.length)] };
 }
 

@@ -1,0 +1,156 @@
+/**
+ * A number column's cells counted: the one pass over a million cells that its profile needs, in a
+ * form that parts of the column counted apart add up to. A column read in parts (a file read on
+ * several threads) is profiled from its parts' counts (`joinNumberCells`, number-profiles.ts),
+ * without joining the parts' cells first.
+ *
+ * What a profile reads from the cells:
+ * - the plain numbers (read as numbers, not counted by their text) as runs of equal values, with
+ *   how many there are and how many are not whole;
+ * - the cells counted by their text, each text with its first row: exceptions (cells that did not
+ *   read as numbers), fixed-decimal cells ("134.00") and numbers a missing token spells ("-999");
+ * - the empty cells.
+ */
+import type { NumberColumn } from './columns.ts';
+import { countOnGrid } from './number-grid.ts';
+import { mergeRuns, NO_RUNS, runsFromSorted, type NumberRuns } from './number-runs.ts';
+import { NumberTally } from './number-tally.ts';
+import { sortNumbers } from './sort-numbers.ts';
+
+/** The cells of one text, and the first row among them. */
+export interface TextCells {
+  count: number;
+  firstRow: number;
+}
+
+export interface NumberCells {
+  /** Cells counted by their text, rows counted from the part's first row. */
+  readonly texts: ReadonlyMap<string, TextCells>;
+  /** The other numbers ("plain"), ascending. */
+  readonly plain: NumberRuns;
+  readonly plainCount: number;
+  /** Plain numbers that are not whole. */
+  readonly plainFractions: number;
+  readonly emptyCells: number;
+}
+
+/** Counted in a hash table up to this share of the cells distinct… */
+const MAX_COUNTED_SHARE = 1 / 8;
+/** …or this many, whichever is more. */
+const MIN_COUNTED = 1024;
+
+/**
+ * The one pass over the cells: NaN without text is an empty cell; exceptions, fixed-decimal cells
+ * ("134.00") and numbers a missing token spells (`codedMissing`, "-999") are counted by their text;
+ * the others, the plain numbers, are then counted by value: on a grid where one fits
+ * (number-grid.ts), else in a hash table, or, past the most distinct numbers worth counting
+ * (MAX_COUNTED_SHARE), sorted whole. Fixed-decimal cells are counted by number too, and get their
+ * text once per distinct number: a tenth of a column of amounts can be "12.50"s.
+ */
+export function countNumberCells(column: NumberColumn, codedMissing: ReadonlySet<number>): NumberCells {
+  const { length, values } = column;
+  /** 1 for a cell counted by its text: the plain numbers are the others that are not NaN. */
+  const byText = exceptionRows(column);
+  const fixed = column.fixedDigits;
+  /** By count of decimals. */
+  const fixedNumbers: NumberTally[] = [];
+  const texts = new Map<string, TextCells>();
+  let plainCount = 0;
+  let plainFractions = 0;
+  let emptyCells = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  let negativeZero = false;
+  for (let row = 0; row < length; row++) {
+    if (byText[row] === 1) continue; // an exception, counted below
+    const v = values[row]!;
+    if (v !== v) {
+      emptyCells++;
+      continue;
+    }
+    const digits = fixed === null ? 0 : fixed[row]!;
+    if (digits > 0) {
+      (fixedNumbers[digits] ??= new NumberTally()).add(v, 1, row);
+      byText[row] = 1;
+    } else if (codedMissing.size > 0 && codedMissing.has(v)) {
+      countText(texts, String(v), 1, row); // a plain cell's text
+      byText[row] = 1;
+    } else {
+      plainCount++;
+      if (!Number.isInteger(v)) plainFractions++;
+      if (v < min) min = v;
+      if (v > max) max = v;
+      if (v === 0 && 1 / v < 0) negativeZero = true;
+    }
+  }
+  for (const [row, text] of column.exceptions) if (row >= 0 && row < length) countText(texts, text, 1, row);
+  fixedNumbers.forEach((numbers, digits) => numbers.forEach((v, count, firstRow) => countText(texts, v.toFixed(digits), count, firstRow)));
+  // The storage may hold room past the column's length.
+  const cells = values.subarray(0, length);
+  const plain = countOnGrid(cells, byText, { min, max, hasFractions: plainFractions > 0, negativeZero, count: plainCount }) ?? countByValue(cells, byText, plainCount);
+  return { texts, plain, plainCount, plainFractions, emptyCells };
+}
+
+/**
+ * The plain numbers among `values` (not NaN, not marked in `byText`) as runs: counted in a hash
+ * table, or sorted whole when more are distinct than counting pays for.
+ */
+function countByValue(values: Float64Array, byText: Uint8Array, plainCount: number): NumberRuns {
+  if (plainCount === 0) return NO_RUNS;
+  const most = Math.max(MIN_COUNTED, Math.ceil(plainCount * MAX_COUNTED_SHARE));
+  const tally = new NumberTally();
+  for (let row = 0; row < values.length; row++) {
+    const v = values[row]!;
+    if (byText[row] === 1 || v !== v) continue;
+    tally.add(v, 1);
+    if (tally.distinct > most) return runsFromSorted(sortNumbers(plainNumbers(values, byText, plainCount)));
+  }
+  return tally.runs(sortNumbers);
+}
+
+function plainNumbers(values: Float64Array, byText: Uint8Array, plainCount: number): Float64Array {
+  const plain = new Float64Array(plainCount);
+  let at = 0;
+  for (let row = 0; row < values.length; row++) {
+    const v = values[row]!;
+    if (byText[row] === 0 && v === v) plain[at++] = v;
+  }
+  return plain;
+}
+
+/** 1 for each row of the column's exceptions. */
+export function exceptionRows(column: NumberColumn): Uint8Array {
+  const isException = new Uint8Array(column.length);
+  for (const row of column.exceptions.keys()) if (row >= 0 && row < column.length) isException[row] = 1;
+  return isException;
+}
+
+function countText(texts: Map<string, TextCells>, text: string, count: number, row: number): void {
+  const known = texts.get(text);
+  if (known === undefined) texts.set(text, { count, firstRow: row });
+  else {
+    known.count += count;
+    known.firstRow = Math.min(known.firstRow, row);
+  }
+}
+
+/**
+ * The cells of a column counted in parts, as if counted whole: `parts` in file order, part k's
+ * rows starting at file row `firstRows[k]`.
+ */
+export function joinNumberCells(parts: readonly NumberCells[], firstRows: readonly number[]): NumberCells {
+  const texts = new Map<string, TextCells>();
+  let plain = NO_RUNS;
+  let plainCount = 0;
+  let plainFractions = 0;
+  let emptyCells = 0;
+  parts.forEach((part, k) => {
+    const firstRow = firstRows[k]!;
+    for (const [text, cells] of part.texts) countText(texts, text, cells.count, firstRow + cells.firstRow);
+    plain = mergeRuns(plain, part.plain);
+    plainCount += part.plainCount;
+    plainFractions += part.plainFractions;
+    emptyCells += part.emptyCells;
+  });
+  return { texts, plain, plainCount, plainFractions, emptyCells };
+}
