@@ -27,6 +27,7 @@ import { benchRecipeForTable, describeRecipe } from './lib/recipe.ts';
 import { benchDataFile, QUOTED_ROWS } from './lib/data-files.ts';
 import {
   cpuNote,
+  likeForLikeNote,
   renderTable,
   quotedNote,
   quotedResult,
@@ -137,6 +138,8 @@ async function measureApply(path: ApplyPath, file: string, recipeFile: string): 
 
 interface Runs {
   parse: number[];
+  /** papaparse's reading and decoding of the file, before its parse. */
+  parseRead: number[];
   profile: number[];
   profileThreads: number[];
   profileThreadsCpu: number[];
@@ -148,7 +151,7 @@ interface Runs {
 }
 
 async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile: string): Promise<{ sizes: SizeResult[]; quoted: QuotedResult | null }> {
-  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], profile: [], profileThreads: [], profileThreadsCpu: [], phases: [], apply: [], applyCpu: [], applyRss: [], bytesWritten: null }]));
+  const runs = new Map<number, Runs>(args.sizes.map((rows) => [rows, { parse: [], parseRead: [], profile: [], profileThreads: [], profileThreadsCpu: [], phases: [], apply: [], applyCpu: [], applyRss: [], bytesWritten: null }]));
   const quotedFile = benchDataFile(QUOTED_ROWS, true);
   const quoted = existsSync(quotedFile) ? { parse: [] as number[], draft: [] as number[], apply: [] as number[] } : null;
   for (let rep = 1; rep <= args.reps; rep++) {
@@ -160,6 +163,7 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
       if (measuresEverything(rows)) {
         const parse = await measureInChild<TimedResult>('parse', [file]);
         r.parse.push(parse.result.seconds);
+        r.parseRead.push(parse.result.phases?.['readAndDecode'] ?? NaN);
         const profile = await measureInChild<TimedResult>('profile', [file]);
         r.profile.push(profile.result.seconds);
         r.phases.push({ ...profile.result.phases });
@@ -186,6 +190,8 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
     const r = runs.get(rows)!;
     const full = measuresEverything(rows);
     const parse = full ? timing(r.parse, bytes) : null;
+    // Each repetition's read, decode and parse together, so the median is of whole runs.
+    const parseWithRead = full ? timing(r.parse.map((seconds, i) => seconds + r.parseRead[i]!), bytes) : null;
     const profile: ProfileTiming | null = full ? { ...timing(r.profile, bytes), phasesSeconds: medianPhases(r.phases) } : null;
     const profileThreads = full && r.profileThreads.length > 0 ? timing(r.profileThreads, bytes) : null;
     const applyTiming = timing(r.apply, bytes);
@@ -199,7 +205,7 @@ async function measureAll(args: BenchArguments, applyPath: ApplyPath, recipeFile
     };
     const tableMemory = full ? await measureTableMemory(file, bytes) : null;
     const cpuSeconds = { draft: medianOrNull(r.profileThreadsCpu), apply: medianOrNull(r.applyCpu) };
-    results.push({ rows, file: shown(file), bytes, parse, profile, profileThreads, apply, cpuSeconds, tableMemory, ...sizeVerdicts(parse, profile, profileThreads, apply) });
+    results.push({ rows, file: shown(file), bytes, parse, parseWithRead, profile, profileThreads, apply, cpuSeconds, tableMemory, ...sizeVerdicts(parse, profile, profileThreads, apply) });
   }
   return { sizes: results, quoted: quoted === null ? null : quotedResult(QUOTED_ROWS, shown(quotedFile), statSync(quotedFile).size, quoted) };
 }
@@ -347,6 +353,8 @@ async function main(): Promise<void> {
     if (cpu !== null) notes.push(cpu);
     const spread = reference === undefined ? null : spreadNote(reference);
     if (spread !== null) notes.push(spread);
+    const likeForLike = reference === undefined ? null : likeForLikeNote(reference);
+    if (likeForLike !== null) notes.push(likeForLike);
     if (!args.sizes.some((rows) => rows > REFERENCE_ROWS)) notes.push('no size above 1M rows: the peak RSS check was not run');
     notes.push(quoted === null ? `no copy of the 1M-row file with every field quoted (${shown(benchDataFile(QUOTED_ROWS, true))}): npm run bench:generate writes it` : quotedNote(quoted));
     const loadAtEnd = loadavg()[0] ?? NaN;

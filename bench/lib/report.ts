@@ -37,6 +37,11 @@ export interface SizeResult {
   readonly file: string;
   readonly bytes: number;
   readonly parse: Timing | null;
+  /**
+   * papaparse with its reading and decoding of the file (readFileSync, TextDecoder) before the
+   * parse: the work `levelwise draft` does too, for the like-for-like note (no target).
+   */
+  readonly parseWithRead?: Timing | null;
   /** The page's worker path on one thread, in process (its phases say where time goes). */
   readonly profile: ProfileTiming | null;
   /**
@@ -148,6 +153,22 @@ export function cpuNote(size: SizeResult): string | null {
   const parts = [...part('draft', draft, size.profileThreads), ...part('apply', apply, size.apply)];
   const parse = size.parse === null ? '' : `; papaparse's parse alone ${size.parse.medianSeconds.toFixed(2)} s on one thread`;
   return `CPU time at ${size.rows.toLocaleString('en-US')} rows (every thread, start-up included; medians): ${parts.join(', ')}${parse}`;
+}
+
+/**
+ * The profile ratio with the file read on both sides, for information: `levelwise draft` reads the
+ * file from disk and decodes it (and starts up) within its time, papaparse's parse above is timed
+ * on text already in memory. The verdict stays on the parse alone. Null without both figures.
+ */
+export function likeForLikeNote(size: SizeResult): string | null {
+  const withRead = size.parseWithRead;
+  const draft = size.profileThreads;
+  if (withRead === undefined || withRead === null || draft === null || !Number.isFinite(withRead.medianSeconds)) return null;
+  return (
+    `with the file read on both sides at ${size.rows.toLocaleString('en-US')} rows (for information; the verdict is on papaparse's parse alone): ` +
+    `levelwise draft ${draft.medianSeconds.toFixed(2)} s (start-up, reading and decoding included) ÷ papaparse reading, decoding and parsing ` +
+    `${withRead.medianSeconds.toFixed(2)} s = ${(draft.medianSeconds / withRead.medianSeconds).toFixed(2)}×`
+  );
 }
 
 /**

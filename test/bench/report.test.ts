@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cpuNote, quotedNote, quotedResult, renderTable, rssVerdict, sizeVerdicts, spreadNote, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
+import { cpuNote, likeForLikeNote, quotedNote, quotedResult, renderTable, rssVerdict, sizeVerdicts, spreadNote, tableRows, timing, verdictCell, type SizeResult } from '../../bench/lib/report.ts';
 
 const MB = 1e6;
 
@@ -54,6 +54,16 @@ describe('benchmark report', () => {
     // One repetition says nothing about spread; without papaparse there is nothing to divide by.
     expect(spreadNote(sizes[0]!)).toBeNull();
     expect(spreadNote({ ...measured, parse: null })).toBeNull();
+  });
+
+  it('gives the draft ratio with the file read on both sides beside the verdict, which stays on the parse alone', () => {
+    // papaparse: 0.3 s reading and decoding + 1 s parsing = 1.3 s; draft 1.56 s: 1.2×, where the verdict says 1.56×.
+    const measured: SizeResult = { ...size(1_000_000, 120 * MB, { parse: 1, profileThreads: 1.56, apply: 2.4, rss: 325 * MB }), parseWithRead: timing([1.3], 120 * MB) };
+    expect(measured.profileOverParse.value).toBeCloseTo(1.56, 10);
+    expect(likeForLikeNote(measured)).toBe(
+      "with the file read on both sides at 1,000,000 rows (for information; the verdict is on papaparse's parse alone): levelwise draft 1.56 s (start-up, reading and decoding included) ÷ papaparse reading, decoding and parsing 1.30 s = 1.20×",
+    );
+    expect(likeForLikeNote(sizes[0]!)).toBeNull();
   });
 
   it('reports the file with every field quoted as medians and ratios to papaparse on it, without a verdict', () => {
