@@ -119,9 +119,12 @@ export class NumberProfiles {
     this.parts = [table];
   }
 
-  /** profileTable's profiles of `table`: its number columns from the other threads where they have them. */
-  profile(table: Table): Promise<ColumnProfile[]> {
-    return profileTableSharing(table, this.options, (_, index) => this.take(index));
+  /**
+   * profileTable's profiles of `table`: its number columns from the other threads where they have
+   * them. `onTextProfiles`: see profileTableSharing's onHereDone.
+   */
+  profile(table: Table, onTextProfiles?: (profiles: readonly (ColumnProfile | null)[]) => void): Promise<ColumnProfile[]> {
+    return profileTableSharing(table, this.options, (_, index) => this.take(index), onTextProfiles);
   }
 
   /**

@@ -169,10 +169,17 @@ export type ColumnProfiler = (column: NumberColumn, index: number, options: Prof
  * value and are profiled here first. Then each number column goes to `elsewhere`, or is profiled
  * here when no other thread has it or is free: the threads share them as they come free. Between
  * two number columns this thread lets messages in, so that a thread that has finished one may
- * take the next. The result is profileTable's.
+ * take the next. `onHereDone` sees the text columns' profiles (null for the number columns) as soon
+ * as they are made, for work that need not wait for the others. The result is profileTable's.
  */
-export async function profileTableSharing(table: Table, options: ProfileOptions, elsewhere: ColumnProfiler): Promise<ColumnProfile[]> {
+export async function profileTableSharing(
+  table: Table,
+  options: ProfileOptions,
+  elsewhere: ColumnProfiler,
+  onHereDone: (profiles: readonly (ColumnProfile | null)[]) => void = () => undefined,
+): Promise<ColumnProfile[]> {
   const here = table.columns.map((column, index) => (column.kind === 'number' ? null : profileColumn(column, index, options)));
+  onHereDone(here);
   const profiles: (ColumnProfile | Promise<ColumnProfile>)[] = [];
   for (const [index, column] of table.columns.entries()) {
     const profiled = here[index];

@@ -47,6 +47,11 @@ export interface ReadSourceOptions {
   readonly profiling?: ProfileOptions | null;
   /** Told when the read is done and the profiling (SourceRead.profiles) starts. */
   readonly onProfiling?: () => void;
+  /**
+   * Given the text columns' profiles (null for the others) as soon as they are made, while the
+   * number columns' are still being made on the segment workers.
+   */
+  readonly onTextProfiles?: (profiles: readonly (ColumnProfile | null)[]) => void;
 }
 
 /** The start of every ZIP container, XLSX included ("PK\3\4"). */
@@ -134,7 +139,7 @@ interface TextRead {
   readonly profiles: ColumnProfile[] | null;
 }
 
-async function readText(file: Blob, { delimiter, signal, onProgress, profiling = null, onProfiling }: ReadSourceOptions): Promise<TextRead> {
+async function readText(file: Blob, { delimiter, signal, onProgress, profiling = null, onProfiling, onTextProfiles }: ReadSourceOptions): Promise<TextRead> {
   const onOneThread = async (): Promise<TextRead> => ({
     read: await readTableFromSource(() => chunksOf(file, signal, onProgress), { delimiter: delimiter ?? null, totalBytes: file.size }),
     profiles: null,
@@ -154,7 +159,7 @@ async function readText(file: Blob, { delimiter, signal, onProgress, profiling =
       });
     },
     (chunks, encoding) =>
-      readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, profiling === null ? null : { options: profiling, onStart: onProfiling ?? (() => undefined) }, (bytes) => {
+      readInSegments(file, chunks, { delimiter: delimiter ?? null, encoding }, workers, signal, profiling === null ? null : { options: profiling, onStart: onProfiling ?? (() => undefined), onTextProfiles }, (bytes) => {
         progress.others += bytes;
         report();
       }),
@@ -179,7 +184,11 @@ async function readInSegments(
   settings: { delimiter: Delimiter | null; encoding: EncodingName | null },
   workers: number,
   signal: AbortSignal,
-  profiling: { readonly options: ProfileOptions; readonly onStart: () => void } | null,
+  profiling: {
+    readonly options: ProfileOptions;
+    readonly onStart: () => void;
+    readonly onTextProfiles?: ((profiles: readonly (ColumnProfile | null)[]) => void) | undefined;
+  } | null,
   onSegmentBytes: (bytes: number) => void,
 ): Promise<TextRead> {
   const pool = openSegmentPool(file, workers, signal, onSegmentBytes);
@@ -204,7 +213,7 @@ async function readInSegments(
     // the join ends finish(), and the await resumes here in the same task, before any message.
     shared.joinedInto(read.table);
     profiling.onStart();
-    const profiles = await profileOrHere(shared, read.table, profiling.options, signal);
+    const profiles = await profileOrHere(shared, read.table, profiling.options, signal, profiling.onTextProfiles);
     return { read, profiles };
   } finally {
     pool.close();

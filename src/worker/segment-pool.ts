@@ -195,12 +195,18 @@ export async function profileSharingWorkers(table: Table, options: ProfileOption
 }
 
 /**
- * `shared.profile(table)`; when a segment worker breaks down meanwhile, profileTable on this thread:
- * the table is read, so nothing is read again.
+ * `shared.profile(table, onTextProfiles)`; when a segment worker breaks down meanwhile, profileTable
+ * on this thread: the table is read, so nothing is read again.
  */
-export async function profileOrHere(shared: NumberProfiles, table: Table, options: ProfileOptions, signal: AbortSignal): Promise<ColumnProfile[]> {
+export async function profileOrHere(
+  shared: NumberProfiles,
+  table: Table,
+  options: ProfileOptions,
+  signal: AbortSignal,
+  onTextProfiles?: (profiles: readonly (ColumnProfile | null)[]) => void,
+): Promise<ColumnProfile[]> {
   try {
-    return await shared.profile(table);
+    return await shared.profile(table, onTextProfiles);
   } catch (error) {
     if (error instanceof SegmentWorkerFailure && !signal.aborted) return profileTable(table, options);
     throw error;

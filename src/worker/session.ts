@@ -89,6 +89,8 @@ export function createSession(post: Post): Session {
       // read it would be two more trips to the browser before the summary.
       const early = request.source.kind === 'file' ? fingerprintFile(request.source.file, request.source.file.name) : null;
       early?.catch(() => undefined); // a read that fails reports its own error
+      // Long level lists go to the page while the number columns are still being profiled elsewhere.
+      const levelsSent = new Set<number>();
       const read = await readSource(request.source, {
         delimiter: request.delimiter ?? null,
         ...(request.maxBytes === undefined ? {} : { maxBytes: request.maxBytes }),
@@ -97,6 +99,10 @@ export function createSession(post: Post): Session {
         // Read on several threads, the table is profiled there as it is joined.
         profiling: request.draft ? { missingTokens } : null,
         onProfiling: () => context.progress('profiling', 0, null),
+        onTextProfiles: (profiles) =>
+          profiles.forEach((profile, column) => {
+            if (profile !== null && sendLongLevels(profile, column, context)) levelsSent.add(column);
+          }),
       });
       const { table } = read.read;
       const fingerprint = await (early ?? fingerprintFile(read.file, read.fileName));
@@ -124,7 +130,7 @@ export function createSession(post: Post): Session {
         rowIssues: table.rowIssues.slice(0, ROW_ISSUES_LISTED),
         rowIssueCount: table.rowIssues.length,
         headerIssues: table.headerIssues,
-        profiles: sendLongLevelsAhead(profiles, context),
+        profiles: sendLongLevelsAhead(profiles, context, levelsSent),
         draft,
       };
       return { result };
@@ -238,10 +244,6 @@ export function createSession(post: Post): Session {
 }
 
 /**
- * Posts each level list longer than PACK_ABOVE_LEVELS ahead, packed (the `levels` message), and
- * returns the profiles with those lists left empty for the `done` answer.
- */
-/**
  * The table's profiles and the recipe proposed from them, reading `missingTokens` as missing;
  * `profiled`: the profiles already made with those spellings while the table was read.
  */
@@ -253,15 +255,31 @@ function proposal(table: Table, fileName: string, missingTokens: readonly string
   return { profiles, draft };
 }
 
-export function sendLongLevelsAhead(profiles: readonly ColumnProfile[], context: Pick<Context, 'levels'>): ColumnProfile[] {
+/**
+ * Posts each level list longer than PACK_ABOVE_LEVELS ahead, packed (the `levels` message), but for
+ * the columns in `alreadySent` (sendLongLevels did), and returns the profiles with those lists left
+ * empty for the `done` answer.
+ */
+export function sendLongLevelsAhead(profiles: readonly ColumnProfile[], context: Pick<Context, 'levels'>, alreadySent: ReadonlySet<number> = new Set()): ColumnProfile[] {
   return profiles.map((profile, column) => {
-    const count = levelCount(profile);
-    if (count === null || count <= PACK_ABOVE_LEVELS) return profile;
-    // An identifier's levels, still bytes, go packed from there: no string per level is made here.
-    const source = levelSourceOf(profile);
-    for (const run of source === null ? packLevels(profile.levels ?? []) : packLevelsFromBytes(source)) context.levels(column, run);
+    if (!hasLongLevels(profile)) return profile;
+    if (!alreadySent.has(column)) sendLongLevels(profile, column, context);
     return withField(profile, 'levels', []);
   });
+}
+
+function hasLongLevels(profile: ColumnProfile): boolean {
+  const count = levelCount(profile);
+  return count !== null && count > PACK_ABOVE_LEVELS;
+}
+
+/** Posts the level list of `profile` (column `column`) packed, when it is longer than PACK_ABOVE_LEVELS; whether it did. */
+export function sendLongLevels(profile: ColumnProfile, column: number, context: Pick<Context, 'levels'>): boolean {
+  if (!hasLongLevels(profile)) return false;
+  // An identifier's levels, still bytes, go packed from there: no string per level is made here.
+  const source = levelSourceOf(profile);
+  for (const run of source === null ? packLevels(profile.levels ?? []) : packLevelsFromBytes(source)) context.levels(column, run);
+  return true;
 }
 
 function windowBuffers(window: PreviewWindow): Transferable[] {

@@ -5,14 +5,14 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { TextColumn } from '../../src/core/columns.ts';
-import type { LevelCount } from '../../src/core/profile.ts';
-import { levelSourceOf, profileColumn, profileTable } from '../../src/core/profile.ts';
+import type { ColumnProfile, LevelCount } from '../../src/core/profile.ts';
+import { DEFAULT_PROFILE_OPTIONS, levelSourceOf, profileColumn, profileTable, profileTableSharing } from '../../src/core/profile.ts';
 import { readTable } from '../../src/core/read-table.ts';
 import { WorkbenchClient } from '../../src/worker/client.ts';
 import { createInPagePort } from '../../src/worker/in-page-port.ts';
 import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, RUN_LEVELS, RUN_TEXT_UNITS, runBuffers, unpackLevels, withPackedLevels, type PackedLevels } from '../../src/worker/packed-levels.ts';
 import type { FromWorker } from '../../src/worker/protocol.ts';
-import { createSession, sendLongLevelsAhead } from '../../src/worker/session.ts';
+import { createSession, sendLongLevels, sendLongLevelsAhead } from '../../src/worker/session.ts';
 import { textColumnsOf } from '../helpers/text-columns.ts';
 
 /** Any text a cell may hold, surrogate pairs, empty and line breaks included. */
@@ -126,5 +126,31 @@ describe('packing level lists kept as bytes', () => {
     // No string made here: the runs carry the bytes, moved to the page with the typed arrays.
     expect(sent.every((run) => 'ascii' in run && run.ascii.length === run.lengths.reduce((a, b) => a + b, 0))).toBe(true);
     expect(runBuffers(sent[0]!)).toHaveLength(3);
+  });
+
+  it('sends a long level list while the number columns are still being profiled elsewhere, and not again with the answer', async () => {
+    const ids = Array.from({ length: 12_000 }, (_, i) => `ID-${String(i).padStart(5, '0')}`);
+    const { table } = readTable(new TextEncoder().encode(`id,reading\n${ids.map((id, i) => `${id},${(i * 7919) % 10_000}`).join('\n')}\n`));
+    expect(table.columns.map((column) => column.kind)).toEqual(['text', 'number']);
+    const sent: number[] = [];
+    const context = { levels: (column: number) => void sent.push(column) };
+    const alreadySent = new Set<number>();
+    let answer: ((profile: ColumnProfile) => void) | null = null;
+    const profiling = profileTableSharing(
+      table,
+      DEFAULT_PROFILE_OPTIONS,
+      () => new Promise<ColumnProfile>((resolve) => (answer = resolve)),
+      (profiles) => profiles.forEach((profile, column) => profile !== null && sendLongLevels(profile, column, context) && alreadySent.add(column)),
+    );
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    // The number column's profile has not come, and the identifier's levels have gone: one run.
+    expect(answer).not.toBeNull();
+    expect(sent).toEqual([0]);
+    answer!(profileColumn(table.columns[1]!, 1));
+    const profiles = await profiling;
+    const [id] = sendLongLevelsAhead(profiles, context, alreadySent);
+    expect(sent).toEqual([0]);
+    expect(id!.levels).toEqual([]);
+    expect(id!.distinct).toBe(12_000);
   });
 });
