@@ -397,6 +397,8 @@ export async function readTableInThreads(
     }
     const result = await parallel.finish(reader.finish());
     const shared = numberProfiles;
+    // The parts are given up as their columns are joined: columns started from here on go from the table.
+    shared?.joinedInto(result.table);
     const profiles = profiling === null ? null : shared === null ? profileTable(result.table, profiling) : await shared.profile(result.table);
     return { ...result, profiles };
   } finally {

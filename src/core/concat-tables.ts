@@ -36,22 +36,27 @@ export interface ConcatOptions {
    * storage, are joined at once. For a table read to be profiled: the profile of a dictionary
    * column is made from its values and counts alone (its codes are read only to find the rows of
    * cells that are not numbers), and a command line that only drafts a recipe never reads them.
-   * The parts must then not be changed or given up while the table is in use.
+   * The parts must then not be changed while the table is in use, nor given up but by releaseParts.
    */
   readonly cellsWhenRead?: boolean;
   /**
    * Give up every part's storage (release-buffers.ts) as soon as its column is joined, but for what
    * the joined table keeps: with reuseFirst, joining then holds at most one column twice, not the
    * other parts until the end (or, where the first part's arrays lack room, the first part too).
-   * The parts must not be used afterwards. Not with cellsWhenRead, which reads the parts later.
+   * With cellsWhenRead, a column's parts are given up when its cells are joined, on first reading.
+   * The parts must not be used afterwards.
    */
   readonly releaseParts?: boolean;
 }
 
-/** How a column is joined: in the first part's storage (reuseFirst), now or when read (cellsWhenRead). */
+/**
+ * How a column is joined: in the first part's storage (reuseFirst), now or when read
+ * (cellsWhenRead); `whenJoined` is called once cells joined later are.
+ */
 interface JoinMode {
   readonly reuse: boolean;
   readonly later: boolean;
+  readonly whenJoined?: () => void;
 }
 
 /**
@@ -69,11 +74,14 @@ export function concatTables(parts: readonly Table[], options: ConcatOptions = {
   const reuse = options.reuseFirst === true;
   const mode: JoinMode = { reuse, later: options.cellsWhenRead === true };
   const release = options.releaseParts === true;
-  if (release && mode.later) throw new Error('concatTables: releaseParts cannot go with cellsWhenRead, which reads the parts later');
   const columns = first.names.map((_, c) => {
     const columnParts = parts.map((part) => part.columns[c]!);
-    const joined = joinColumn(columnParts, rowCounts, cap, mode);
-    if (release) releaseAllBut(columnParts.map(columnBuffers), columnBuffers(joined));
+    // Set before any cells are joined later: whenJoined runs on a first reading, after this returns.
+    let joined: Column | null = null;
+    const giveUpParts = (): void => releaseAllBut(columnParts.map(columnBuffers), columnBuffers(joined!));
+    joined = joinColumn(columnParts, rowCounts, cap, release && mode.later ? { ...mode, whenJoined: giveUpParts } : mode);
+    // With cellsWhenRead every column's cells are joined later, and its parts go then.
+    if (release && !mode.later) giveUpParts();
     return joined;
   });
   const lineOfRow = joinUint32(parts.map((part) => part.lineOfRow), rowCounts, reuse);
@@ -104,25 +112,39 @@ function checkSameNames(parts: readonly Table[]): void {
 function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap: number, mode: JoinMode): Column {
   if (storageOfWhole(parts, rowCounts, cap) === 'number') {
     const join = (): NumberColumn => joinAsNumbers(parts, rowCounts, mode.reuse);
-    return mode.later ? numberCellsWhenRead(parts[0]!.name, sum(rowCounts), join) : join();
+    return mode.later ? numberCellsWhenRead(parts[0]!.name, sum(rowCounts), join, mode.whenJoined) : join();
   }
   return joinPackedAscending(parts, rowCounts, mode) ?? joinAsText(parts, rowCounts, mode);
 }
 
-/** A number column whose cells are joined by `join` the first time any of them is read. */
-function numberCellsWhenRead(name: string, length: number, join: () => NumberColumn): NumberColumn {
+/** A number column whose cells are joined by `join` the first time any of them is read; then `whenJoined`. */
+function numberCellsWhenRead(name: string, length: number, join: () => NumberColumn, whenJoined?: () => void): NumberColumn {
   let joined: NumberColumn | null = null;
+  const cells = (): NumberColumn => {
+    if (joined === null) {
+      joined = join();
+      whenJoined?.();
+    }
+    return joined;
+  };
   const column = { kind: 'number', name, length };
   for (const key of ['values', 'exceptions', 'fixedDigits'] as const) {
-    Object.defineProperty(column, key, { enumerable: true, configurable: true, get: () => (joined ??= join())[key] });
+    Object.defineProperty(column, key, { enumerable: true, configurable: true, get: () => cells()[key] });
   }
   return column as NumberColumn;
 }
 
-/** `column` with its codes made by `join` the first time they are read. */
-function codesWhenRead(column: TextColumn, join: () => Codes): TextColumn {
+/** `column` with its codes made by `join` the first time they are read; then `whenJoined`. */
+function codesWhenRead(column: TextColumn, join: () => Codes, whenJoined?: () => void): TextColumn {
   let codes: Codes | null = null;
-  return Object.defineProperty(column, 'codes', { enumerable: true, configurable: true, get: () => (codes ??= join()) });
+  const joined = (): Codes => {
+    if (codes === null) {
+      codes = join();
+      whenJoined?.();
+    }
+    return codes;
+  };
+  return Object.defineProperty(column, 'codes', { enumerable: true, configurable: true, get: joined });
 }
 
 /**
@@ -367,7 +389,7 @@ function joinAsText(columns: readonly Column[], rowCounts: readonly number[], mo
   const firstMap = dictionary.maps[0]!;
   const reuse = mode.reuse && columns[0]!.kind === 'text' && 'base' in firstMap && firstMap.base === 0;
   const join = (): Codes => joinCodes(parts, dictionary.maps, rowCounts, reuse, dictionary.values.length);
-  return mode.later ? codesWhenRead(column, join) : { ...column, codes: join() };
+  return mode.later ? codesWhenRead(column, join, mode.whenJoined) : { ...column, codes: join() };
 }
 
 /** Stands for codes joined only when read. */
@@ -438,7 +460,7 @@ function joinPackedAscending(columns: readonly Column[], rowCounts: readonly num
   starts[distinct] = byteBase;
   const join = (): Codes => joinAscendingCodes(parts, rowCounts, mode.reuse, distinct);
   const column = withPackedValues({ kind: 'text', name: parts[0]!.name, length: rows, codes: mode.later ? NO_CODES : join(), counts }, { bytes, starts, ascending: true });
-  return mode.later ? codesWhenRead(column, join) : column;
+  return mode.later ? codesWhenRead(column, join, mode.whenJoined) : column;
 }
 
 /** The parts' codes, each part's after the codes of the parts before it. */

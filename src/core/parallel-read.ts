@@ -81,13 +81,16 @@ export interface ParallelReadOptions {
   /**
    * Sees the parts before they are joined, in file order, rows numbered from the file's start: for
    * tests, and for work on a column's parts elsewhere while this thread joins them (the command
-   * line profiles number columns so). The parts must not be changed; the first is joined in place.
+   * line profiles number columns so). The parts must not be changed; the first is joined in place,
+   * and each is given up as its columns are joined (with cellsWhenRead, when their cells are first
+   * read): once `finish` has returned, read the table, never the parts.
    */
   readonly onPart?: (parts: readonly Table[]) => void;
   /**
    * Join the columns' cells only when read (ConcatOptions.cellsWhenRead): for a table read to be
-   * profiled, whose dictionaries' codes are then never joined. The parts are kept until the table
-   * goes, not given up once joined.
+   * profiled, whose dictionaries' codes the profile does not read. The command line that only
+   * drafts a recipe then never joins them; the page has its summary before they are joined (for
+   * its preview, after).
    */
   readonly cellsWhenRead?: boolean;
   /**
@@ -181,7 +184,7 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
   };
 
   const placements = { taken: 1, redone: 0, skipped: 0 };
-  const ownShare = (options.reserve ?? (RELEASES_AT_ONCE ? 'own-share' : 'whole-file')) === 'own-share' && options.cellsWhenRead !== true;
+  const ownShare = (options.reserve ?? (RELEASES_AT_ONCE ? 'own-share' : 'whole-file')) === 'own-share';
   return {
     firstStop,
     firstReserve: ownShare ? Math.min(firstStop, fileBytes) : fileBytes,
@@ -235,12 +238,16 @@ export function readInParallel(fileBytes: number, runners: readonly SegmentRunne
       options.onPart?.(parts);
       // The first part's storage has room for the whole file where it was reserved so (firstReserve):
       // the others join it there. Else the join copies it too, column by column, releasing as it goes.
-      const later = options.cellsWhenRead === true;
       // Each part came in a message from another thread, and what keeps such a message alive is not
       // ours to know: in Chromium 150 the second half of a million-row file (49 MB of typed arrays)
       // stayed held in the worker after the join, through every collection asked for over 7.5 s.
       // Released as they are joined (concatTables releaseParts), their memory goes at once.
-      const table = concatTables(parts, { ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }), reuseFirst: true, cellsWhenRead: later, releaseParts: !later });
+      const table = concatTables(parts, {
+        ...(options.dictionaryCap === undefined ? {} : { dictionaryCap: options.dictionaryCap }),
+        reuseFirst: true,
+        cellsWhenRead: options.cellsWhenRead === true,
+        releaseParts: true,
+      });
       return { ...first, table, totalRows: table.rowCount, emptyLinesSkipped, stoppedAt: null, lineBreaks: order.lineBreaks, bytes: fileBytes };
     },
   };

@@ -198,7 +198,15 @@ async function readInSegments(
     const onPart = (parts: readonly Table[]): void => {
       if (profiling !== null && parts.length > 1) numberProfiles = new NumberProfiles(parts, profiling.options, pool.profilers);
     };
-    const parallel = readInParallel(file.size, pool.runners, { minSegmentBytes: MIN_SEGMENT_BYTES, headStartBytes: HEAD_START_BYTES, handOverFromBytes: HAND_OVER_FROM_BYTES, packValues: true, onPart });
+    const parallel = readInParallel(file.size, pool.runners, {
+      minSegmentBytes: MIN_SEGMENT_BYTES,
+      headStartBytes: HEAD_START_BYTES,
+      handOverFromBytes: HAND_OVER_FROM_BYTES,
+      packValues: true,
+      onPart,
+      // The profile reads no dictionary's codes: they are joined when first read (the preview, after the summary).
+      cellsWhenRead: profiling !== null,
+    });
     const reader = createTableReader({ ...settings, stopAt: parallel.firstStop, totalBytes: parallel.firstReserve, packValues: true });
     for await (const chunk of chunks) {
       reader.push(chunk);

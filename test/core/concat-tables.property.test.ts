@@ -13,7 +13,7 @@
  */
 import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
-import { cellText, tableBuffers, type Column, type Table } from '../../src/core/columns.ts';
+import { cellText, tableBuffers, type Column, type Table, type TextColumn } from '../../src/core/columns.ts';
 import { profileTable } from '../../src/core/profile.ts';
 import { readInSegments } from '../../src/core/read-in-segments.ts';
 import { readTable } from '../../src/core/read-table.ts';
@@ -163,19 +163,45 @@ describe('reading in segments and joining them gives the whole read', () => {
     );
   });
 
-  it('with cells joined only when read (as the command line reads a table to profile)', async () => {
+  it('with cells joined only when read (as a table to profile is read), the parts given up as their cells are', async () => {
     // The profile, made before any cell is read, then the cells and their storage: the whole read's.
     await fc.assert(
-      fc.asyncProperty(csvText, fc.integer({ min: 24, max: 400 }), fc.constantFrom(4, 16), async (text, segmentBytes, cap) => {
+      fc.asyncProperty(csvText, fc.integer({ min: 24, max: 400 }), fc.constantFrom(4, 16), fc.constantFrom('whole-file' as const, 'own-share' as const), async (text, segmentBytes, cap, reserve) => {
         const bytes = new TextEncoder().encode(text);
         const whole = readTable(bytes, { dictionaryCap: cap });
-        const later = await readInSegments(bytes, segmentBytes, { dictionaryCap: cap, cellsWhenRead: true });
+        const parts: Table[] = [];
+        const later = await readInSegments(bytes, segmentBytes, { dictionaryCap: cap, cellsWhenRead: true, reserve, onPart: (part) => parts.push(part) });
         expect(profileTable(later.table)).toEqual(profileTable(whole.table));
         expect(later.table.columns.map(storageOf)).toEqual(whole.table.columns.map(storageOf));
         expect(cellsOf(later.table)).toEqual(cellsOf(whole.table));
+        // Every cell read, every column joined: the parts' storage is given up but for what the table keeps.
+        const kept = new Set(tableBuffers(later.table));
+        for (const part of parts) {
+          const given = tableBuffers(part).filter((buffer) => !kept.has(buffer));
+          expect(given.map((buffer) => buffer.byteLength)).toEqual(given.map(() => 0));
+        }
       }),
-      { numRuns: 40 },
+      { numRuns: 60 },
     );
+  });
+
+  it('with cells joined only when read, a column\'s parts are kept until its own cells are read', async () => {
+    // 12,000 invented rows (~100 kB; the first reader reads 64 kB before it may stop), cut in 20 kB
+    // segments: colour and size are dictionaries in every part.
+    const rows = Array.from({ length: 12_000 }, (_, i) => `${['red', 'blue', 'green'][i % 3]},${['S', 'M', 'L', 'XL'][i % 4]}`);
+    const bytes = new TextEncoder().encode(`colour,size\n${rows.join('\n')}\n`);
+    const parts: Table[] = [];
+    const later = await readInSegments(bytes, 20_000, { cellsWhenRead: true, reserve: 'own-share', onPart: (part) => parts.push(part) });
+    expect(parts.length).toBeGreaterThan(2);
+    const codesOf = (table: Table, c: number): ArrayBufferLike => (table.columns[c] as TextColumn).codes.buffer;
+    const partCodes = (c: number): ArrayBufferLike[] => parts.slice(1).map((part) => codesOf(part, c));
+    // Nothing read yet: every part's codes are whole.
+    expect(partCodes(0).every((buffer) => buffer.byteLength > 0)).toBe(true);
+    expect(cellsOf({ ...later.table, columns: [later.table.columns[0]!], names: ['colour'] })[0]!.slice(0, 4)).toEqual(['red', 'blue', 'green', 'red']);
+    // colour's cells read: its parts' codes given up; size's still held, and read as the whole file's.
+    expect(partCodes(0).map((buffer) => buffer.byteLength)).toEqual(partCodes(0).map(() => 0));
+    expect(partCodes(1).every((buffer) => buffer.byteLength > 0)).toBe(true);
+    expect(cellsOf(later.table)[1]).toEqual(rows.map((row) => row.split(',')[1]));
   });
 
   it('for an export that quotes every field (read a record after another as quoted records), cut anywhere', async () => {
