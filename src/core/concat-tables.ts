@@ -119,14 +119,7 @@ function joinColumn(parts: readonly Column[], rowCounts: readonly number[], cap:
 
 /** A number column whose cells are joined by `join` the first time any of them is read; then `whenJoined`. */
 function numberCellsWhenRead(name: string, length: number, join: () => NumberColumn, whenJoined?: () => void): NumberColumn {
-  let joined: NumberColumn | null = null;
-  const cells = (): NumberColumn => {
-    if (joined === null) {
-      joined = join();
-      whenJoined?.();
-    }
-    return joined;
-  };
+  const cells = joinedOnce(join, whenJoined);
   const column = { kind: 'number', name, length };
   for (const key of ['values', 'exceptions', 'fixedDigits'] as const) {
     Object.defineProperty(column, key, { enumerable: true, configurable: true, get: () => cells()[key] });
@@ -136,15 +129,19 @@ function numberCellsWhenRead(name: string, length: number, join: () => NumberCol
 
 /** `column` with its codes made by `join` the first time they are read; then `whenJoined`. */
 function codesWhenRead(column: TextColumn, join: () => Codes, whenJoined?: () => void): TextColumn {
-  let codes: Codes | null = null;
-  const joined = (): Codes => {
-    if (codes === null) {
-      codes = join();
+  return Object.defineProperty(column, 'codes', { enumerable: true, configurable: true, get: joinedOnce(join, whenJoined) });
+}
+
+/** What `join` makes, made at the first call and kept; `whenJoined` runs once it is made. */
+function joinedOnce<T extends object>(join: () => T, whenJoined?: () => void): () => T {
+  let joined: T | null = null;
+  return () => {
+    if (joined === null) {
+      joined = join();
       whenJoined?.();
     }
-    return codes;
+    return joined;
   };
-  return Object.defineProperty(column, 'codes', { enumerable: true, configurable: true, get: joined });
 }
 
 /**

@@ -56,6 +56,17 @@ function cutsOf(length: number, picks: readonly number[]): number[] {
   return [0, ...new Set(picks.map((p) => Math.floor(p * length)).filter((p) => p > 0 && p < length))].sort((a, b) => a - b);
 }
 
+const cells = fc.array(cell, { minLength: 1, maxLength: 3000, size: 'max' });
+/** Where to cut, as shares of the column's length. */
+const cutPicks = fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { maxLength: 4 });
+
+/** The column of `cellList`, where its parts start (`cuts`) and end (`ends`). */
+function cutUp(cellList: readonly Cell[], picks: readonly number[]): { whole: NumberColumn; cuts: number[]; ends: number[] } {
+  const whole = columnOf(cellList);
+  const cuts = cutsOf(whole.length, picks);
+  return { whole, cuts, ends: [...cuts.slice(1), whole.length] };
+}
+
 /** Counted cells as plain data: texts in key order, runs as arrays. */
 function plainCells(cells: NumberCells): unknown {
   return {
@@ -79,10 +90,8 @@ const options = fc.constantFrom<ProfileOptions>(
 describe('a number column counted in parts', () => {
   it('adds up to the whole column counted, wherever it is cut', () => {
     fc.assert(
-      fc.property(fc.array(cell, { minLength: 1, maxLength: 3000, size: 'max' }), fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { maxLength: 4 }), options, (cells, picks, chosen) => {
-        const whole = columnOf(cells);
-        const cuts = cutsOf(whole.length, picks);
-        const ends = [...cuts.slice(1), whole.length];
+      fc.property(cells, cutPicks, options, (cellList, picks, chosen) => {
+        const { whole, cuts, ends } = cutUp(cellList, picks);
         const codedMissing = missingNumbers(chosen.missingTokens);
         const parts = cuts.map((from, k) => countNumberCells(partOf(whole, from, ends[k]!), codedMissing));
         expect(plainCells(joinNumberCells(parts, cuts))).toEqual(plainCells(countNumberCells(whole, codedMissing)));
@@ -93,10 +102,8 @@ describe('a number column counted in parts', () => {
 
   it('is profiled as the whole column is, examples of invalid cells (with their rows) included', () => {
     fc.assert(
-      fc.property(fc.array(cell, { minLength: 1, maxLength: 3000, size: 'max' }), fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { maxLength: 4 }), options, (cells, picks, chosen) => {
-        const whole = columnOf(cells);
-        const cuts = cutsOf(whole.length, picks);
-        const ends = [...cuts.slice(1), whole.length];
+      fc.property(cells, cutPicks, options, (cellList, picks, chosen) => {
+        const { whole, cuts, ends } = cutUp(cellList, picks);
         const parts = cuts.map((from, k) => partOf(whole, from, ends[k]!));
         const rowCounts = cuts.map((from, k) => ends[k]! - from);
         expect(profileNumberParts({ parts, rowCounts, index: 3, options: chosen })).toEqual(profileColumn(whole, 3, chosen));
