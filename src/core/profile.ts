@@ -252,7 +252,9 @@ function profileTextColumn(column: TextColumn, index: number, options: ProfileOp
     },
     text,
   };
-  return plain === null ? profile : withLazyLevels(profile, () => everyLevel().levels, { codes: byCount, counts, packed: column.packed! });
+  // Every level counted once (an identifier): the counts never rise, so byCount is in dictionary order.
+  const onceEach = byCount.length === nonMissing;
+  return plain === null ? profile : withLazyLevels(profile, () => everyLevel().levels, { codes: byCount, counts, packed: column.packed!, onceEach });
 }
 
 /**
@@ -264,6 +266,8 @@ export interface LevelSource {
   readonly codes: Int32Array;
   readonly counts: readonly number[];
   readonly packed: PackedTexts;
+  /** Every level is counted once, and `codes` ascend (dictionary order). */
+  readonly onceEach: boolean;
 }
 
 const levelSources = new WeakMap<ColumnProfile, LevelSource>();

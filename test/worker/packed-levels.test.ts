@@ -10,7 +10,7 @@ import { DEFAULT_PROFILE_OPTIONS, levelSourceOf, profileColumn, profileTable, pr
 import { readTable } from '../../src/core/read-table.ts';
 import { WorkbenchClient } from '../../src/worker/client.ts';
 import { createInPagePort } from '../../src/worker/in-page-port.ts';
-import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, RUN_LEVELS, RUN_TEXT_UNITS, runBuffers, unpackLevels, withPackedLevels, type PackedLevels } from '../../src/worker/packed-levels.ts';
+import { PACK_ABOVE_LEVELS, packLevels, packLevelsFromBytes, RUN_LEVELS, RUN_TEXT_UNITS, runBuffers, spanRuns, unpackLevels, withPackedLevels, type PackedLevels } from '../../src/worker/packed-levels.ts';
 import type { FromWorker } from '../../src/worker/protocol.ts';
 import { createSession, sendLongLevels, sendLongLevelsAhead } from '../../src/worker/session.ts';
 import { textColumnsOf } from '../helpers/text-columns.ts';
@@ -91,6 +91,11 @@ describe('opening a file with a column of many distinct values', () => {
   });
 });
 
+/** Each level's length from the starts that bound the levels. */
+function lengthsOf(starts: Int32Array): Uint32Array {
+  return Uint32Array.from({ length: starts.length - 1 }, (_, i) => starts[i + 1]! - starts[i]!);
+}
+
 describe('packing level lists kept as bytes', () => {
   it('property: gives the runs the levels themselves give, in the same order (fast-check)', () => {
     const cell = fc.oneof(fc.constantFrom('', 'NA', 'a', 'bb', 'x y'), fc.integer({ min: 0, max: 40 }).map((n) => `K-${n}`), fc.string({ unit: fc.integer({ min: 0x20, max: 0x7e }).map((c) => String.fromCharCode(c)), maxLength: 6 }));
@@ -101,12 +106,30 @@ describe('packing level lists kept as bytes', () => {
         expect(source).not.toBeNull();
         const fromBytes = packLevelsFromBytes(source!);
         const fromLevels = packLevels(profile.levels ?? []);
-        expect(fromBytes.map(({ lengths, counts }) => ({ lengths, counts }))).toEqual(fromLevels.map(({ lengths, counts }) => ({ lengths, counts })));
+        // The same runs, level by level; a run of levels each counted once may be spans of the storage.
+        expect(fromBytes.map((run) => ('starts' in run ? { lengths: lengthsOf(run.starts), counts: new Float64Array(run.starts.length - 1).fill(1) } : { lengths: run.lengths, counts: run.counts }))).toEqual(
+          fromLevels.map(({ lengths, counts }) => ({ lengths, counts })),
+        );
         // The same text, still as its ASCII bytes.
         expect(fromBytes.map((run) => ('ascii' in run ? new TextDecoder().decode(run.ascii) : run.text))).toEqual(fromLevels.map((run) => run.text));
         expect(unpackLevels(fromBytes)).toEqual(profile.levels);
       }),
     );
+  });
+
+  it('cuts spans of storage where level lists are cut: after RUN_LEVELS levels, or at the level that takes a run\'s text to RUN_TEXT_UNITS', () => {
+    const startsOf = (lengths: readonly number[]): Int32Array => Int32Array.from([0, ...lengths.map((_, i) => lengths.slice(0, i + 1).reduce((a, b) => a + b, 0))]);
+    const sizes = (lengths: readonly number[]): number[] => {
+      const starts = startsOf(lengths);
+      return spanRuns(new Uint8Array(starts[starts.length - 1]!), starts).map((run) => run.starts.length - 1);
+    };
+    const seven = 7 << 20; // three of them pass RUN_TEXT_UNITS (16 Mi units), two do not
+    expect(RUN_TEXT_UNITS).toBe(16 << 20);
+    expect(sizes([seven, seven, seven, seven, seven, seven])).toEqual([3, 3]);
+    // A level past the limit alone is a run of its own; the next run starts after it.
+    expect(sizes([RUN_TEXT_UNITS + 5, 1, 1])).toEqual([1, 2]);
+    expect(sizes(Array.from({ length: RUN_LEVELS + 10 }, () => 3))).toEqual([RUN_LEVELS, 10]);
+    expect(sizes([])).toEqual([]);
   });
 
   it('sends a 70,000-row identifier ahead in the same runs, without making its levels', () => {
@@ -120,12 +143,13 @@ describe('packing level lists kept as bytes', () => {
     expect(made).toBe(0);
     expect(ahead!.levels).toEqual([]);
     expect(ahead!.distinct).toBe(70_000);
-    // Runs of RUN_LEVELS levels: 65,536, then 4,464.
-    expect(sent.map((run) => run.lengths.length)).toEqual([RUN_LEVELS, 70_000 - RUN_LEVELS]);
+    // Runs of RUN_LEVELS levels: 65,536, then 4,464; every id counted once, in order: spans of the column's bytes.
+    expect(sent.map((run) => ('starts' in run ? run.starts.length - 1 : -1))).toEqual([RUN_LEVELS, 70_000 - RUN_LEVELS]);
     expect(unpackLevels(sent)).toEqual(cells.map((value) => ({ value, count: 1 })));
     // No string made here: the runs carry the bytes, moved to the page with the typed arrays.
-    expect(sent.every((run) => 'ascii' in run && run.ascii.length === run.lengths.reduce((a, b) => a + b, 0))).toBe(true);
-    expect(runBuffers(sent[0]!)).toHaveLength(3);
+    expect(sent.every((run) => 'starts' in run && run.ascii.length === run.starts[run.starts.length - 1]! - run.starts[0]!)).toBe(true);
+    expect(sent.map((run) => ('ascii' in run ? run.ascii.length : -1))).toEqual([RUN_LEVELS * 9, (70_000 - RUN_LEVELS) * 9]);
+    expect(runBuffers(sent[0]!)).toHaveLength(2);
   });
 
   it('sends a long level list while the number columns are still being profiled elsewhere, and not again with the answer', async () => {
