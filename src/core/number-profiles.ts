@@ -22,7 +22,7 @@ import type { NumberColumn, Table } from './columns.ts';
 import { missingNumbers } from './missing.ts';
 import { countNumberCells, joinNumberCells } from './number-cells.ts';
 import { releaseBuffer } from './release-buffers.ts';
-import { profileNumberCells, profileTableSharing, withInvalidExamples, type ColumnProfile, type ProfileOptions } from './profile.ts';
+import { profileNumberCells, profileTableSharing, withInvalidExamples, type ColumnProfile, type ProfileOptions, type TextProfilesListener } from './profile.ts';
 
 /** One number column's parts, in file order, with the rows each holds. */
 export interface NumberPartsRequest {
@@ -123,7 +123,7 @@ export class NumberProfiles {
    * profileTable's profiles of `table`: its number columns from the other threads where they have
    * them. `onTextProfiles`: see profileTableSharing's onHereDone.
    */
-  profile(table: Table, onTextProfiles?: (profiles: readonly (ColumnProfile | null)[]) => void): Promise<ColumnProfile[]> {
+  profile(table: Table, onTextProfiles?: TextProfilesListener): Promise<ColumnProfile[]> {
     return profileTableSharing(table, this.options, (_, index) => this.take(index), onTextProfiles);
   }
 

@@ -162,6 +162,9 @@ export function profileTable(table: Table, options: ProfileOptions = DEFAULT_PRO
  */
 export type ColumnProfiler = (column: NumberColumn, index: number, options: ProfileOptions) => Promise<ColumnProfile> | null;
 
+/** Told the text columns' profiles (null for the number columns) as soon as they are made. */
+export type TextProfilesListener = (profiles: readonly (ColumnProfile | null)[]) => void;
+
 /**
  * profileTable, with columns in number storage profiled elsewhere (other threads) where they can
  * be. Those are the costly ones per cell (a million numbers counted and sorted), cheap to send
@@ -176,7 +179,7 @@ export async function profileTableSharing(
   table: Table,
   options: ProfileOptions,
   elsewhere: ColumnProfiler,
-  onHereDone: (profiles: readonly (ColumnProfile | null)[]) => void = () => undefined,
+  onHereDone: TextProfilesListener = () => undefined,
 ): Promise<ColumnProfile[]> {
   const here = table.columns.map((column, index) => (column.kind === 'number' ? null : profileColumn(column, index, options)));
   onHereDone(here);

@@ -13,7 +13,7 @@ import { LevelwiseError } from '../core/errors.ts';
 import { DEMO_FILE_NAME, generateHouseholdEnergyCsv } from '../demo/household-energy.ts';
 import { NumberProfiles } from '../core/number-profiles.ts';
 import { releaseChunk } from '../core/release-buffers.ts';
-import type { ColumnProfile, ProfileOptions } from '../core/profile.ts';
+import type { ColumnProfile, ProfileOptions, TextProfilesListener } from '../core/profile.ts';
 import { pageLimit, tooLargeForPage, tooLargeUnpacked } from './page-limits.ts';
 import { Cancelled, type TableSource } from './protocol.ts';
 import type { Table } from '../core/columns.ts';
@@ -51,7 +51,7 @@ export interface ReadSourceOptions {
    * Given the text columns' profiles (null for the others) as soon as they are made, while the
    * number columns' are still being made on the segment workers.
    */
-  readonly onTextProfiles?: (profiles: readonly (ColumnProfile | null)[]) => void;
+  readonly onTextProfiles?: TextProfilesListener;
 }
 
 /** The start of every ZIP container, XLSX included ("PK\3\4"). */
@@ -184,11 +184,7 @@ async function readInSegments(
   settings: { delimiter: Delimiter | null; encoding: EncodingName | null },
   workers: number,
   signal: AbortSignal,
-  profiling: {
-    readonly options: ProfileOptions;
-    readonly onStart: () => void;
-    readonly onTextProfiles?: ((profiles: readonly (ColumnProfile | null)[]) => void) | undefined;
-  } | null,
+  profiling: { readonly options: ProfileOptions; readonly onStart: () => void; readonly onTextProfiles: TextProfilesListener | undefined } | null,
   onSegmentBytes: (bytes: number) => void,
 ): Promise<TextRead> {
   const pool = openSegmentPool(file, workers, signal, onSegmentBytes);

@@ -8,7 +8,7 @@
 import type { SegmentRequest, SegmentRunner } from '../core/parallel-read.ts';
 import type { SegmentResult } from '../core/read-segment.ts';
 import { NumberProfiles, requestBuffers, type NumberPartsProfiler, type NumberPartsRequest } from '../core/number-profiles.ts';
-import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
+import { profileTable, type ColumnProfile, type ProfileOptions, type TextProfilesListener } from '../core/profile.ts';
 import { arrivedTable, type Table } from '../core/columns.ts';
 import { LevelwiseError } from '../core/errors.ts';
 import { Cancelled } from './protocol.ts';
@@ -203,7 +203,7 @@ export async function profileOrHere(
   table: Table,
   options: ProfileOptions,
   signal: AbortSignal,
-  onTextProfiles?: (profiles: readonly (ColumnProfile | null)[]) => void,
+  onTextProfiles?: TextProfilesListener,
 ): Promise<ColumnProfile[]> {
   try {
     return await shared.profile(table, onTextProfiles);
