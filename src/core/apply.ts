@@ -11,8 +11,9 @@
  * The page (whole table, or a visible window of it) and the command line (streamed batches) call
  * the same functions, so they produce the same bytes.
  */
-import { cellText, type Codes, type Column, type NumberColumn, type Table, type TextColumn } from './columns.ts';
+import { cellText, type Codes, type Column, type Table, type TextColumn } from './columns.ts';
 import type { ApplyReportBuilder } from './apply-report.ts';
+import { exceptionRows } from './number-cells.ts';
 import { misshapenRows } from './row-shape.ts';
 import { ALL_ZEROS, type CategoricalPlan, type ContinuousPlan, type LevelResolution, type Plan } from './plan.ts';
 
@@ -176,7 +177,9 @@ function encodeNumbers(
   if (source?.kind === 'number' && plan.column.format.decimal === '.') {
     // Plain numbers need no text at all; only the exceptions are read as text, and the numbers
     // whose text is a missing token ("-999").
-    const flagged = exceptionRows(source, start, rows);
+    // Going through the exceptions once pays unless they far outnumber the rows (a window of a
+    // whole table): then each row is looked up instead.
+    const flagged = source.exceptions.size > 4 * rows ? null : exceptionRows(source, start, rows);
     const codedMissing = plan.missingNumbers;
     for (let r = 0; r < rows; r++) {
       let text = flagged === null || flagged[r] === 1 ? source.exceptions.get(start + r) : undefined;
@@ -199,18 +202,6 @@ function encodeNumbers(
     for (let r = 0; r < rows; r++) numberCell(plan, source === null ? '' : cellText(source, start + r), r, start, values, missing, rejected, table, report);
   }
   return { kind: 'numbers', values, missing };
-}
-
-/**
- * Which rows of [start, start + rows) hold an exception (a text kept beside the number), found by
- * going through the exceptions once; null when they are too many for that (a window of a whole
- * table), and each row is looked up instead.
- */
-function exceptionRows(source: NumberColumn, start: number, rows: number): Uint8Array | null {
-  if (source.exceptions.size > 4 * rows) return null;
-  const flagged = new Uint8Array(rows);
-  for (const row of source.exceptions.keys()) if (row >= start && row < start + rows) flagged[row - start] = 1;
-  return flagged;
 }
 
 function numberCell(

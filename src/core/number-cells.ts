@@ -150,10 +150,10 @@ function plainNumbers(values: Float64Array, byText: Uint8Array, plainCount: numb
   return plain;
 }
 
-/** 1 for each row of the column's exceptions. */
-export function exceptionRows(column: NumberColumn): Uint8Array {
-  const isException = new Uint8Array(column.length);
-  for (const row of column.exceptions.keys()) if (row >= 0 && row < column.length) isException[row] = 1;
+/** 1 for each row of [start, start + rows) that holds one of the column's exceptions, indexed by row − start. */
+export function exceptionRows(column: NumberColumn, start = 0, rows = column.length): Uint8Array {
+  const isException = new Uint8Array(rows);
+  for (const row of column.exceptions.keys()) if (row >= start && row < start + rows) isException[row - start] = 1;
   return isException;
 }
 
