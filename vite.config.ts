@@ -7,7 +7,7 @@ import react from '@vitejs/plugin-react';
  * index.html for static hosts. The dev server needs ws: for hot reload, so it is not enforced there.
  */
 export const CONTENT_SECURITY_POLICY =
-  "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; " +
+  "default-src 'none'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; " +
   "font-src 'self'; connect-src 'none'; worker-src 'self' blob:; form-action 'none'; base-uri 'none'; " +
   "object-src 'none'; frame-ancestors 'none'";
 

@@ -34,6 +34,7 @@
 import Papa from 'papaparse';
 import type { HeaderIssue } from './columns.ts';
 import { encodeUtf8, utf8Text } from './utf8-text.ts';
+import { ScanStop, wasmRecordScanner, type WasmRecordScanner } from './wasm-record-scanner.ts';
 
 export type Delimiter = ',' | '\t' | ';' | '|';
 
@@ -116,6 +117,7 @@ export function hashBytes(bytes: Uint8Array, start: number, end: number): number
 
 const EMPTY_BYTES = new Uint8Array(0);
 const EMPTY_WORDS = new DataView(EMPTY_BYTES.buffer);
+const EMPTY_INT32 = new Int32Array(0);
 
 export class RecordParser {
   private readonly sink: RecordSink;
@@ -132,6 +134,11 @@ export class RecordParser {
   private line = 1;
   /** Plain records collected for the sink (see PlainRecords); the arrays grow as needed. */
   private readonly block = recordBlock(EMPTY_BYTES, 1 << 12, 1 << 8);
+  /**
+   * The same for the WebAssembly scanner: its bounds and hashes are views of the scanner's memory
+   * while it runs; a block holds at most one record per two entries, and one more.
+   */
+  private readonly wasmBlock = recordBlock(EMPTY_BYTES, 0, BLOCK_BOUNDS / 2 + 2);
   /**
    * Records with a quoted field, handed on as plain records too: their fields' bytes, quotes taken
    * off and `""` made one quote, one after another in `bytes` (a field's end is followed by one
@@ -153,6 +160,8 @@ export class RecordParser {
   /** Where reading stopped for stopAt: the position of the first record not read. */
   private stopped: number | null = null;
   private readonly givenLineBreak: LineBreak | null;
+  /** The WebAssembly scanner, once this parser has used it. */
+  private wasmScanner: WasmRecordScanner | null = null;
 
   constructor(sink: RecordSink, options: RecordParserOptions = {}) {
     this.sink = sink;
@@ -225,7 +234,14 @@ export class RecordParser {
   /** Reads the complete records of `input` and keeps the rest for later. */
   private parse(input: Uint8Array, final: boolean): void {
     if (!this.started) this.start(input, final);
-    const consumed = this.scan(input, final);
+    let consumed: number;
+    try {
+      consumed = this.scan(input, final);
+    } finally {
+      // The WebAssembly scanner keeps a copy of `input` for the scan's next calls; whoever pushed
+      // it may reuse its bytes once this returns.
+      this.wasmScanner?.release(input);
+    }
     this.consumed += consumed;
     const rest = final || this.stopped !== null ? 0 : input.length - consumed;
     if (input.buffer === this.work.buffer) this.work.copyWithin(0, consumed, consumed + rest);
@@ -275,8 +291,74 @@ export class RecordParser {
    * quoted field (then `quotedAt` is that position too), or the start of a record the input does
    * not complete yet (when `final` is false; then, if that is `at` itself, INCOMPLETE). Hands the
    * block to the sink before returning and before anything that is not a plain record.
+   * In WebAssembly where it can be had (wasm-record-scanner.ts), else in JavaScript: the same
+   * records, bounds and hashes either way.
    */
   private scanPlainRecords(input: Uint8Array, at: number, final: boolean, limit: number): number {
+    const scanner = wasmRecordScanner();
+    if (scanner === null || scanner.busy || !scanner.hold(input, at)) return this.scanPlainRecordsInJs(input, at, final, limit);
+    this.wasmScanner = scanner;
+    scanner.busy = true;
+    try {
+      return this.scanPlainRecordsInWasm(scanner, input, at, final, limit);
+    } finally {
+      scanner.busy = false;
+    }
+  }
+
+  /** scanPlainRecords on the WebAssembly scanner, which holds `input` from `at` on. */
+  private scanPlainRecordsInWasm(scanner: WasmRecordScanner, input: Uint8Array, at: number, final: boolean, limit: number): number {
+    const n = input.length;
+    const block = this.wasmBlock;
+    block.bytes = input;
+    block.words = new DataView(input.buffer, input.byteOffset, input.byteLength);
+    const delimiter = this.delimiterByte;
+    const lineBreak = this.lineBreak === '\n' ? LF : CR;
+    const end = Math.max(0, Math.min(limit, n));
+    let b = 0;
+    let line = this.line;
+    let start = at;
+    this.quotedAt = -1;
+    let stop: ScanStop;
+    for (;;) {
+      block.bounds = scanner.bounds;
+      block.hashes = scanner.hashes;
+      stop = scanner.records(start, n, end, final, b, block.count > 0 ? block.width : 0, BLOCK_BOUNDS, delimiter, lineBreak, lineBreak === LF);
+      const added = scanner.recordsAdded;
+      for (let k = 0; k < added; k++) block.lines[block.count + k] = line + k;
+      if (added > 0) block.width = scanner.width;
+      block.count += added;
+      line += scanner.linesAdded;
+      b = scanner.entries;
+      start = scanner.start;
+      if (stop === ScanStop.full || stop === ScanStop.otherWidth || stop === ScanStop.emptyLine) {
+        // As the JavaScript loop: the block goes to the sink, and a record of another width starts the next.
+        this.flushBlock(block);
+        b = 0;
+        if (stop === ScanStop.emptyLine) {
+          this.sink.emptyLine(line++);
+          start = scanner.next;
+        }
+        continue;
+      }
+      if (stop === ScanStop.quoted) this.quotedAt = start;
+      break;
+    }
+    this.line = line;
+    this.flushBlock(block);
+    block.bytes = EMPTY_BYTES; // the block must not keep the chunk alive
+    block.words = EMPTY_WORDS;
+    block.bounds = block.hashes = EMPTY_INT32;
+    if (stop === ScanStop.tooWide) {
+      // A record of tens of thousands of fields: the JavaScript loop grows its arrays for it.
+      const rest = this.scanPlainRecordsInJs(input, start, final, limit);
+      return rest === INCOMPLETE && start !== at ? start : rest;
+    }
+    return start === at && this.quotedAt === -1 && start < n ? INCOMPLETE : start;
+  }
+
+  /** scanPlainRecords in JavaScript. */
+  private scanPlainRecordsInJs(input: Uint8Array, at: number, final: boolean, limit: number): number {
     const n = input.length;
     const block = this.block;
     block.bytes = input;
@@ -366,8 +448,7 @@ export class RecordParser {
   }
 
   /** Hands the collected plain records to the sink. */
-  private flushBlock(): void {
-    const block = this.block;
+  private flushBlock(block = this.block): void {
     if (block.count === 0) return;
     if (this.sink.plainRecords !== undefined) this.sink.plainRecords(block);
     else for (let r = 0; r < block.count; r++) this.sink.record(plainFields(block, r), block.lines[r] ?? 0, false);

@@ -76,6 +76,12 @@ export interface OpenedTable {
         readonly encoding: string;
         /** Present when the file was gzip-compressed (and unpacked while read). */
         readonly compressed?: 'gzip';
+        /**
+         * Which record scanner this worker has (core wasm-record-scanner.ts): WebAssembly, or
+         * JavaScript where the engine or the page's policy refuses WebAssembly. The records are
+         * the same; only the time differs. For tests and measurements, not shown.
+         */
+        readonly scanner: 'webassembly' | 'javascript';
       }
     | { readonly kind: 'sheet'; readonly sheet: string; readonly sheets: readonly string[] };
   /** The first structural problems (rows with too few or too many fields …); see rowIssueCount for all. */

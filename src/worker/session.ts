@@ -32,6 +32,7 @@ import {
   type ToWorker,
 } from './protocol.ts';
 import { readSource } from './read-source.ts';
+import { wasmRecordScanner } from '../core/wasm-record-scanner.ts';
 import { gzipParts } from './gzip-parts.ts';
 import { profileSharingWorkers } from './segment-pool.ts';
 import { windowTable } from './window-table.ts';
@@ -125,7 +126,7 @@ export function createSession(post: Post): Session {
         names: table.names,
         format:
           read.sheet === null
-            ? { kind: 'text', delimiter: read.read.delimiter, encoding: read.read.encoding, ...(read.compressed ? { compressed: 'gzip' as const } : {}) }
+            ? { kind: 'text', delimiter: read.read.delimiter, encoding: read.read.encoding, scanner: wasmRecordScanner() === null ? 'javascript' : 'webassembly', ...(read.compressed ? { compressed: 'gzip' as const } : {}) }
             : { kind: 'sheet', sheet: read.sheet.name, sheets: read.sheet.names },
         rowIssues: table.rowIssues.slice(0, ROW_ISSUES_LISTED),
         rowIssueCount: table.rowIssues.length,

@@ -151,6 +151,8 @@ describe.skipIf(!available)('the workbench in Chromium', () => {
     await dropFile('tickets.csv', TICKETS_CSV);
     await waitForFile('tickets.csv', 6);
     await expect.poll(() => page.getByTestId('file-summary').textContent()).toContain('comma-separated');
+    // Read with the WebAssembly record scanner: the policy served allows compiling it ('wasm-unsafe-eval').
+    expect(await page.getByTestId('file-summary').getAttribute('data-scanner')).toBe('webassembly');
     expect(await outputHeaders()).toContain('colour=red');
     await shot('02-dropped-csv');
   });

@@ -24,7 +24,7 @@ export function FileSummary({ table, isDemo, demoNote, onSheet }: FileSummaryPro
       ? `${delimiterWords(format.delimiter)}, ${format.encoding.toUpperCase()}${format.compressed === 'gzip' ? ', gzip-compressed' : ''}`
       : `sheet “${format.sheet}”`;
   return (
-    <div className="file-summary" data-testid="file-summary">
+    <div className="file-summary" data-testid="file-summary" data-scanner={format.kind === 'text' ? format.scanner : undefined}>
       <span className="file-name" title={table.fileName}>
         {isDemo ? (
           <span className="badge badge-invented" title={demoNote}>

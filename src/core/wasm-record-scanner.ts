@@ -1,0 +1,183 @@
+/**
+ * The plain-record scanner in WebAssembly (record-scanner.wat), for RecordParser.scanPlainRecords:
+ * the same bounds and hashes as its JavaScript loop, the field ends found 16 bytes at a time. On
+ * the benchmark's 1M-row file the scan took ~215 against ~350 ms (bench/README.md).
+ *
+ * One instance per thread, made when first asked for and kept: its memory holds the bounds, the
+ * hashes and a copy of the input being scanned. Where WebAssembly or its SIMD instructions are not
+ * to be had (an old engine, a Content-Security-Policy without 'wasm-unsafe-eval'), there is none
+ * and the parser scans in JavaScript; the results are the same either way.
+ */
+import { RECORD_SCANNER_WASM } from './record-scanner-wasm.ts';
+
+/** Why `records` stopped (see record-scanner.wat). */
+export const ScanStop = {
+  /** The input, or the limit, reached. */
+  end: 0,
+  /** The record at `start` has a field that starts with a quote. */
+  quoted: 1,
+  /** The record at `start` does not end in the input, and more input may come. */
+  incomplete: 2,
+  /** An empty line at `start`; the next record starts at `next`. */
+  emptyLine: 3,
+  /** The record at `start` has another width than the block's; it was not added. */
+  otherWidth: 4,
+  /** The block reached the `full` entries asked for. */
+  full: 5,
+  /** The record at `start` has more fields than the room left; it was not added. */
+  tooWide: 6,
+} as const;
+export type ScanStop = (typeof ScanStop)[keyof typeof ScanStop];
+
+/** Bounds (and hashes) the scanner's memory has room for; a block is handed on well before. */
+const ROOM_ENTRIES = (1 << 18) + (1 << 16);
+const HASHES_AT = 4 * ROOM_ENTRIES;
+const INPUT_AT = 8 * ROOM_ENTRIES;
+/** Bytes after the input that a 16-byte load may read. */
+const SLACK = 16;
+const PAGE = 1 << 16;
+
+interface ScannerExports {
+  readonly memory: WebAssembly.Memory;
+  readonly base: WebAssembly.Global;
+  readonly hashAt: WebAssembly.Global;
+  readonly outB: WebAssembly.Global;
+  readonly outStart: WebAssembly.Global;
+  readonly outNext: WebAssembly.Global;
+  readonly outRecords: WebAssembly.Global;
+  readonly outLines: WebAssembly.Global;
+  readonly outWidth: WebAssembly.Global;
+  records(start: number, n: number, limit: number, final: number, b: number, width: number, room: number, full: number, delimiter: number, lineBreak: number, lf: number): ScanStop;
+}
+
+export class WasmRecordScanner {
+  /** Entries of `bounds` and `hashes`. */
+  readonly room = ROOM_ENTRIES;
+  /** Views of the scanner's memory; made again when it grows. */
+  bounds: Int32Array<ArrayBuffer>;
+  hashes: Int32Array<ArrayBuffer>;
+  /** A scan is using the scanner (a sink that starts another parser's scan gets JavaScript). */
+  busy = false;
+  private readonly exports: ScannerExports;
+  private bytes: Uint8Array<ArrayBuffer>;
+  /** The input whose bytes from `heldFrom` on are in memory, or null. */
+  private held: Uint8Array | null = null;
+  private heldFrom = 0;
+
+  constructor(exports: ScannerExports) {
+    this.exports = exports;
+    exports.hashAt.value = HASHES_AT;
+    // Room for the bounds, the hashes and a first megabyte of input (pages not yet touched cost nothing).
+    exports.memory.grow(Math.ceil((INPUT_AT + (1 << 20)) / PAGE) - exports.memory.buffer.byteLength / PAGE);
+    const buffer = exports.memory.buffer;
+    this.bytes = new Uint8Array(buffer);
+    this.bounds = new Int32Array(buffer, 0, ROOM_ENTRIES);
+    this.hashes = new Int32Array(buffer, HASHES_AT, ROOM_ENTRIES);
+  }
+
+  /**
+   * Makes `input` from `from` on (at least) readable by the scanner: copies it unless it is there
+   * already. False when memory cannot grow to hold it; the caller then scans in JavaScript.
+   */
+  hold(input: Uint8Array, from: number): boolean {
+    if (this.held === input && this.heldFrom <= from) return true;
+    const length = input.length - from;
+    const needed = INPUT_AT + length + SLACK;
+    if (needed > this.bytes.length) {
+      try {
+        this.exports.memory.grow(Math.ceil((needed - this.bytes.length) / PAGE));
+      } catch {
+        return false;
+      }
+      this.makeViews();
+    }
+    this.bytes.set(input.subarray(from), INPUT_AT);
+    // Byte p of the input is at INPUT_AT + p − from; the scanner adds positions to this base in
+    // 32-bit arithmetic, so a base below 0 wraps round to the right addresses.
+    this.exports.base.value = (INPUT_AT - from) | 0;
+    this.held = input;
+    this.heldFrom = from;
+    return true;
+  }
+
+  /** Forgets the input held: its caller may change its bytes. */
+  release(input: Uint8Array): void {
+    if (this.held === input) this.held = null;
+  }
+
+  /** Reads records of the held input from `start`, bounds from entry `b` on (see record-scanner.wat). */
+  records(start: number, n: number, limit: number, final: boolean, b: number, width: number, full: number, delimiter: number, lineBreak: number, lf: boolean): ScanStop {
+    return this.exports.records(start, n, limit, final ? 1 : 0, b, width, this.room, full, delimiter, lineBreak, lf ? 1 : 0);
+  }
+
+  /** After `records`: where the next record starts (the one it stopped at, if any). */
+  get start(): number {
+    return this.exports.outStart.value as number;
+  }
+
+  /** After an empty line: where the record after it starts. */
+  get next(): number {
+    return this.exports.outNext.value as number;
+  }
+
+  /** After `records`: the next free entry of the bounds. */
+  get entries(): number {
+    return this.exports.outB.value as number;
+  }
+
+  /** After `records`: the records it added, the line breaks they ended with, and their width. */
+  get recordsAdded(): number {
+    return this.exports.outRecords.value as number;
+  }
+
+  get linesAdded(): number {
+    return this.exports.outLines.value as number;
+  }
+
+  get width(): number {
+    return this.exports.outWidth.value as number;
+  }
+
+  private makeViews(): void {
+    const buffer = this.exports.memory.buffer;
+    this.bytes = new Uint8Array(buffer);
+    this.bounds = new Int32Array(buffer, 0, ROOM_ENTRIES);
+    this.hashes = new Int32Array(buffer, HASHES_AT, ROOM_ENTRIES);
+  }
+}
+
+let scanner: WasmRecordScanner | null | undefined;
+let enabled = true;
+
+/**
+ * This thread's scanner; null where WebAssembly with SIMD cannot be compiled here, or while
+ * scanning in WebAssembly is switched off (useWasmScanner).
+ */
+export function wasmRecordScanner(): WasmRecordScanner | null {
+  if (!enabled) return null;
+  if (scanner === undefined) scanner = instantiate();
+  return scanner;
+}
+
+/**
+ * Switches scanning in WebAssembly on or off for this thread: the tests compare the two scanners,
+ * and LEVELWISE_NO_WASM=1 makes the command line scan in JavaScript (for measuring one against
+ * the other).
+ */
+export function useWasmScanner(on: boolean): void {
+  enabled = on;
+}
+
+function instantiate(): WasmRecordScanner | null {
+  try {
+    if (typeof WebAssembly !== 'object') return null;
+    const bytes = Uint8Array.from(atob(RECORD_SCANNER_WASM), (c) => c.charCodeAt(0));
+    // Validating first: an engine without SIMD refuses the module here rather than by throwing.
+    if (!WebAssembly.validate(bytes)) return null;
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(bytes), {});
+    return new WasmRecordScanner(instance.exports as unknown as ScannerExports);
+  } catch {
+    // Compiling refused (a Content-Security-Policy without 'wasm-unsafe-eval'): JavaScript it is.
+    return null;
+  }
+}
