@@ -21,6 +21,7 @@ export interface WasmModuleSource {
 
 export const WASM_MODULES: readonly WasmModuleSource[] = [
   { wat: 'src/core/record-scanner.wat', generated: 'src/core/record-scanner-wasm.ts', constant: 'RECORD_SCANNER_WASM' },
+  { wat: 'src/core/row-copier.wat', generated: 'src/core/row-copier-wasm.ts', constant: 'ROW_COPIER_WASM' },
 ];
 
 export function projectPath(path: string): string {

@@ -10,7 +10,7 @@ import { checkVerb } from './verbs/check.ts';
 import { draftVerb } from './verbs/draft.ts';
 import { profileVerb } from './verbs/profile.ts';
 import { sqlVerb } from './verbs/sql.ts';
-import { useWasmScanner } from '../core/wasm-record-scanner.ts';
+import { useWebAssembly } from '../core/webassembly.ts';
 
 const VERBS: Readonly<Record<string, (argv: readonly string[]) => Promise<ExitCode>>> = {
   profile: profileVerb,
@@ -23,8 +23,8 @@ const VERBS: Readonly<Record<string, (argv: readonly string[]) => Promise<ExitCo
 const wantsHelp = (argv: readonly string[]) => argv.some((a) => a === '--help' || a === '-h');
 
 export async function main(argv: readonly string[]): Promise<ExitCode> {
-  // For measuring the two record scanners against each other (DEVELOPERS.md); the reading threads do the same.
-  if (process.env['LEVELWISE_NO_WASM'] === '1') useWasmScanner(false);
+  // For measuring the WebAssembly modules against their JavaScript twins (DEVELOPERS.md); the reading threads do the same.
+  if (process.env['LEVELWISE_NO_WASM'] === '1') useWebAssembly(false);
   const [verb, ...rest] = argv;
   if (verb === undefined || verb === '--help' || verb === '-h' || verb === 'help') {
     const topic = verb === 'help' ? rest[0] : undefined;

@@ -44,7 +44,7 @@ import { COLUMNS_IN_HAND, NumberProfiles, profileNumberParts, requestBuffers, ty
 import { readInParallel, segmentReaderFor, type SegmentRequest, type SegmentRunner } from '../core/parallel-read.ts';
 import { segmentJobs, SegmentOrder, type SegmentJob } from '../core/segment-order.ts';
 import { profileTable, type ColumnProfile, type ProfileOptions } from '../core/profile.ts';
-import { useWasmScanner } from '../core/wasm-record-scanner.ts';
+import { useWebAssembly } from '../core/webassembly.ts';
 
 const ROLE = 'levelwise-reading-thread';
 const CHUNK_BYTES = 1 << 20;
@@ -540,7 +540,7 @@ function readerFailure(message: Extract<FromReader, { type: 'failed' }>): Error 
 // A reading thread: answers requests one after the other.
 
 function serve(path: string, port: NonNullable<typeof parentPort>): void {
-  if (process.env['LEVELWISE_NO_WASM'] === '1') useWasmScanner(false);
+  if (process.env['LEVELWISE_NO_WASM'] === '1') useWebAssembly(false);
   const fd = openSync(path, 'r');
   const buffer = new Uint8Array(CHUNK_BYTES);
   port.on('message', (request: ToReader) => {

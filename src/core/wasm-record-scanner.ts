@@ -4,11 +4,11 @@
  * the benchmark's 1M-row file the scan took ~215 against ~350 ms (bench/README.md).
  *
  * One instance per thread, made when first asked for and kept: its memory holds the bounds, the
- * hashes and a copy of the input being scanned. Where WebAssembly or its SIMD instructions are not
- * to be had (an old engine, a Content-Security-Policy without 'wasm-unsafe-eval'), there is none
- * and the parser scans in JavaScript; the results are the same either way.
+ * hashes and a copy of the input being scanned. Where there is none (webassembly.ts), the parser
+ * scans in JavaScript; the results are the same either way.
  */
 import { RECORD_SCANNER_WASM } from './record-scanner-wasm.ts';
+import { instantiateModule, webAssemblyEnabled } from './webassembly.ts';
 
 /** Why `records` stopped (see record-scanner.wat). */
 export const ScanStop = {
@@ -147,37 +147,13 @@ export class WasmRecordScanner {
 }
 
 let scanner: WasmRecordScanner | null | undefined;
-let enabled = true;
 
-/**
- * This thread's scanner; null where WebAssembly with SIMD cannot be compiled here, or while
- * scanning in WebAssembly is switched off (useWasmScanner).
- */
+/** This thread's scanner; null where the module cannot be had here, or while WebAssembly is switched off (webassembly.ts). */
 export function wasmRecordScanner(): WasmRecordScanner | null {
-  if (!enabled) return null;
-  if (scanner === undefined) scanner = instantiate();
-  return scanner;
-}
-
-/**
- * Switches scanning in WebAssembly on or off for this thread: the tests compare the two scanners,
- * and LEVELWISE_NO_WASM=1 makes the command line scan in JavaScript (for measuring one against
- * the other).
- */
-export function useWasmScanner(on: boolean): void {
-  enabled = on;
-}
-
-function instantiate(): WasmRecordScanner | null {
-  try {
-    if (typeof WebAssembly !== 'object') return null;
-    const bytes = Uint8Array.from(atob(RECORD_SCANNER_WASM), (c) => c.charCodeAt(0));
-    // Validating first: an engine without SIMD refuses the module here rather than by throwing.
-    if (!WebAssembly.validate(bytes)) return null;
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(bytes), {});
-    return new WasmRecordScanner(instance.exports as unknown as ScannerExports);
-  } catch {
-    // Compiling refused (a Content-Security-Policy without 'wasm-unsafe-eval'): JavaScript it is.
-    return null;
+  if (!webAssemblyEnabled()) return null;
+  if (scanner === undefined) {
+    const instance = instantiateModule(RECORD_SCANNER_WASM);
+    scanner = instance === null ? null : new WasmRecordScanner(instance.exports as unknown as ScannerExports);
   }
+  return scanner;
 }

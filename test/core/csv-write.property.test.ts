@@ -3,11 +3,11 @@
  * buffer sizes (fast-check): every written row is its cells made one by one with textCell and
  * numberCell, joined by commas and ended by CRLF (RFC 4180 §2.1, §2.4), rejected rows left out.
  * The writer's shortcuts — bytes made once per level (or per combination of adjacent columns'
- * levels), per distinct number and per text of a batch, copied eight bytes at a time, across buffer
- * flushes — must never change a byte.
+ * levels), per distinct number and per text of a batch, copied eight bytes at a time (sixteen in
+ * WebAssembly), across buffer flushes — must never change a byte.
  */
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { encodeBatch, type EncodedBatch } from '../../src/core/apply.ts';
 import { cellText, withPackedValues, type Column, type Table } from '../../src/core/columns.ts';
 import { numberCell, textCell } from '../../src/core/csv-cell.ts';
@@ -18,6 +18,8 @@ import { compilePlan, type Plan } from '../../src/core/plan.ts';
 import { profileTable } from '../../src/core/profile.ts';
 import { tableFromRows } from '../../src/core/read-table.ts';
 import { DEFAULT_MISSING_TOKENS, type MeasurementLevel, type Recipe } from '../../src/core/recipe.ts';
+import { wasmRowCopier } from '../../src/core/wasm-row-copier.ts';
+import { useWebAssembly } from '../../src/core/webassembly.ts';
 
 /**
  * Cells that test every rule of a text cell: formula starts (OWASP "CSV Injection"), quotes, commas
@@ -129,7 +131,17 @@ function written(plan: Plan, source: Table, batchRows: number, bufferBytes: numb
   return { bytes, expected, reported: writer.bytesWritten };
 }
 
-describe('the CSV writer writes what the plainest writer writes', () => {
+// The row loop runs in WebAssembly where it can (core wasm-row-copier.ts) and in JavaScript
+// elsewhere: both must write every byte the same.
+describe.each([
+  ['its row loop in WebAssembly', true],
+  ['its row loop in JavaScript', false],
+])('the CSV writer, %s, writes what the plainest writer writes', (_, webAssembly) => {
+  beforeAll(() => useWebAssembly(webAssembly));
+  afterAll(() => useWebAssembly(true));
+
+  it('has the row loop asked for', () => expect(wasmRowCopier(64) !== null).toBe(webAssembly));
+
   it('byte for byte, whatever the levels, policies, batch and buffer sizes and runs of categorical columns (the fitting file and a new one)', () => {
     fc.assert(
       fc.property(scenario, (s) => {
