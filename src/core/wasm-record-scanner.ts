@@ -33,6 +33,11 @@ export type ScanStop = (typeof ScanStop)[keyof typeof ScanStop];
 const ROOM_ENTRIES = (1 << 18) + (1 << 16);
 const HASHES_AT = 4 * ROOM_ENTRIES;
 const INPUT_AT = 8 * ROOM_ENTRIES;
+/**
+ * Input longer than this (pushed in one piece) is scanned in JavaScript: the scanner's memory keeps
+ * the size of the largest input it held, and the readers push a megabyte or so at a time.
+ */
+export const MAX_HELD_BYTES = 64 << 20;
 /** Bytes after the input that a 16-byte load may read. */
 const SLACK = 16;
 const PAGE = 1 << 16;
@@ -77,11 +82,13 @@ export class WasmRecordScanner {
 
   /**
    * Makes `input` from `from` on (at least) readable by the scanner: copies it unless it is there
-   * already. False when memory cannot grow to hold it; the caller then scans in JavaScript.
+   * already. False when that is over MAX_HELD_BYTES or memory cannot grow to hold it; the caller
+   * then scans in JavaScript.
    */
   hold(input: Uint8Array, from: number): boolean {
     if (this.held === input && this.heldFrom <= from) return true;
     const length = input.length - from;
+    if (length > MAX_HELD_BYTES) return false;
     const needed = INPUT_AT + length + SLACK;
     if (needed > this.bytes.length) {
       try {

@@ -11,7 +11,7 @@ import fc from 'fast-check';
 import { afterEach, describe, expect, it } from 'vitest';
 import { hashBytes, plainFields, RecordParser, type Delimiter, type RecordSink } from '../../src/core/parse.ts';
 import { encodeUtf8 } from '../../src/core/utf8-text.ts';
-import { wasmRecordScanner } from '../../src/core/wasm-record-scanner.ts';
+import { MAX_HELD_BYTES, wasmRecordScanner } from '../../src/core/wasm-record-scanner.ts';
 import { useWebAssembly } from '../../src/core/webassembly.ts';
 
 type Event = readonly (string | number | boolean)[];
@@ -133,6 +133,11 @@ describe('the WebAssembly record scanner', () => {
     const big = encodeUtf8(Array.from({ length: 300_000 }, (_, i) => `${i},row ${i},${i % 7}`).join('\n') + '\n');
     expect(big.length).toBeGreaterThan(4 << 20);
     expectSameEvents({ pieces: [big] });
+    // Past 64 MB in one piece, JavaScript scans it: the scanner's memory does not grow to that.
+    const scanner = wasmRecordScanner()!;
+    expect(scanner.hold(new Uint8Array(MAX_HELD_BYTES + 1), 0)).toBe(false);
+    expect(scanner.hold(big, 0)).toBe(true);
+    scanner.release(big);
     // One buffer, reused: each push must be read from the bytes it holds then, not a copy of before.
     const first = encodeUtf8('id,name\n' + 'x'.repeat(70_000) + ',1\n');
     const second = encodeUtf8('y'.repeat(70_000) + ',2\n');

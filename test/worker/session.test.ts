@@ -49,7 +49,7 @@ describe('opening a file', () => {
     const { opened, progress } = await openWatchingProgress(client, new File([SMALL_CSV], 'small.csv'));
     expect(opened.rowCount).toBe(4);
     expect(opened.names).toEqual(['id', 'colour', 'size', 'score']);
-    expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8' });
+    expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8', scanner: 'webassembly' });
     expect(opened.byteSize).toBe(SMALL_CSV.length);
     expect(progress.at(-1)).toBe(SMALL_CSV.length);
     expect(opened.profiles.map((p) => p.missing)).toEqual([0, 0, 0, 1]);
@@ -104,7 +104,7 @@ describe('opening a file', () => {
     expect(opened.profiles).toEqual(plain.profiles);
     expect(opened.draft?.columns).toEqual(plain.draft?.columns);
     expect(opened.draft?.source.file).toBe('small.csv.gz');
-    expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8', compressed: 'gzip' });
+    expect(opened.format).toEqual({ kind: 'text', delimiter: ',', encoding: 'utf-8', scanner: 'webassembly', compressed: 'gzip' });
     // The bar follows the compressed bytes.
     expect(opened.byteSize).toBe(packed.length);
     expect(progress.at(-1)).toBe(packed.length);
