@@ -10,7 +10,8 @@
  *   - a level's codes ("0,1,0", with the missing indicator): made once per plan;
  *   - a number (with its indicator): made once per distinct number and remembered across batches
  *     (formatting a double is the costliest step of writing); a number column read from a
- *     dictionary looks its number up once per code of the batch, not once per cell;
+ *     dictionary looks its number up once per code of the batch, not once per cell; one in number
+ *     storage looks it up first on a grid of the file's steps (number-piece-grid.ts), then by hash;
  *   - a text cell (an identifier): made once per code of the batch, quoted and neutralised as
  *     textCell does; plain texts (most identifiers) are copied while they are checked, from their
  *     bytes when the column kept them so (columns.ts `withPackedValues`), no string made.
@@ -27,6 +28,8 @@ import { numberCell, textCell } from './csv-cell.ts';
 import type { EncodedBatch } from './apply.ts';
 import { ALL_ZEROS, type CategoricalPlan, type Plan } from './plan.ts';
 import { wasmRowCopier, type WasmRowCopier } from './wasm-row-copier.ts';
+import { NumberPieceGrid } from './number-piece-grid.ts';
+import type { LinearTransform } from './encoders/index.ts';
 
 export const LINE_END = '\r\n';
 const DEFAULT_BUFFER_BYTES = 1 << 22;
@@ -210,11 +213,15 @@ class NumberPieces {
   private readonly pieces: Pieces;
   private readonly indicator: boolean;
   private readonly separators: Separators;
+  private readonly transform: LinearTransform;
+  /** The grid in front of the hash (number-piece-grid.ts), fitted to the first batch; null when none fits. */
+  private grid: NumberPieceGrid | null | undefined;
 
-  constructor(pieces: Pieces, indicator: boolean, separators: Separators) {
+  constructor(pieces: Pieces, indicator: boolean, separators: Separators, transform: LinearTransform) {
     this.pieces = pieces;
     this.indicator = indicator;
     this.separators = separators;
+    this.transform = transform;
   }
 
   get distinct(): number {
@@ -225,6 +232,23 @@ class NumberPieces {
     this.slots = new Int32Array(4 << 10);
     this.size = 0;
     this.longest = 0;
+    this.grid?.clear();
+  }
+
+  /** The piece of each row's number (and missing flag) into column `w` of `pieceOf`, through the grid where it can. */
+  piecesOfRows(values: Float64Array, missing: Uint8Array, rows: number, pieceOf: Int32Array, w: number, n: number): void {
+    if (this.grid === undefined) this.grid = NumberPieceGrid.fit(values, missing, rows, this.transform.center, this.transform.scale);
+    const grid = this.grid;
+    for (let r = 0, i = w; r < rows; r++, i += n) {
+      const value = values[r]!;
+      const slot = grid === null || missing[r] !== 0 ? -1 : grid.slotOf(value);
+      let piece = slot === -1 ? -1 : grid!.pieceIn(slot, value);
+      if (piece === -1) {
+        piece = this.pieceOf(value, missing[r]!);
+        if (slot !== -1) grid!.keep(slot, value, piece);
+      }
+      pieceOf[i] = piece;
+    }
   }
 
   pieceOf(value: number, missing: number): number {
@@ -496,7 +520,7 @@ class BufferedCsvWriter implements CsvWriter {
     const encoded = batch.columns[part.column];
     if (part.kind === 'numbers' && encoded?.kind === 'numbers') {
       const { values, missing, codes } = encoded;
-      if (codes === undefined) numberPieceOfRow(values, missing, part.numbers, rows, pieceOf, w, n);
+      if (codes === undefined) part.numbers.piecesOfRows(values, missing, rows, pieceOf, w, n);
       else codedNumberPieceOfRow(codes, values, missing, part.numbers, rows, pieceOf, w, n);
       return part.numbers.longest;
     }
@@ -517,10 +541,6 @@ function levelKeyOfRow(level: Int32Array, missing: Uint8Array | null, stride: nu
   else if (first >= 0 && missing !== null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = first + stride * (2 * level[r]! + 2 + missing[r]!);
   else if (missing === null) for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = pieceOf[i]! + stride * (level[r]! + 1);
   else for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = pieceOf[i]! + stride * (2 * level[r]! + 2 + missing[r]!);
-}
-
-function numberPieceOfRow(values: Float64Array, missing: Uint8Array, numbers: NumberPieces, rows: number, pieceOf: Int32Array, w: number, n: number): void {
-  for (let r = 0, i = w; r < rows; r++, i += n) pieceOf[i] = numbers.pieceOf(values[r]!, missing[r]!);
 }
 
 /** Rows of one code hold the same number and missing flag, so each code is looked up once. */
@@ -667,7 +687,7 @@ function rowParts(plan: Plan, pieces: Pieces, jointLimit: number): RowPart[] {
     if (column.kind !== 'categorical') {
       closeRun();
       const separators = separatorsOf(w);
-      parts.push(column.kind === 'continuous' ? { kind: 'numbers', column: c, numbers: new NumberPieces(pieces, column.indicator, separators) } : { kind: 'text', column: c, separators });
+      parts.push(column.kind === 'continuous' ? { kind: 'numbers', column: c, numbers: new NumberPieces(pieces, column.indicator, separators, column.transform) } : { kind: 'text', column: c, separators });
       return;
     }
     const patterns = levelPatterns(column, separatorsOf(w));

@@ -76,6 +76,23 @@ describe('sizes where the writer changes course', () => {
     expect(parts).toContain(10_000);
   });
 
+  it('numbers that share a slot of the grid in front of the number pieces, and −0 beside 0, are each written as themselves', () => {
+    // The first batch (1, 2, 3) puts the grid on whole steps; 2.4 and 2.0000001 then land in 2's
+    // slot and 1e-9 and −0 in 0's, and must not take the piece kept there (number-piece-grid.ts).
+    const fit = tableFromRows([['a'], ['1'], ['2'], ['3']]).table;
+    const recipe = recipeOf(fit, [
+      { type: 'set-level', column: 'a', level: 'continuous' },
+      { type: 'set-scaling', column: 'a', scaling: 'none' },
+    ]);
+    const cells = ['1', '2', '3', '2', '2.4', '2.0000001', '0', '1e-9', '-0', '0', '2.4', '-1', '7'];
+    // A cap of 2 values keeps the column in number storage, where the grid is used.
+    const table = tableFromRows([['a'], ...cells.map((cell) => [cell])], { dictionaryCap: 2 }).table;
+    expect(table.columns[0]?.kind).toBe('number');
+    // −0 is written as 0, as JavaScript's shortest form of the number has it (common practice for CSV).
+    const written = ['1', '2', '3', '2', '2.4', '2.0000001', '0', '1e-9', '0', '0', '2.4', '-1', '7'];
+    for (const batchRows of [3, 13]) expect(writeAll(recipe, table, batchRows).text).toBe(['a', ...written].map((line) => `${line}\r\n`).join(''));
+  });
+
   it('number columns with more distinct values than the writer remembers (2^18 in all) are written exactly', () => {
     // As-is scaling: each output cell is the shortest text of the same double, so here the input text itself.
     const fit = tableFromRows([['a', 'b'], ['0.5', '1'], ['1.25', '2'], ['2', '3']]).table;
