@@ -27,16 +27,20 @@ export function freePort(): Promise<number> {
   });
 }
 
-/** `outDirName` (under test-results/, or an absolute path) keeps parallel builds apart. */
-export async function buildAndServe(outDirName: string): Promise<ServedApp> {
+/**
+ * `outDirName` (under test-results/, or an absolute path) keeps parallel builds apart.
+ * `contentSecurityPolicy`: sent instead of the production policy (vite.config.ts), as a host might.
+ */
+export async function buildAndServe(outDirName: string, options: { contentSecurityPolicy?: string } = {}): Promise<ServedApp> {
   const outDir = resolve(RESULTS, outDirName);
   await build({ root: ROOT, logLevel: 'warn', build: { outDir, emptyOutDir: true } });
   const port = await freePort();
+  const headers = options.contentSecurityPolicy === undefined ? {} : { headers: { 'Content-Security-Policy': options.contentSecurityPolicy } };
   const server: PreviewServer = await preview({
     root: ROOT,
     logLevel: 'warn',
     build: { outDir },
-    preview: { host: '127.0.0.1', port, strictPort: true, open: false },
+    preview: { host: '127.0.0.1', port, strictPort: true, open: false, ...headers },
   });
   return {
     url: `http://127.0.0.1:${port}/`,
