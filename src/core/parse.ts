@@ -324,20 +324,20 @@ export class RecordParser {
       block.bounds = scanner.bounds;
       block.hashes = scanner.hashes;
       stop = scanner.records(start, n, end, final, b, block.count > 0 ? block.width : 0, BLOCK_BOUNDS, delimiter, lineBreak, lineBreak === LF);
-      const added = scanner.recordsAdded;
-      for (let k = 0; k < added; k++) block.lines[block.count + k] = line + k;
-      if (added > 0) block.width = scanner.width;
-      block.count += added;
-      line += scanner.linesAdded;
-      b = scanner.entries;
-      start = scanner.start;
+      const { scanned } = scanner;
+      for (let k = 0; k < scanned.records; k++) block.lines[block.count + k] = line + k;
+      if (scanned.records > 0) block.width = scanned.width;
+      block.count += scanned.records;
+      line += scanned.lines;
+      b = scanned.entries;
+      start = scanned.start;
       if (stop === ScanStop.full || stop === ScanStop.otherWidth || stop === ScanStop.emptyLine) {
         // As the JavaScript loop: the block goes to the sink, and a record of another width starts the next.
         this.flushBlock(block);
         b = 0;
         if (stop === ScanStop.emptyLine) {
           this.sink.emptyLine(line++);
-          start = scanner.next;
+          start = scanned.next;
         }
         continue;
       }

@@ -29,6 +29,20 @@ export const ScanStop = {
 } as const;
 export type ScanStop = (typeof ScanStop)[keyof typeof ScanStop];
 
+/** What a call of `records` did besides answering why it stopped. */
+export interface Scanned {
+  /** Where the next record starts (the one it stopped at, if any). */
+  start: number;
+  /** After an empty line: where the record after it starts. */
+  next: number;
+  /** The next free entry of the bounds. */
+  entries: number;
+  /** The records it added, the line breaks they ended with, and their width. */
+  records: number;
+  lines: number;
+  width: number;
+}
+
 /** Bounds (and hashes) the scanner's memory has room for; a block is handed on well before. */
 const ROOM_ENTRIES = (1 << 18) + (1 << 16);
 const HASHES_AT = 4 * ROOM_ENTRIES;
@@ -63,6 +77,8 @@ export class WasmRecordScanner {
   hashes: Int32Array<ArrayBuffer>;
   /** A scan is using the scanner (a sink that starts another parser's scan gets JavaScript). */
   busy = false;
+  /** What the last call of `records` did (one object, rewritten by each call). */
+  readonly scanned: Scanned = { start: 0, next: 0, entries: 0, records: 0, lines: 0, width: 0 };
   private readonly exports: ScannerExports;
   private bytes: Uint8Array<ArrayBuffer>;
   /** The input whose bytes from `heldFrom` on are in memory, or null. */
@@ -112,37 +128,21 @@ export class WasmRecordScanner {
     if (this.held === input) this.held = null;
   }
 
-  /** Reads records of the held input from `start`, bounds from entry `b` on (see record-scanner.wat). */
+  /**
+   * Reads records of the held input from `start`, bounds from entry `b` on (see record-scanner.wat);
+   * says why it stopped, and `scanned` what it did.
+   */
   records(start: number, n: number, limit: number, final: boolean, b: number, width: number, full: number, delimiter: number, lineBreak: number, lf: boolean): ScanStop {
-    return this.exports.records(start, n, limit, final ? 1 : 0, b, width, this.room, full, delimiter, lineBreak, lf ? 1 : 0);
-  }
-
-  /** After `records`: where the next record starts (the one it stopped at, if any). */
-  get start(): number {
-    return this.exports.outStart.value as number;
-  }
-
-  /** After an empty line: where the record after it starts. */
-  get next(): number {
-    return this.exports.outNext.value as number;
-  }
-
-  /** After `records`: the next free entry of the bounds. */
-  get entries(): number {
-    return this.exports.outB.value as number;
-  }
-
-  /** After `records`: the records it added, the line breaks they ended with, and their width. */
-  get recordsAdded(): number {
-    return this.exports.outRecords.value as number;
-  }
-
-  get linesAdded(): number {
-    return this.exports.outLines.value as number;
-  }
-
-  get width(): number {
-    return this.exports.outWidth.value as number;
+    const { exports } = this;
+    const stop = exports.records(start, n, limit, final ? 1 : 0, b, width, this.room, full, delimiter, lineBreak, lf ? 1 : 0);
+    const scanned = this.scanned;
+    scanned.start = exports.outStart.value as number;
+    scanned.next = exports.outNext.value as number;
+    scanned.entries = exports.outB.value as number;
+    scanned.records = exports.outRecords.value as number;
+    scanned.lines = exports.outLines.value as number;
+    scanned.width = exports.outWidth.value as number;
+    return stop;
   }
 
   private makeViews(): void {
