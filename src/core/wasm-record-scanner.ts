@@ -8,7 +8,7 @@
  * scans in JavaScript; the results are the same either way.
  */
 import { RECORD_SCANNER_WASM } from './record-scanner-wasm.ts';
-import { instantiateModule, webAssemblyEnabled } from './webassembly.ts';
+import { growMemory, instantiateModule, webAssemblyEnabled } from './webassembly.ts';
 
 /** Why `records` stopped (see record-scanner.wat). */
 export const ScanStop = {
@@ -54,7 +54,6 @@ const INPUT_AT = 8 * ROOM_ENTRIES;
 export const MAX_HELD_BYTES = 64 << 20;
 /** Bytes after the input that a 16-byte load may read. */
 const SLACK = 16;
-const PAGE = 1 << 16;
 
 interface ScannerExports {
   readonly memory: WebAssembly.Memory;
@@ -89,7 +88,7 @@ export class WasmRecordScanner {
     this.exports = exports;
     exports.hashAt.value = HASHES_AT;
     // Room for the bounds, the hashes and a first megabyte of input (pages not yet touched cost nothing).
-    exports.memory.grow(Math.ceil((INPUT_AT + (1 << 20)) / PAGE) - exports.memory.buffer.byteLength / PAGE);
+    if (!growMemory(exports.memory, INPUT_AT + (1 << 20))) throw new RangeError('no memory for the record scanner');
     const buffer = exports.memory.buffer;
     this.bytes = new Uint8Array(buffer);
     this.bounds = new Int32Array(buffer, 0, ROOM_ENTRIES);
@@ -107,11 +106,7 @@ export class WasmRecordScanner {
     if (length > MAX_HELD_BYTES) return false;
     const needed = INPUT_AT + length + SLACK;
     if (needed > this.bytes.length) {
-      try {
-        this.exports.memory.grow(Math.ceil((needed - this.bytes.length) / PAGE));
-      } catch {
-        return false;
-      }
+      if (!growMemory(this.exports.memory, needed)) return false;
       this.makeViews();
     }
     this.bytes.set(input.subarray(from), INPUT_AT);
@@ -160,7 +155,11 @@ export function wasmRecordScanner(): WasmRecordScanner | null {
   if (!webAssemblyEnabled()) return null;
   if (scanner === undefined) {
     const instance = instantiateModule(RECORD_SCANNER_WASM);
-    scanner = instance === null ? null : new WasmRecordScanner(instance.exports as unknown as ScannerExports);
+    try {
+      scanner = instance === null ? null : new WasmRecordScanner(instance.exports as unknown as ScannerExports);
+    } catch {
+      scanner = null; // no memory for it: the JavaScript scanner reads
+    }
   }
   return scanner;
 }

@@ -5,11 +5,10 @@
  * copied in after it (a few megabytes a batch), and the rows copied out of them into the buffer.
  */
 import { ROW_COPIER_WASM } from './row-copier-wasm.ts';
-import { instantiateModule } from './webassembly.ts';
+import { growMemory, instantiateModule } from './webassembly.ts';
 
 /** Room a copy may run into past a piece's bytes and past the output (see row-copier.wat). */
 const SLACK = 16;
-const PAGE = 1 << 16;
 
 interface CopierExports {
   readonly memory: WebAssembly.Memory;
@@ -74,12 +73,7 @@ export class WasmRowCopier {
 
   /** Grows the memory to at least `bytes` (false when it cannot); the buffer's view is made again when it did. */
   private reserve(bytes: number): boolean {
-    const have = this.exports.memory.buffer.byteLength;
-    try {
-      if (bytes > have) this.exports.memory.grow(Math.ceil((bytes - have) / PAGE));
-    } catch {
-      return false;
-    }
+    if (!growMemory(this.exports.memory, bytes)) return false;
     if (this.memory !== this.exports.memory.buffer || this.bufferView.length === 0) {
       this.memory = this.exports.memory.buffer;
       this.bufferView = new Uint8Array(this.memory, 0, this.outBytes);

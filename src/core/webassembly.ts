@@ -32,6 +32,23 @@ export function instantiateModule(base64: string): WebAssembly.Instance | null {
   return module === null ? null : new WebAssembly.Instance(module, {});
 }
 
+const PAGE = 1 << 16;
+
+/**
+ * Grows `memory` to hold at least `bytes`; false when the engine refuses (out of memory), the
+ * memory then as it was. Views of the memory must be made again after it grew.
+ */
+export function growMemory(memory: WebAssembly.Memory, bytes: number): boolean {
+  const have = memory.buffer.byteLength;
+  if (bytes <= have) return true;
+  try {
+    memory.grow(Math.ceil((bytes - have) / PAGE));
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 function compile(base64: string): WebAssembly.Module | null {
   try {
     if (typeof WebAssembly !== 'object') return null;
